@@ -1,0 +1,1 @@
+"""Physics components of voltwake: one discipline per module, analytic partials throughout."""
