@@ -5,7 +5,7 @@ import openmdao.api as om
 from openmdao.utils.assert_utils import assert_check_partials
 
 
-def check_component_partials(component, inputs, outputs=None, atol=1e-8, rtol=1e-8):
+def check_component_partials(component, inputs, outputs=None, atol=1e-14, rtol=1e-8):
     """
     Check the analytic partials of ``component`` against complex step.
 
@@ -19,7 +19,9 @@ def check_component_partials(component, inputs, outputs=None, atol=1e-8, rtol=1e
     outputs : dict or None
         For implicit components: output (state) name -> value at which to check.
     atol, rtol : float
-        Tolerances passed to ``assert_check_partials``.
+        Tolerances passed to ``assert_check_partials`` (elementwise |a - b| <= atol + rtol |b|);
+        atol is tiny by default so that small partials are checked relatively too, while
+        partials that are zero in exact arithmetic may carry round-off.
 
     Returns
     -------

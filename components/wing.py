@@ -1,0 +1,140 @@
+"""Wing span from planform and the lift coefficient needed to carry the weight."""
+
+import numpy as np
+
+from voltwake.components.base import PointwiseComponent
+
+#: Standard acceleration of gravity, m/s**2 (ISO 80000-3).
+G0 = 9.80665
+
+
+class WingGeometryComp(PointwiseComponent):
+    """
+    Wing span from reference area and aspect ratio.
+
+    .. math::
+
+        b = \\sqrt{A S}
+
+    (definition of aspect ratio A = b**2 / S, common practice).
+
+    Parameters
+    ----------
+    **kwargs : dict of keyword arguments
+        Keyword arguments that will be mapped into the Component options.
+    """
+
+    def setup(self):
+        """
+        Add inputs and outputs.
+        """
+        n = self.options['vec_size']
+        self.add_input('wing_area', np.full(n, 120.0), units='m**2',
+                       desc='Wing reference area')
+        self.add_input('aspect_ratio', np.full(n, 9.5), units=None, desc='Wing aspect ratio')
+        self.add_output('wingspan', np.full(n, 33.8), units='m', desc='Wing span')
+
+    def setup_partials(self):
+        """
+        Declare the diagonal partials.
+        """
+        self.declare_diagonal_partials('wingspan', ['wing_area', 'aspect_ratio'])
+
+    def compute(self, inputs, outputs):
+        """
+        Compute the span.
+
+        Parameters
+        ----------
+        inputs : Vector
+            Unscaled, dimensional input variables read via inputs[key].
+        outputs : Vector
+            Unscaled, dimensional output variables read via outputs[key].
+        """
+        outputs['wingspan'] = np.sqrt(inputs['aspect_ratio'] * inputs['wing_area'])
+
+    def compute_partials(self, inputs, partials):
+        """
+        Compute the analytic partials.
+
+        Parameters
+        ----------
+        inputs : Vector
+            Unscaled, dimensional input variables read via inputs[key].
+        partials : Jacobian
+            Sub-jac components written to partials[output_name, input_name].
+        """
+        span = np.sqrt(inputs['aspect_ratio'] * inputs['wing_area'])
+        partials['wingspan', 'wing_area'] = 0.5 * inputs['aspect_ratio'] / span
+        partials['wingspan', 'aspect_ratio'] = 0.5 * inputs['wing_area'] / span
+
+
+class LiftCoefficientComp(PointwiseComponent):
+    """
+    Lift coefficient for level flight, lift equal to weight.
+
+    .. math::
+
+        C_L = \\frac{m g_0}{q S}
+
+    (definition of the lift coefficient, common practice; g0 = 9.80665 m/s**2, the standard
+    acceleration of gravity of ISO 80000-3).
+
+    Parameters
+    ----------
+    **kwargs : dict of keyword arguments
+        Keyword arguments that will be mapped into the Component options.
+    """
+
+    def setup(self):
+        """
+        Add inputs and outputs.
+        """
+        n = self.options['vec_size']
+        self.add_input('mass', np.full(n, 6.0e4), units='kg',
+                       desc='Aircraft mass (its weight is the lift to be generated)')
+        self.add_input('dynamic_pressure', np.full(n, 1.0e4), units='Pa',
+                       desc='Flight dynamic pressure')
+        self.add_input('wing_area', np.full(n, 120.0), units='m**2',
+                       desc='Wing reference area')
+        self.add_output('lift_coefficient', np.full(n, 0.5), units=None,
+                        desc='Lift coefficient on wing reference area')
+
+    def setup_partials(self):
+        """
+        Declare the diagonal partials.
+        """
+        self.declare_diagonal_partials('lift_coefficient',
+                                       ['mass', 'dynamic_pressure', 'wing_area'])
+
+    def compute(self, inputs, outputs):
+        """
+        Compute the lift coefficient.
+
+        Parameters
+        ----------
+        inputs : Vector
+            Unscaled, dimensional input variables read via inputs[key].
+        outputs : Vector
+            Unscaled, dimensional output variables read via outputs[key].
+        """
+        outputs['lift_coefficient'] = G0 * inputs['mass'] / (
+            inputs['dynamic_pressure'] * inputs['wing_area'])
+
+    def compute_partials(self, inputs, partials):
+        """
+        Compute the analytic partials.
+
+        Parameters
+        ----------
+        inputs : Vector
+            Unscaled, dimensional input variables read via inputs[key].
+        partials : Jacobian
+            Sub-jac components written to partials[output_name, input_name].
+        """
+        q = inputs['dynamic_pressure']
+        area = inputs['wing_area']
+        lift_coefficient = G0 * inputs['mass'] / (q * area)
+        partials['lift_coefficient', 'mass'] = G0 / (q * area)
+        partials['lift_coefficient', 'dynamic_pressure'] = -lift_coefficient / q
+        partials['lift_coefficient', 'wing_area'] = -lift_coefficient / area

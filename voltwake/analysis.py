@@ -1,0 +1,306 @@
+"""
+Build, run and read the sizing model for one configuration.
+
+This is the scripting front door for analysis: :func:`build_model_problem` gives the
+OpenMDAO problem with every configured input set, :func:`analyze` converges it and returns
+an :class:`AnalysisResult`.
+"""
+
+import dataclasses
+import math
+
+import numpy as np
+import openmdao.api as om
+from openmdao.core.analysis_error import AnalysisError
+
+from voltwake.models.aircraft import AircraftModel
+
+from .config import load_config
+from .errors import NotClosedError
+
+#: Result fields: name -> (promoted model output, units), for every design.
+FIELDS = {
+    'mtow_kg': ('mtow', 'kg'),
+    'oew_kg': ('oew', 'kg'),
+    'payload_kg': ('payload', 'kg'),
+    'block_fuel_kg': ('block_fuel', 'kg'),
+    'reserve_fuel_kg': ('reserve_fuel', 'kg'),
+    'total_fuel_kg': ('total_fuel', 'kg'),
+    'block_energy_MJ': ('block_energy', 'MJ'),
+    'airframe_mass_kg': ('airframe_mass', 'kg'),
+    'propulsion_mass_kg': ('propulsion_mass', 'kg'),
+    'engines_mass_kg': ('engines_mass', 'kg'),
+    'cruise_lift_to_drag': ('lift_to_drag', None),
+    'cruise_cl': ('lift_coefficient', None),
+    'cruise_drag_kN': ('drag', 'kN'),
+    'zero_lift_drag_coefficient': ('zero_lift_drag_coefficient', None),
+    'tsfc_g_per_kN_s': ('tsfc', 'g/(kN*s)'),
+    'overall_efficiency': ('overall_efficiency', None),
+    'wingspan_m': ('wingspan', 'm'),
+    'wing_area_m2': ('wing_area', 'm**2'),
+    'turbofan_fan_diameter_m': ('turbofan_fan_diameter', 'm'),
+    'turbofan_rated_thrust_kN': ('turbofan_rated_thrust', 'kN'),
+    'turbofan_cruise_thrust_kN': ('turbofan_thrust', 'kN'),
+    'turbofan_shaft_power_kW': ('turbofan_shaft_power', 'kW'),
+    'fuselage_drag_kN': ('fuselage_drag', 'kN'),
+}
+
+#: Extra fields of a design with a wake-ingesting aft fan (zero for a conventional one).
+AFT_FAN_FIELDS = {
+    'aft_thrust_fraction': ('aft_thrust_fraction', None),
+    'power_saving_coefficient': ('power_saving_coefficient', None),
+    'aft_fan_shaft_power_kW': ('aft_shaft_power', 'kW'),
+    'aft_fan_reference_shaft_power_kW': ('aft_reference_shaft_power', 'kW'),
+    'aft_fan_diameter_m': ('aft_fan_diameter', 'm'),
+    'aft_fan_thrust_kN': ('aft_fan_thrust', 'kN'),
+    'aft_fan_mass_kg': ('aft_fan_mass', 'kg'),
+    'capture_height_m': ('capture_height', 'm'),
+    'boundary_layer_thickness_m': ('boundary_layer_thickness', 'm'),
+    'turbofan_power_extraction_kW': ('generator_input_power', 'kW'),
+    'electrical_chain_efficiency': ('electrical_chain_efficiency', None),
+    'electrical_mass_kg': ('electrical_mass', 'kg'),
+    'thermal_load_kW': ('thermal_load', 'kW'),
+    'cable_current_A': ('cable_current', 'A'),
+    'cable_efficiency': ('cable_efficiency', None),
+    'motor_mass_kg': ('motor_mass', 'kg'),
+    'generator_mass_kg': ('generator_mass', 'kg'),
+    'cable_mass_kg': ('cable_mass', 'kg'),
+    'thermal_mass_kg': ('thermal_mass', 'kg'),
+}
+
+
+@dataclasses.dataclass
+class AnalysisResult:
+    """
+    Converged results of one design.
+
+    Parameters
+    ----------
+    name : str
+        Name of the design.
+    converged : bool
+        True when the sizing loop closed.
+    values : dict
+        Field name -> value (see :data:`FIELDS` and :data:`AFT_FAN_FIELDS`).
+    iterations : int
+        Newton iterations of the sizing loop.
+    problem : om.Problem or None
+        The OpenMDAO problem, for scripting.
+    """
+
+    name: str
+    converged: bool
+    values: dict
+    iterations: int = 0
+    problem: object = None
+
+    def __getattr__(self, key):
+        """
+        Give the result fields as attributes (``result.mtow_kg``).
+
+        Parameters
+        ----------
+        key : str
+            Field name.
+
+        Returns
+        -------
+        float
+            The value.
+        """
+        values = self.__dict__.get('values', {})
+        if key in values:
+            return values[key]
+        raise AttributeError(key)
+
+    def to_dict(self):
+        """
+        Return the result as a plain JSON-ready mapping.
+
+        Returns
+        -------
+        dict
+            ``name``, ``converged``, ``newton_iterations`` and every field.
+        """
+        return {'name': self.name, 'converged': self.converged,
+                'newton_iterations': self.iterations, **self.values}
+
+
+def build_model_problem(config, vec_size=1, driver=None):
+    """
+    Return a set-up OpenMDAO problem of the sizing model with the configured inputs set.
+
+    Parameters
+    ----------
+    config : Config, dict, str or None
+        The configuration (see :func:`voltwake.load_config`).
+    vec_size : int
+        Number of design points solved at once (all start from the configured values).
+    driver : om.Driver or None
+        Driver to attach before setup.
+
+    Returns
+    -------
+    om.Problem
+        The problem, set up, with inputs set and an initial guess in place.
+    """
+    config = load_config(config)
+    model = AircraftModel(vec_size=vec_size, **config.model_options())
+    prob = om.Problem(model, reports=False)
+    if driver is not None:
+        prob.driver = driver
+    set_model_inputs(prob, config, setup=True)
+    return prob
+
+
+def set_model_inputs(prob, config, setup=False):
+    """
+    Set every configured input of the model, declaring their defaults before setup.
+
+    Parameters
+    ----------
+    prob : om.Problem
+        The problem (not yet set up when ``setup`` is True).
+    config : Config
+        The configuration.
+    setup : bool
+        Declare input defaults, set up the problem, then set values.
+    """
+    inputs = config.model_inputs()
+    if setup:
+        for name, (value, units) in inputs.items():
+            prob.model.set_input_defaults(name, value, units=units)
+        prob.setup(force_alloc_complex=True)
+    for name, (value, units) in inputs.items():
+        prob.set_val(name, value, units=units)
+
+
+def read_fields(prob, aft_fan, index=0):
+    """
+    Read the result fields of point ``index`` from a run problem.
+
+    Parameters
+    ----------
+    prob : om.Problem
+        A problem that has been run.
+    aft_fan : bool
+        Whether the design has an aft fan.
+    index : int
+        Design point.
+
+    Returns
+    -------
+    dict
+        Field name -> float.
+    """
+    out = {}
+    for key, (name, units) in FIELDS.items():
+        out[key] = float(np.real(prob.get_val(name, units=units)[index]))
+    for key, (name, units) in AFT_FAN_FIELDS.items():
+        out[key] = (float(np.real(prob.get_val(name, units=units)[index])) if aft_fan
+                    else (1.0 if key in ('electrical_chain_efficiency',
+                                         'cable_efficiency') else 0.0))
+    return out
+
+
+def closure_problem(prob, aft_fan):
+    """
+    Say why a design did not close, from the state the failed solve left behind.
+
+    Parameters
+    ----------
+    prob : om.Problem
+        The problem after a failed or suspicious solve.
+    aft_fan : bool
+        Whether the design has an aft fan.
+
+    Returns
+    -------
+    str or None
+        A one-line reason, or None when the converged state is physical.
+    """
+    def val(name):
+        return np.real(prob.get_val(name))
+
+    mtow, payload = val('mtow'), val('payload')
+    if not np.all(np.isfinite(mtow)) or np.any(mtow > 50.0 * payload):
+        return (f'the sizing loop did not close: MTOW ran away to {np.max(mtow):.4g} kg '
+                '(weight grows without bound)')
+    if np.any(mtow <= 0) or np.any(val('total_fuel') <= 0) or np.any(val('oew') <= 0):
+        return ('the sizing loop did not close: no positive MTOW satisfies the mass balance '
+                '(weight grows without bound)')
+    spec = val('turbofan_specific_thrust')
+    if np.any(spec <= 0):
+        return ('the sizing loop did not close: the under-wing fan gives no thrust '
+                '(jet velocity not above flight speed; raise the fan pressure ratio)')
+    if aft_fan:
+        if np.any(val('aft_specific_thrust') <= 0):
+            return ('the sizing loop did not close: the aft fan gives no thrust (jet velocity '
+                    'not above the ingested flow velocity; raise its pressure ratio)')
+        if np.any(val('capture_height') <= 0):
+            return ('the sizing loop did not close: no capture height satisfies the aft fan '
+                    'mass flow')
+        if np.any(val('cable_efficiency') <= 0):
+            return 'the sizing loop did not close: the cable loses all the power it carries'
+    if np.any(val('lift_to_drag') <= 0):
+        return 'the sizing loop did not close: negative lift-to-drag ratio'
+    return None
+
+
+def run_sizing(prob, aft_fan):
+    """
+    Run the model and raise :class:`NotClosedError` with a reason when it does not close.
+
+    Parameters
+    ----------
+    prob : om.Problem
+        The set-up problem.
+    aft_fan : bool
+        Whether the design has an aft fan.
+
+    Returns
+    -------
+    int
+        Newton iterations used.
+    """
+    solver = prob.model.sizing.nonlinear_solver
+    try:
+        with np.errstate(all='ignore'):
+            prob.run_model()
+    except AnalysisError:
+        reason = closure_problem(prob, aft_fan)
+        raise NotClosedError(reason or (
+            'the sizing loop did not close within '
+            f"{solver.options['maxiter']} Newton iterations")) from None
+    reason = closure_problem(prob, aft_fan)
+    if reason:
+        raise NotClosedError(reason)
+    return solver._iter_count
+
+
+def analyze(config=None, overrides=None, keep_problem=True):
+    """
+    Converge the sizing loop of one design and return its results.
+
+    Parameters
+    ----------
+    config : Config, dict, str or None
+        The configuration; None for the packaged turbo-electric demo.
+    overrides : dict or list of str or None
+        Dotted key path -> value applied before validation.
+    keep_problem : bool
+        Keep the OpenMDAO problem on the result (``result.problem``).
+
+    Returns
+    -------
+    AnalysisResult
+        The converged design.
+    """
+    config = load_config(config, overrides)
+    prob = build_model_problem(config)
+    iterations = run_sizing(prob, config.has_aft_fan)
+    values = read_fields(prob, config.has_aft_fan)
+    if not all(math.isfinite(v) for v in values.values()):
+        raise NotClosedError('the sizing loop returned non-finite values')
+    return AnalysisResult(config.name, True, values, iterations,
+                          prob if keep_problem else None)

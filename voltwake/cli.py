@@ -1,0 +1,108 @@
+"""
+The ``voltwake`` command.
+
+Every error a user can cause ends in one line on standard error and a documented exit
+code (see README.md): 0 success, 2 bad input, 3 design did not close, 4 optimiser failed,
+5 derivative check above tolerance, 130 interrupted.
+"""
+
+import argparse
+import json
+import os
+import sys
+
+from . import errors
+from .errors import VoltwakeError
+
+
+def _config_arg(parser):
+    parser.add_argument('config', nargs='?', default=None,
+                        help='aircraft YAML file (default: the packaged turbo-electric demo)')
+    parser.add_argument('--set', dest='overrides', action='append', default=[],
+                        metavar='KEY.PATH=VALUE',
+                        help="override one config value, e.g. --set 'mission.range=1200 nmi'")
+
+
+def _parser():
+    parser = argparse.ArgumentParser(
+        prog='voltwake',
+        description='Conceptual sizing and optimisation of turbo-electric airliners with a '
+                    'wake-ingesting aft fan. Conceptual estimates only.')
+    sub = parser.add_subparsers(dest='command', required=True)
+
+    p = sub.add_parser('analyze', help='close the sizing loop of one design and summarise it')
+    _config_arg(p)
+    p.add_argument('--json', action='store_true', help='print one JSON object')
+
+    p = sub.add_parser('compare', help='compare a design with its conventional reference')
+    _config_arg(p)
+    p.add_argument('--json', action='store_true', help='print one JSON object')
+
+    p = sub.add_parser('derivs', help='check partial and total derivatives against '
+                                      'complex step')
+    _config_arg(p)
+    p.add_argument('--tolerance', type=float, default=1e-6,
+                   help='largest relative error accepted (default 1e-6)')
+    return parser
+
+
+def _cmd_analyze(args):
+    from .analysis import analyze
+    from .summary import analysis_text
+    result = analyze(args.config, args.overrides, keep_problem=False)
+    print(json.dumps(result.to_dict(), indent=2) if args.json else analysis_text(result))
+    return errors.EXIT_OK
+
+
+def _cmd_compare(args):
+    from .compare import compare
+    from .summary import comparison_text
+    comp = compare(args.config, args.overrides)
+    print(json.dumps(comp.to_dict(), indent=2) if args.json
+          else comparison_text(comp.design, comp.reference, comp.change_percent))
+    return errors.EXIT_OK
+
+
+def _cmd_derivs(args):
+    from .config import load_config
+    from .derivatives import check_derivatives
+    worst = check_derivatives(load_config(args.config, args.overrides))
+    if max(worst['worst_partial'], worst['worst_total']) > args.tolerance:
+        print(f'voltwake: derivative check failed: relative error above {args.tolerance:g}',
+              file=sys.stderr)
+        return errors.EXIT_DERIVATIVE_CHECK
+    print(f'derivative check passed (tolerance {args.tolerance:g})')
+    return errors.EXIT_OK
+
+
+COMMANDS = {'analyze': _cmd_analyze, 'compare': _cmd_compare, 'derivs': _cmd_derivs}
+
+
+def main(argv=None):
+    """
+    Run the ``voltwake`` command.
+
+    Parameters
+    ----------
+    argv : list of str or None
+        Arguments (default: ``sys.argv[1:]``).
+
+    Returns
+    -------
+    int
+        The exit code.
+    """
+    os.environ.setdefault('OPENMDAO_REPORTS', '0')
+    args = _parser().parse_args(argv)
+    try:
+        return COMMANDS[args.command](args)
+    except VoltwakeError as err:
+        print(f'voltwake: error: {err.message}', file=sys.stderr)
+        return err.exit_code
+    except KeyboardInterrupt:
+        print('voltwake: interrupted', file=sys.stderr)
+        return errors.EXIT_INTERRUPTED
+
+
+if __name__ == '__main__':
+    sys.exit(main())

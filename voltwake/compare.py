@@ -1,0 +1,89 @@
+"""Side-by-side comparison of a turbo-electric design with its conventional reference."""
+
+import dataclasses
+
+from .analysis import analyze
+from .config import load_config
+
+#: Fields whose percentage change is reported.
+CHANGED = ('block_fuel_kg', 'total_fuel_kg', 'mtow_kg', 'oew_kg', 'cruise_lift_to_drag',
+           'tsfc_g_per_kN_s', 'overall_efficiency', 'block_energy_MJ', 'propulsion_mass_kg',
+           'engines_mass_kg', 'turbofan_fan_diameter_m', 'cruise_drag_kN')
+
+
+@dataclasses.dataclass
+class Comparison:
+    """
+    A design and its conventional reference.
+
+    Parameters
+    ----------
+    design : AnalysisResult
+        The turbo-electric design.
+    reference : AnalysisResult
+        The same configuration with the aft fan removed.
+    change_percent : dict
+        Field -> 100 (design - reference) / reference.
+    """
+
+    design: object
+    reference: object
+    change_percent: dict
+
+    @property
+    def fuel_burn_change_percent(self):
+        """float: Block-fuel change of the design versus the reference, in percent."""
+        return self.change_percent['block_fuel_kg']
+
+    def to_dict(self):
+        """
+        Return the comparison as a JSON-ready mapping.
+
+        Returns
+        -------
+        dict
+            ``design``, ``reference``, ``change_percent`` and ``fuel_burn_change_percent``.
+        """
+        return {'design': self.design.to_dict(), 'reference': self.reference.to_dict(),
+                'change_percent': dict(self.change_percent),
+                'fuel_burn_change_percent': self.fuel_burn_change_percent}
+
+
+def percent_changes(design_values, reference_values):
+    """
+    Return the percentage change of each compared field.
+
+    Parameters
+    ----------
+    design_values, reference_values : dict
+        Field -> value.
+
+    Returns
+    -------
+    dict
+        Field -> percent change.
+    """
+    return {key: 100.0 * (design_values[key] - reference_values[key]) / reference_values[key]
+            for key in CHANGED if reference_values[key] != 0.0}
+
+
+def compare(config=None, overrides=None):
+    """
+    Analyse a design and its conventional reference (the aft fan removed) side by side.
+
+    Parameters
+    ----------
+    config : Config, dict, str or None
+        The configuration; None for the packaged turbo-electric demo.
+    overrides : dict or list of str or None
+        Dotted key path -> value applied before validation.
+
+    Returns
+    -------
+    Comparison
+        Both designs and the percentage changes.
+    """
+    config = load_config(config, overrides)
+    design = analyze(config, keep_problem=False)
+    reference = analyze(config.without_aft_fan(), keep_problem=False)
+    return Comparison(design, reference, percent_changes(design.values, reference.values))

@@ -1,0 +1,80 @@
+"""Errors a user can cause, each with its documented exit code."""
+
+#: Exit codes of the ``voltwake`` command (documented in README.md).
+EXIT_OK = 0
+EXIT_INTERNAL = 1
+EXIT_BAD_INPUT = 2
+EXIT_NOT_CLOSED = 3
+EXIT_OPTIMIZER_FAILED = 4
+EXIT_DERIVATIVE_CHECK = 5
+EXIT_INTERRUPTED = 130
+
+
+class VoltwakeError(Exception):
+    """
+    Base class of the errors that end a command with a one-line message.
+
+    Parameters
+    ----------
+    message : str
+        The one-line message shown to the user.
+    """
+
+    exit_code = EXIT_INTERNAL
+
+    def __init__(self, message):
+        super().__init__(message)
+        self.message = message
+
+
+class ConfigError(VoltwakeError):
+    """
+    A configuration file or override that cannot be used as given.
+
+    Parameters
+    ----------
+    message : str
+        What is wrong and what was expected.
+    source : str or None
+        File name (or ``<dict>``/``--set``) the value came from.
+    line : int or None
+        1-based line of the offending key or value, when known.
+    path : str or None
+        Dotted key path of the offending entry.
+    """
+
+    exit_code = EXIT_BAD_INPUT
+
+    def __init__(self, message, source=None, line=None, path=None):
+        where = source or '<config>'
+        if line is not None:
+            where += f':{line}'
+        full = f'{where}: {path}: {message}' if path else f'{where}: {message}'
+        super().__init__(full)
+        self.source, self.line, self.path, self.detail = source, line, path, message
+
+
+class NotClosedError(VoltwakeError):
+    """
+    The sizing loop did not close (no consistent design was found).
+
+    Parameters
+    ----------
+    message : str
+        Which quantity ran away, or why no solution exists.
+    """
+
+    exit_code = EXIT_NOT_CLOSED
+
+
+class OptimizationError(VoltwakeError):
+    """
+    The optimiser did not reach a feasible optimum.
+
+    Parameters
+    ----------
+    message : str
+        The optimiser's message and what was found.
+    """
+
+    exit_code = EXIT_OPTIMIZER_FAILED

@@ -1,0 +1,207 @@
+"""
+The configuration schema: every key a config may hold, its kind, units and limits.
+
+Each entry of :data:`SECTIONS` maps a key to a :class:`Field`. ``target`` names the
+model input the value feeds (promoted name in :class:`voltwake.models.aircraft.AircraftModel`);
+fields with no target set model options (counts, choices). Values are stored in SI
+(``units``); a config may give any unit OpenMDAO can convert to it.
+"""
+
+from dataclasses import dataclass
+
+REQUIRED = object()
+
+
+@dataclass(frozen=True)
+class Field:
+    """
+    One configuration key.
+
+    Parameters
+    ----------
+    kind : str
+        'quantity' (float with units), 'number' (dimensionless float), 'integer',
+        'choice' or 'text'.
+    doc : str
+        What the key means.
+    units : str or None
+        SI units the value is stored in (quantities only).
+    default : object
+        Default value (SI) or REQUIRED.
+    check : str or None
+        Physical limit: 'positive', 'nonnegative', 'fraction' (0 < x <= 1),
+        'open_fraction' (0 < x < 1), 'unit_fraction' (0 <= x < 1), 'at_least_one'.
+    target : str or None
+        Promoted model input fed by this value.
+    choices : tuple
+        Allowed values of a 'choice'.
+    """
+
+    kind: str
+    doc: str
+    units: str = None
+    default: object = REQUIRED
+    check: str = None
+    target: str = None
+    choices: tuple = ()
+
+
+def _q(units, doc, target, check='positive', default=REQUIRED):
+    return Field('quantity', doc, units=units, default=default, check=check, target=target)
+
+
+def _n(doc, target, check='positive', default=REQUIRED):
+    return Field('number', doc, default=default, check=check, target=target)
+
+
+#: Conductor materials: resistivity at 20 degC (ohm m) and density (kg/m**3).
+#: CRC Handbook of Chemistry and Physics, tables of electrical resistivity of pure metals and
+#: of densities of the elements (from memory): copper 1.68e-8 ohm m, 8960 kg/m**3;
+#: aluminium 2.65e-8 ohm m, 2700 kg/m**3.
+CONDUCTORS = {
+    'copper': {'resistivity': 1.68e-8, 'density': 8960.0},
+    'aluminium': {'resistivity': 2.65e-8, 'density': 2700.0},
+}
+
+_DEVICE = {
+    'efficiency': _n('efficiency at cruise (output / input power)', None, check='fraction'),
+    'specific_power': _q('W/kg', 'rated power per unit mass', None),
+}
+
+
+def _device(name):
+    return {key: Field(f.kind, f.doc, f.units, f.default, f.check, f'{name}_{key}')
+            for key, f in _DEVICE.items()}
+
+
+SECTIONS = {
+    'aircraft': Field('text', 'name of the design, used in reports', default='unnamed design'),
+    'mission': {
+        'range': _q('m', 'design range (cruise distance)', 'range'),
+        'payload': _q('kg', 'design payload', 'payload'),
+        'cruise_mach': _n('cruise Mach number', 'mach', check='open_fraction'),
+        'cruise_altitude': _q('m', 'cruise altitude (geopotential, ISA), 0 to 20 km',
+                              'altitude', check='nonnegative'),
+        'takeoff_fraction': _n('mass fraction over engine start, taxi and take-off',
+                               'takeoff_fraction', check='fraction'),
+        'climb_fraction': _n('mass fraction over the climb', 'climb_fraction', check='fraction'),
+        'landing_fraction': _n('mass fraction over descent, landing and taxi',
+                               'landing_fraction', check='fraction'),
+    },
+    'reserves': {
+        'diversion_range': _q('m', 'distance to the alternate aerodrome', 'diversion_range',
+                              check='nonnegative'),
+        'hold_time': _q('s', 'holding time', 'hold_time', check='nonnegative'),
+        'hold_speed': _q('m/s', 'true airspeed in the hold', 'hold_speed'),
+        'contingency_fraction': _n('contingency fuel as a fraction of trip fuel',
+                                   'contingency_fraction', check='unit_fraction'),
+    },
+    'fuel': {
+        'heating_value': _q('J/kg', 'lower heating value of the fuel', 'fuel_heating_value'),
+    },
+    'wing': {
+        'area': _q('m**2', 'reference wing area', 'wing_area'),
+        'aspect_ratio': _n('wing aspect ratio', 'aspect_ratio'),
+        'oswald_efficiency': _n('Oswald span efficiency', 'oswald_efficiency', check='fraction'),
+    },
+    'fuselage': {
+        'diameter': _q('m', 'maximum fuselage diameter', 'fuselage_diameter'),
+        'fineness_ratio': _n('fuselage length / diameter', 'fuselage_fineness_ratio'),
+        'interference_factor': _n('interference factor of the fuselage drag',
+                                  'fuselage_interference_factor', default=1.0),
+    },
+    'drag': {
+        'cd0_other': _n('zero-lift drag coefficient of wing, tails and the rest (on wing area)',
+                        'cd0_other', check='nonnegative'),
+    },
+    'structure': {
+        'airframe_mass_coefficient': _n('c in airframe mass = c * MTOW**k (kg)',
+                                        'airframe_mass_coefficient'),
+        'airframe_mass_exponent': _n('k in airframe mass = c * MTOW**k (kg)',
+                                     'airframe_mass_exponent'),
+    },
+    'turbofans': {
+        'count': Field('integer', 'number of under-wing turbofans', default=2,
+                       check='at_least_one'),
+        'fan_pressure_ratio': _n('fan pressure ratio', 'turbofan_fan_pressure_ratio'),
+        'fan_efficiency': _n('fan isentropic efficiency', 'turbofan_fan_efficiency',
+                             check='fraction'),
+        'fan_face_mach': _n('axial Mach number at the fan face', 'turbofan_fan_face_mach',
+                            check='open_fraction'),
+        'hub_to_tip_ratio': _n('fan hub-to-tip radius ratio', 'turbofan_hub_to_tip_ratio',
+                               check='unit_fraction'),
+        'core_thermal_efficiency': _n('core shaft power delivered / fuel power',
+                                      'core_thermal_efficiency', check='fraction'),
+        'rated_to_cruise_thrust': _n('rated sea-level static thrust / cruise thrust',
+                                     'rated_to_cruise_thrust', check='at_least_one'),
+        'thrust_to_weight': _n('rated thrust / installed engine weight', 'thrust_to_weight'),
+        'nacelle_diameter_ratio': _n('nacelle maximum diameter / fan diameter',
+                                     'turbofan_nacelle_diameter_ratio', check='at_least_one'),
+        'nacelle_fineness_ratio': _n('nacelle length / nacelle diameter',
+                                     'turbofan_nacelle_fineness_ratio'),
+        'nacelle_interference_factor': _n('interference factor of the nacelle drag',
+                                          'turbofan_nacelle_interference_factor', default=1.3),
+    },
+}
+
+#: Sections that may be left out: with no ``aft_fan`` the aircraft is conventional.
+OPTIONAL_SECTIONS = {'aft_fan', 'electrical', 'optimization', 'solver'}
+
+SECTIONS['aft_fan'] = {
+    'thrust_fraction': _n('share of the cruise net thrust produced by the aft fan',
+                          'aft_thrust_fraction', check='unit_fraction'),
+    'fan_pressure_ratio': _n('aft-fan pressure ratio', 'aft_fan_pressure_ratio'),
+    'fan_efficiency': _n('aft-fan isentropic efficiency', 'aft_fan_efficiency',
+                         check='fraction'),
+    'fan_face_mach': _n('axial Mach number at the aft-fan face', 'aft_fan_face_mach',
+                        check='open_fraction'),
+    'hub_to_tip_ratio': _n('aft-fan hub-to-tip radius ratio', 'aft_fan_hub_to_tip_ratio',
+                           check='unit_fraction'),
+    'station_diameter_ratio': _n('fuselage diameter at the fan station / maximum diameter',
+                                 'station_diameter_ratio', check='fraction'),
+    'profile_exponent': Field('number', 'n of the power-law boundary-layer profile',
+                              default=7.0, check='positive'),
+    'fan_areal_mass': _q('kg/m**2', 'fan, casing and shaft mass per fan face area',
+                         'aft_fan_areal_mass'),
+    'nacelle_areal_mass': _q('kg/m**2', 'aft nacelle mass per wetted area',
+                             'aft_nacelle_areal_mass'),
+    'structure_fraction': _n('extra tail-cone structure / (fan + nacelle mass)',
+                             'aft_structure_fraction', check='nonnegative'),
+    'nacelle_diameter_ratio': _n('aft nacelle diameter / fan diameter',
+                                 'aft_nacelle_diameter_ratio', check='at_least_one'),
+    'nacelle_fineness_ratio': _n('aft nacelle length / nacelle diameter',
+                                 'aft_nacelle_fineness_ratio'),
+    'nacelle_interference_factor': _n('interference factor of the aft nacelle drag',
+                                      'aft_nacelle_interference_factor', default=1.0),
+}
+
+SECTIONS['electrical'] = {
+    'sizing_factor': _n('rated power / cruise power of the electrical devices',
+                        'electrical_sizing_factor', check='at_least_one'),
+    'generator': _device('generator'),
+    'rectifier': _device('rectifier'),
+    'inverter': _device('inverter'),
+    'motor': _device('motor'),
+    'cable': {
+        'voltage': _q('V', 'DC bus voltage', 'cable_voltage'),
+        'length': _q('m', 'one-way cable length from generators to motor', 'cable_length'),
+        'conductor': Field('choice', 'conductor material', default='copper',
+                           choices=tuple(CONDUCTORS)),
+        'current_density_limit': _q('A/m**2', 'conductor current density at rated current',
+                                    'cable_current_density_limit'),
+        'mass_factor': _n('cable mass / conductor mass (insulation, shield, supports)',
+                          'cable_mass_factor', check='at_least_one'),
+    },
+    'thermal': {
+        'specific_mass': _q('kg/W', 'thermal-management mass per unit heat load',
+                            'thermal_specific_mass', check='nonnegative'),
+        'drag_per_power': _q('N/W', 'drag penalty per unit heat rejected',
+                             'thermal_drag_per_power', check='nonnegative', default=0.0),
+    },
+}
+
+SECTIONS['solver'] = {
+    'max_iterations': Field('integer', 'Newton iteration limit of the sizing loop',
+                            default=30, check='at_least_one'),
+    'tolerance': _n('relative residual tolerance of the sizing loop', None, default=1e-10),
+}

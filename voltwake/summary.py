@@ -1,0 +1,93 @@
+"""Plain-text summaries of results for the terminal."""
+
+CAUTION = ('Conceptual estimates only: not for certification, flight or operational decisions; '
+           'defer to the applicable airworthiness regulations and licensed engineering practice.')
+
+_ROWS = [
+    ('Masses', [('MTOW', 'mtow_kg', 'kg', '{:,.0f}'), ('OEW', 'oew_kg', 'kg', '{:,.0f}'),
+                ('  airframe', 'airframe_mass_kg', 'kg', '{:,.0f}'),
+                ('  propulsion', 'propulsion_mass_kg', 'kg', '{:,.0f}'),
+                ('    turbofans', 'engines_mass_kg', 'kg', '{:,.0f}'),
+                ('    aft fan', 'aft_fan_mass_kg', 'kg', '{:,.0f}'),
+                ('    electrical (incl. thermal)', 'electrical_mass_kg', 'kg', '{:,.0f}'),
+                ('Payload', 'payload_kg', 'kg', '{:,.0f}')]),
+    ('Fuel', [('Block (trip) fuel', 'block_fuel_kg', 'kg', '{:,.0f}'),
+              ('Reserve fuel', 'reserve_fuel_kg', 'kg', '{:,.0f}'),
+              ('Total fuel', 'total_fuel_kg', 'kg', '{:,.0f}'),
+              ('Block energy', 'block_energy_MJ', 'MJ', '{:,.0f}')]),
+    ('Cruise', [('Lift coefficient', 'cruise_cl', '', '{:.4f}'),
+                ('Lift-to-drag ratio', 'cruise_lift_to_drag', '', '{:.3f}'),
+                ('Drag', 'cruise_drag_kN', 'kN', '{:.3f}'),
+                ('TSFC', 'tsfc_g_per_kN_s', 'g/(kN s)', '{:.3f}'),
+                ('Overall efficiency', 'overall_efficiency', '', '{:.4f}'),
+                ('Wing span', 'wingspan_m', 'm', '{:.2f}')]),
+    ('Turbofans (each)', [('Fan diameter', 'turbofan_fan_diameter_m', 'm', '{:.3f}'),
+                          ('Cruise net thrust', 'turbofan_cruise_thrust_kN', 'kN', '{:.3f}'),
+                          ('Rated thrust', 'turbofan_rated_thrust_kN', 'kN', '{:.2f}')]),
+    ('Aft fan and electrical chain', [
+        ('Thrust fraction', 'aft_thrust_fraction', '', '{:.4f}'),
+        ('Power saving coefficient', 'power_saving_coefficient', '', '{:.4f}'),
+        ('Shaft power', 'aft_fan_shaft_power_kW', 'kW', '{:,.1f}'),
+        ('Fan diameter', 'aft_fan_diameter_m', 'm', '{:.3f}'),
+        ('Capture height', 'capture_height_m', 'm', '{:.4f}'),
+        ('Boundary-layer thickness', 'boundary_layer_thickness_m', 'm', '{:.4f}'),
+        ('Turbofan power extraction', 'turbofan_power_extraction_kW', 'kW', '{:,.1f}'),
+        ('Chain efficiency', 'electrical_chain_efficiency', '', '{:.4f}'),
+        ('Thermal load', 'thermal_load_kW', 'kW', '{:,.1f}'),
+        ('Cable current', 'cable_current_A', 'A', '{:,.1f}')]),
+]
+
+
+def analysis_text(result):
+    """
+    Format one converged design.
+
+    Parameters
+    ----------
+    result : AnalysisResult
+        The design.
+
+    Returns
+    -------
+    str
+        The summary.
+    """
+    values = result.values
+    lines = [f'{result.name}', f'  sizing loop closed in {result.iterations} Newton iterations']
+    for title, rows in _ROWS:
+        if title.startswith('Aft fan') and values.get('aft_thrust_fraction', 0.0) == 0.0:
+            continue
+        lines.append(title)
+        for label, key, unit, fmt in rows:
+            lines.append(f'  {label:<32s}{fmt.format(values[key]):>14s} {unit}')
+    lines.append(CAUTION)
+    return '\n'.join(lines)
+
+
+def comparison_text(design, reference, diff):
+    """
+    Format a turbo-electric design beside its conventional reference.
+
+    Parameters
+    ----------
+    design, reference : AnalysisResult
+        The two designs.
+    diff : dict
+        Field -> percentage difference (design vs reference).
+
+    Returns
+    -------
+    str
+        The side-by-side table.
+    """
+    lines = [f'{"":34s}{"turbo-electric":>16s}{"reference":>16s}{"change":>10s}']
+    for title, rows in _ROWS:
+        lines.append(title)
+        for label, key, unit, fmt in rows:
+            a, b = design.values[key], reference.values[key]
+            change = f'{diff[key]:+.2f}%' if key in diff else ''
+            lines.append(f'  {label + (" [" + unit + "]" if unit else ""):<32s}'
+                         f'{fmt.format(a):>16s}{fmt.format(b):>16s}{change:>10s}')
+    lines.append(f'Block fuel change versus the reference: {diff["block_fuel_kg"]:+.2f}%')
+    lines.append(CAUTION)
+    return '\n'.join(lines)

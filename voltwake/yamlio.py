@@ -1,0 +1,129 @@
+"""
+Safe YAML reading that keeps line numbers and refuses hostile or ambiguous documents.
+
+Only PyYAML's safe loader is used. On top of it this module refuses files above a
+size limit, duplicate keys (PyYAML silently keeps the last one) and documents whose
+alias expansion would explode (the "billion laughs" pattern), and records the line
+of every key so that validation errors can point at it.
+"""
+
+import os
+
+import yaml
+
+from .errors import ConfigError
+
+#: Largest configuration file accepted, in bytes.
+MAX_FILE_BYTES = 1_000_000
+#: Largest number of nodes a document may expand to once aliases are followed.
+MAX_NODES = 100_000
+
+
+class _LineLoader(yaml.SafeLoader):
+    """Safe loader; the composed node tree is walked by :func:`_build`."""
+
+
+def _build(node, loader, path, lines, budget, source):
+    budget[0] -= 1
+    if budget[0] < 0:
+        raise ConfigError(f'document expands to more than {MAX_NODES} nodes (alias expansion '
+                          'too large); refusing it', source=source, line=node.start_mark.line + 1)
+    if isinstance(node, yaml.MappingNode):
+        out = {}
+        for key_node, value_node in node.value:
+            if not isinstance(key_node, yaml.ScalarNode):
+                raise ConfigError('mapping keys must be plain words', source=source,
+                                  line=key_node.start_mark.line + 1, path='.'.join(path) or None)
+            if key_node.tag == 'tag:yaml.org,2002:merge':
+                raise ConfigError('merge keys (<<) are not supported', source=source,
+                                  line=key_node.start_mark.line + 1, path='.'.join(path) or None)
+            key = str(loader.construct_object(key_node))
+            sub = path + (key,)
+            if key in out:
+                raise ConfigError(f'duplicate key (first given on line {lines[sub]})',
+                                  source=source, line=key_node.start_mark.line + 1,
+                                  path='.'.join(sub))
+            lines[sub] = key_node.start_mark.line + 1
+            out[key] = _build(value_node, loader, sub, lines, budget, source)
+        return out
+    if isinstance(node, yaml.SequenceNode):
+        items = []
+        for i, item in enumerate(node.value):
+            sub = path + (str(i),)
+            lines[sub] = item.start_mark.line + 1
+            items.append(_build(item, loader, sub, lines, budget, source))
+        return items
+    return loader.construct_object(node)
+
+
+def parse_yaml(text, source='<string>'):
+    """
+    Parse one YAML document safely, keeping the line of every key.
+
+    Parameters
+    ----------
+    text : str
+        The document.
+    source : str
+        Name used in error messages.
+
+    Returns
+    -------
+    data : object
+        The parsed document (dicts, lists, scalars).
+    lines : dict
+        Tuple key path -> 1-based line number.
+    """
+    loader = _LineLoader(text)
+    try:
+        node = loader.get_single_node()
+    except yaml.YAMLError as err:
+        mark = getattr(err, 'problem_mark', None)
+        line = mark.line + 1 if mark is not None else None
+        problem = getattr(err, 'problem', None) or str(err).splitlines()[0]
+        raise ConfigError(f'not valid YAML: {problem}', source=source, line=line) from None
+    finally:
+        loader.dispose()
+    if node is None:
+        raise ConfigError('the file is empty; expected a mapping of sections', source=source)
+    lines = {}
+    try:
+        data = _build(node, loader, (), lines, [MAX_NODES], source)
+    except yaml.YAMLError as err:
+        raise ConfigError(f'not valid YAML: {str(err).splitlines()[0]}', source=source) from None
+    return data, lines
+
+
+def read_yaml_file(path):
+    """
+    Read and parse a YAML file with the limits of this module.
+
+    Parameters
+    ----------
+    path : str or os.PathLike
+        The file.
+
+    Returns
+    -------
+    data : object
+        The parsed document.
+    lines : dict
+        Tuple key path -> 1-based line number.
+    """
+    source = os.fspath(path)
+    try:
+        size = os.path.getsize(source)
+        if size > MAX_FILE_BYTES:
+            raise ConfigError(f'file is {size} bytes; the limit is {MAX_FILE_BYTES} bytes',
+                              source=source)
+        with open(source, 'rb') as handle:
+            raw = handle.read()
+    except OSError as err:
+        raise ConfigError(f'cannot read the file ({err.strerror})', source=source) from None
+    if b'\x00' in raw:
+        raise ConfigError('binary file (contains NUL bytes); expected YAML text', source=source)
+    try:
+        text = raw.decode('utf-8')
+    except UnicodeDecodeError:
+        raise ConfigError('not UTF-8 text; expected a YAML file', source=source) from None
+    return parse_yaml(text, source)
