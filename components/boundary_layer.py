@@ -273,7 +273,7 @@ class IngestedFlowComp(PointwiseComponent):
                         desc='Mass flow captured from the wall up to the capture height.')
         self.add_output('ingested_momentum_flow', 2.0e4 * np.ones(n), units='N',
                         desc='Momentum flow of the captured stream.')
-        self.add_output('ingested_kinetic_energy_flow', 2.0e6 * np.ones(n), units='W',
+        self.add_output('ingested_kinetic_energy_flow', 2.0e6 * np.ones(n), units='W', ref=1e6,
                         desc='Kinetic energy flow of the captured stream.')
         self.add_output('ram_velocity', 200.0 * np.ones(n), units='m/s',
                         desc='Momentum-averaged inflow velocity (sets the ram drag).')

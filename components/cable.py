@@ -72,9 +72,9 @@ class CableComp(PointwiseComponent):
         self.add_input('mass_factor', 1.6 * np.ones(n), units=None,
                        desc='Total cable mass / conductor mass (insulation, shield, support).')
 
-        self.add_output('input_power', 1.0e6 * np.ones(n), units='W',
+        self.add_output('input_power', 1.0e6 * np.ones(n), units='W', ref=1e6,
                         desc='Power fed into the cable at the source end at cruise.')
-        self.add_output('loss', 1.0e3 * np.ones(n), units='W',
+        self.add_output('loss', 1.0e3 * np.ones(n), units='W', ref=1e6,
                         desc='Resistive loss of both conductors at cruise.')
         self.add_output('efficiency', np.ones(n), units=None,
                         desc='Output power / input power.')

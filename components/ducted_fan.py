@@ -96,7 +96,7 @@ class DuctedFanComp(PointwiseComponent):
                         desc='Net thrust per unit mass flow, V_jet - V_ram')
         self.add_output('mass_flow', 160.0 * ones, units='kg/s',
                         desc='Fan mass flow')
-        self.add_output('shaft_power', 5.0e6 * ones, units='W',
+        self.add_output('shaft_power', 5.0e6 * ones, units='W', ref=1e6,
                         desc='Shaft power absorbed by the fan')
         self.add_output('fan_diameter', 1.7 * ones, units='m',
                         desc='Fan tip diameter')

@@ -45,11 +45,11 @@ class ElectricalDeviceComp(PointwiseComponent):
         self.add_input('sizing_factor', np.ones(n), units=None,
                        desc='Rated power / cruise output power (>= 1).')
 
-        self.add_output('input_power', 1.0e6 * np.ones(n), units='W',
+        self.add_output('input_power', 1.0e6 * np.ones(n), units='W', ref=1e6,
                         desc='Power the device receives at cruise.')
-        self.add_output('loss', 1.0e4 * np.ones(n), units='W',
+        self.add_output('loss', 1.0e4 * np.ones(n), units='W', ref=1e6,
                         desc='Power dissipated as heat at cruise.')
-        self.add_output('rated_power', 1.0e6 * np.ones(n), units='W',
+        self.add_output('rated_power', 1.0e6 * np.ones(n), units='W', ref=1e6,
                         desc='Rated power the device delivers (shaft or electrical).')
         self.add_output('mass', 100.0 * np.ones(n), units='kg', desc='Device mass.')
 

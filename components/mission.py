@@ -90,7 +90,7 @@ class MissionFuelComp(PointwiseComponent):
                         desc='Aircraft mass at mid-cruise')
         self.add_output('landing_mass', np.full(n, 60000.0), units='kg',
                         desc='Aircraft mass at landing after the trip')
-        self.add_output('block_energy', np.full(n, 4.3e11), units='J',
+        self.add_output('block_energy', np.full(n, 4.3e11), units='J', ref=1e11,
                         desc='Fuel energy of the trip fuel')
 
     def setup_partials(self):

@@ -166,7 +166,9 @@ def set_model_inputs(prob, config, setup=False):
     setup : bool
         Declare input defaults, set up the problem, then set values.
     """
-    inputs = config.model_inputs()
+    size = prob.model.options['vec_size']
+    inputs = {name: (np.full(size, value), units)
+              for name, (value, units) in config.model_inputs().items()}
     if setup:
         for name, (value, units) in inputs.items():
             prob.model.set_input_defaults(name, value, units=units)
@@ -222,28 +224,24 @@ def closure_problem(prob, aft_fan):
     def val(name):
         return np.real(prob.get_val(name))
 
+    closed = 'the sizing loop did not close: '
+    if not np.all(val('turbofan_specific_thrust') > 0):
+        return closed + ('the under-wing fan gives no thrust (jet velocity not above flight '
+                         'speed; raise the fan pressure ratio)')
+    if aft_fan and not np.all(val('aft_specific_thrust') > 0):
+        return closed + ('the aft fan gives no thrust (jet velocity not above the ingested '
+                         'flow velocity; raise its pressure ratio)')
     mtow, payload = val('mtow'), val('payload')
     if not np.all(np.isfinite(mtow)) or np.any(mtow > 50.0 * payload):
-        return (f'the sizing loop did not close: MTOW ran away to {np.max(mtow):.4g} kg '
-                '(weight grows without bound)')
+        return closed + f'MTOW ran away to {np.max(mtow):.4g} kg (weight grows without bound)'
     if np.any(mtow <= 0) or np.any(val('total_fuel') <= 0) or np.any(val('oew') <= 0):
-        return ('the sizing loop did not close: no positive MTOW satisfies the mass balance '
-                '(weight grows without bound)')
-    spec = val('turbofan_specific_thrust')
-    if np.any(spec <= 0):
-        return ('the sizing loop did not close: the under-wing fan gives no thrust '
-                '(jet velocity not above flight speed; raise the fan pressure ratio)')
-    if aft_fan:
-        if np.any(val('aft_specific_thrust') <= 0):
-            return ('the sizing loop did not close: the aft fan gives no thrust (jet velocity '
-                    'not above the ingested flow velocity; raise its pressure ratio)')
-        if np.any(val('capture_height') <= 0):
-            return ('the sizing loop did not close: no capture height satisfies the aft fan '
-                    'mass flow')
-        if np.any(val('cable_efficiency') <= 0):
-            return 'the sizing loop did not close: the cable loses all the power it carries'
-    if np.any(val('lift_to_drag') <= 0):
-        return 'the sizing loop did not close: negative lift-to-drag ratio'
+        return closed + 'no positive MTOW satisfies the mass balance (weight grows without bound)'
+    if aft_fan and not np.all(val('capture_height') > 0):
+        return closed + 'no capture height satisfies the aft-fan mass flow'
+    if aft_fan and not np.all(val('cable_efficiency') > 0):
+        return closed + 'the cable loses all the power it carries'
+    if not np.all(val('lift_to_drag') > 0):
+        return closed + 'no positive lift-to-drag ratio'
     return None
 
 

@@ -102,6 +102,12 @@ def main(argv=None):
     except KeyboardInterrupt:
         print('voltwake: interrupted', file=sys.stderr)
         return errors.EXIT_INTERRUPTED
+    except Exception as err:  # noqa: BLE001 - last resort: one line, not a traceback
+        if os.environ.get('VOLTWAKE_DEBUG'):
+            raise
+        print(f'voltwake: internal error: {type(err).__name__}: {err} '
+              '(set VOLTWAKE_DEBUG=1 for the traceback)', file=sys.stderr)
+        return errors.EXIT_INTERNAL
 
 
 if __name__ == '__main__':
