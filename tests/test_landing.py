@@ -52,8 +52,8 @@ def test_hand_calculation():
 
 
 def test_trends():
-    base = dict(landing_mass=[60e3] * 3, wing_area=[122.0] * 3,
-                max_lift_coefficient_landing=[2.7] * 3, density=[1.225] * 3)
+    base = {'landing_mass': [60e3] * 3, 'wing_area': [122.0] * 3,
+            'max_lift_coefficient_landing': [2.7] * 3, 'density': [1.225] * 3}
     more_lift = _run(**{**base, 'max_lift_coefficient_landing': [2.4, 2.7, 3.0]})
     assert np.all(np.diff(more_lift.get_val('approach_speed')) < 0.0)
     assert np.all(np.diff(more_lift.get_val('landing_field_length')) < 0.0)

@@ -47,18 +47,19 @@ def test_hand_calculation_in_imperial_units():
     thrust_lbf = thrust / LBF
     top_imperial = (weight_lbf / area_ft2) / (sigma * cl_max * thrust_lbf / weight_lbf)
     tofl_ft = 37.5 * top_imperial
-    np.testing.assert_allclose(prob.get_val('takeoff_field_length', units='ft'), [tofl_ft],
+    # Back to SI with the exact unit definitions above.
+    np.testing.assert_allclose(prob.get_val('takeoff_field_length'), [tofl_ft * FT],
                                rtol=1e-12)
-    np.testing.assert_allclose(prob.get_val('takeoff_parameter', units='lbf/ft**2'),
-                               [top_imperial], rtol=1e-12)
+    np.testing.assert_allclose(prob.get_val('takeoff_parameter'),
+                               [top_imperial * LBF / FT ** 2], rtol=1e-12)
     np.testing.assert_allclose(prob.get_val('wing_loading'), [mass * G0 / area], rtol=1e-12)
     np.testing.assert_allclose(prob.get_val('thrust_to_weight'), [thrust / (mass * G0)],
                                rtol=1e-12)
 
 
 def test_trends():
-    base = dict(mtow=[67e3] * 3, wing_area=[122.0] * 3, takeoff_thrust=[1.7e5] * 3,
-                max_lift_coefficient_takeoff=[2.2] * 3, density_ratio=[1.0] * 3)
+    base = {'mtow': [67e3] * 3, 'wing_area': [122.0] * 3, 'takeoff_thrust': [1.7e5] * 3,
+            'max_lift_coefficient_takeoff': [2.2] * 3, 'density_ratio': [1.0] * 3}
     more_thrust = _run(**{**base, 'takeoff_thrust': [1.5e5, 1.7e5, 1.9e5]})
     assert np.all(np.diff(more_thrust.get_val('takeoff_field_length')) < 0.0)
     more_lift = _run(**{**base, 'max_lift_coefficient_takeoff': [2.0, 2.2, 2.4]})
