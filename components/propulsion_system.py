@@ -69,3 +69,83 @@ class PropulsionSystemComp(PointwiseComponent):
         count = self.options['num_engines']
         outputs['fuel_flow'] = count * inputs['engine_fuel_flow']
         outputs['engine_power_extraction'] = inputs['shaft_power_extracted'] / count
+
+
+class InstalledThrustComp(PointwiseComponent):
+    """
+    Installed rated (sea-level static) thrust of all propulsors.
+
+    math::
+        T_{inst} = N T_{rated,engine} + r T_{aft,cruise}
+
+    The aft fan is taken to offer the same rated-to-cruise thrust ratio r as the turbofans
+    (its motor and electrical chain are rated by the electrical sizing factor); a simple
+    conceptual assumption (common practice for a first sizing pass).
+
+    Parameters
+    ----------
+    **kwargs : dict of keyword arguments
+        Keyword arguments that will be mapped into the Component options.
+    """
+
+    def initialize(self):
+        """
+        Declare options.
+        """
+        super().initialize()
+        self.options.declare('num_engines', types=int, default=2, lower=1,
+                             desc='Number of under-wing turbofans')
+
+    def setup(self):
+        """
+        Add inputs and outputs.
+        """
+        n = self.options['vec_size']
+        self.add_input('turbofan_rated_thrust', val=9.0e4 * np.ones(n), units='N',
+                       desc='Rated sea-level static thrust of one turbofan')
+        self.add_input('aft_fan_thrust', val=np.zeros(n), units='N',
+                       desc='Aft-fan net thrust at cruise')
+        self.add_input('rated_to_cruise_thrust', val=5.0 * np.ones(n), units=None,
+                       desc='Rated sea-level static thrust / cruise thrust')
+        self.add_output('installed_thrust', val=1.8e5 * np.ones(n), units='N', ref=1e5,
+                        desc='Installed rated thrust of all propulsors')
+
+    def setup_partials(self):
+        """
+        Declare diagonal partials.
+        """
+        idx = np.arange(self.options['vec_size'])
+        self.declare_partials('installed_thrust', 'turbofan_rated_thrust', rows=idx, cols=idx,
+                              val=float(self.options['num_engines']))
+        self.declare_diagonal_partials('installed_thrust',
+                                       ['aft_fan_thrust', 'rated_to_cruise_thrust'])
+
+    def compute(self, inputs, outputs):
+        """
+        Compute the installed thrust.
+
+        Parameters
+        ----------
+        inputs : Vector
+            Unscaled, dimensional input variables read via inputs[key].
+        outputs : Vector
+            Unscaled, dimensional output variables read via outputs[key].
+        """
+        outputs['installed_thrust'] = (self.options['num_engines']
+                                       * inputs['turbofan_rated_thrust']
+                                       + inputs['rated_to_cruise_thrust']
+                                       * inputs['aft_fan_thrust'])
+
+    def compute_partials(self, inputs, partials):
+        """
+        Compute the partials.
+
+        Parameters
+        ----------
+        inputs : Vector
+            Unscaled, dimensional input variables read via inputs[key].
+        partials : Jacobian
+            Sub-jac components written to partials[output_name, input_name].
+        """
+        partials['installed_thrust', 'aft_fan_thrust'] = inputs['rated_to_cruise_thrust']
+        partials['installed_thrust', 'rated_to_cruise_thrust'] = inputs['aft_fan_thrust']

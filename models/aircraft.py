@@ -12,18 +12,23 @@ import openmdao.api as om
 from voltwake.components.aft_fan_mass import AftFanMassComp
 from voltwake.components.atmosphere import AtmosphereComp, FlightConditionComp
 from voltwake.components.body_drag import BodyDragComp
+from voltwake.components.buffet import BuffetMarginComp
 from voltwake.components.boundary_layer import FuselageBoundaryLayerComp, IngestedFlowComp
 from voltwake.components.cable import CableComp
+from voltwake.components.climb import ThrustLapseComp, TopOfClimbComp
 from voltwake.components.capture_height import CaptureHeightComp, initial_capture_height
 from voltwake.components.drag_polar import DragPolarComp
 from voltwake.components.ducted_fan import DuctedFanComp
 from voltwake.components.electrical_device import ElectricalDeviceComp
 from voltwake.components.electrical_summary import ElectricalSummaryComp
+from voltwake.components.landing import LandingComp
 from voltwake.components.mission import MissionFuelComp
 from voltwake.components.nacelle import NacelleGeometryComp
 from voltwake.components.overall_efficiency import OverallEfficiencyComp
 from voltwake.components.power_saving import PowerSavingComp
-from voltwake.components.propulsion_system import PropulsionSystemComp
+from voltwake.components.propulsion_system import InstalledThrustComp, PropulsionSystemComp
+from voltwake.components.ratings import DiameterLimitComp, RatingMarginComp
+from voltwake.components.takeoff import TakeoffFieldLengthComp
 from voltwake.components.thermal_management import ThermalManagementComp
 from voltwake.components.thrust_split import ThrustSplitComp
 from voltwake.components.turbofan_core import EngineMassComp, TurbofanCoreComp
@@ -401,6 +406,73 @@ class SizingLoop(om.Group):
                 self.options['profile_exponent'])
 
 
+class PerformanceGroup(om.Group):
+    """
+    Performance constraints of the sized aircraft: field lengths, climb, buffet, ratings.
+
+    The installed sea-level static thrust counts the turbofans and the aft fan at the same
+    rated-to-cruise thrust ratio. Top of climb is
+    flown at cruise altitude and Mach number at MTOW (conservative) with the cruise L/D.
+
+    Parameters
+    ----------
+    **kwargs : dict of keyword arguments
+        Keyword arguments that will be mapped into the Group options.
+    """
+
+    def initialize(self):
+        """
+        Declare options.
+        """
+        self.options.declare('vec_size', types=int, default=1, lower=1,
+                             desc='Number of independent design points.')
+        self.options.declare('num_engines', types=int, default=2, lower=1,
+                             desc='Number of under-wing turbofans.')
+        self.options.declare('aft_fan', types=bool, default=False,
+                             desc='Include the aft-fan and electrical ratings.')
+
+    def setup(self):
+        """
+        Add the constraint components.
+        """
+        n, count = self.options['vec_size'], self.options['num_engines']
+        _add(self, 'installed', InstalledThrustComp(vec_size=n, num_engines=count),
+             ['turbofan_rated_thrust', 'aft_fan_thrust', 'rated_to_cruise_thrust'],
+             ['installed_thrust'])
+        _add(self, 'takeoff', TakeoffFieldLengthComp(vec_size=n),
+             ['mtow', 'wing_area', ('takeoff_thrust', 'installed_thrust'),
+              ('max_lift_coefficient_takeoff', 'takeoff_max_lift_coefficient')],
+             ['takeoff_field_length', 'takeoff_parameter', 'wing_loading',
+              ('thrust_to_weight', 'takeoff_thrust_to_weight')])
+        _add(self, 'landing', LandingComp(vec_size=n),
+             ['landing_mass', 'wing_area',
+              ('max_lift_coefficient_landing', 'landing_max_lift_coefficient')],
+             ['stall_speed', 'approach_speed', 'landing_field_length'])
+        _add(self, 'lapse', ThrustLapseComp(vec_size=n),
+             ['pressure', 'temperature', 'mach', 'throttle_ratio'], ['thrust_lapse'])
+        _add(self, 'climb', TopOfClimbComp(vec_size=n),
+             [('rated_thrust', 'installed_thrust'), 'thrust_lapse', ('mass', 'mtow'),
+              'lift_to_drag', 'true_airspeed', 'residual_climb_rate'],
+             [('available_thrust', 'climb_available_thrust'),
+              ('required_thrust', 'climb_required_thrust'),
+              ('thrust_margin', 'climb_thrust_margin')])
+        _add(self, 'buffet', BuffetMarginComp(vec_size=n),
+             ['lift_coefficient', 'buffet_lift_coefficient', 'buffet_margin_load_factor'],
+             ['buffet_margin'])
+        if not self.options['aft_fan']:
+            return
+        _add(self, 'aft_fan_size', DiameterLimitComp(vec_size=n),
+             [('fan_diameter', 'aft_fan_diameter'), 'fuselage_diameter',
+              ('max_diameter_ratio', 'aft_fan_max_diameter_ratio')],
+             [('diameter_margin', 'aft_fan_diameter_margin')])
+        _add(self, 'motor_rating', RatingMarginComp(vec_size=n, units='W'),
+             [('value', 'motor_rated_power'), ('rating', 'motor_power_limit')],
+             [('margin', 'motor_power_margin')])
+        _add(self, 'cable_rating', RatingMarginComp(vec_size=n, units='A/m**2'),
+             [('value', 'cable_current_density'), ('rating', 'cable_current_density_limit')],
+             [('margin', 'cable_current_density_margin')])
+
+
 class AircraftModel(om.Group):
     """
     The whole aircraft: cruise flight condition, fuselage drag and the sizing loop.
@@ -446,3 +518,5 @@ class AircraftModel(om.Group):
         loop = {k: opt[k] for k in ('vec_size', 'num_engines', 'aft_fan', 'profile_exponent',
                                      'max_iterations', 'tolerance')}
         _add(self, 'sizing', SizingLoop(**loop), ['*'], ['*'])
+        _add(self, 'performance', PerformanceGroup(vec_size=n, num_engines=opt['num_engines'],
+                                                   aft_fan=opt['aft_fan']), ['*'], ['*'])

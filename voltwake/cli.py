@@ -10,6 +10,7 @@ import argparse
 import json
 import os
 import sys
+import warnings
 
 from . import errors
 from .errors import VoltwakeError
@@ -37,6 +38,16 @@ def _parser():
     p = sub.add_parser('compare', help='compare a design with its conventional reference')
     _config_arg(p)
     p.add_argument('--json', action='store_true', help='print one JSON object')
+    p.add_argument('--optimize', action='store_true',
+                   help='optimise both designs with the same objective and constraints first')
+
+    p = sub.add_parser('optimize', help='minimise fuel burn (or the configured objective) '
+                                        'under the configured constraints')
+    _config_arg(p)
+    p.add_argument('--out', metavar='DIR', help='write results (JSON, YAML) and the OpenMDAO '
+                                               'case file (cases.sql) to DIR')
+    p.add_argument('--force', action='store_true', help='allow a non-empty --out DIR')
+    p.add_argument('--json', action='store_true', help='print one JSON object at the end')
 
     p = sub.add_parser('derivs', help='check partial and total derivatives against '
                                       'complex step')
@@ -57,7 +68,7 @@ def _cmd_analyze(args):
 def _cmd_compare(args):
     from .compare import compare
     from .summary import comparison_text
-    comp = compare(args.config, args.overrides)
+    comp = compare(args.config, args.overrides, optimized=args.optimize)
     print(json.dumps(comp.to_dict(), indent=2) if args.json
           else comparison_text(comp.design, comp.reference, comp.change_percent))
     return errors.EXIT_OK
@@ -75,7 +86,33 @@ def _cmd_derivs(args):
     return errors.EXIT_OK
 
 
-COMMANDS = {'analyze': _cmd_analyze, 'compare': _cmd_compare, 'derivs': _cmd_derivs}
+def _cmd_optimize(args):
+    from .optimization import optimize
+    from .results_io import prepare_out_dir, write_results
+    from .summary import optimization_text
+    out_dir = prepare_out_dir(args.out, args.force) if args.out else None
+    recorder = os.path.join(out_dir, 'cases.sql') if out_dir else None
+
+    def progress(entry):
+        if not args.json:
+            flag = '' if entry['closed'] else '  (did not close)'
+            print(f"eval {entry['evaluation']:4d}  objective {entry['objective']:14.6g}  "
+                  f"worst violation {entry['max_violation']:.3e}{flag}", flush=True)
+
+    result = optimize(args.config, args.overrides, recorder_path=recorder,
+                      on_evaluation=progress)
+    data = result.to_dict()
+    if out_dir:
+        write_results(out_dir, 'results', {'status': 'complete', **data})
+    print(json.dumps(data, indent=2) if args.json else optimization_text(result))
+    if not result.success:
+        print(f'voltwake: error: optimisation failed: {result.message}', file=sys.stderr)
+        return errors.EXIT_OPTIMIZER_FAILED
+    return errors.EXIT_OK
+
+
+COMMANDS = {'analyze': _cmd_analyze, 'compare': _cmd_compare, 'derivs': _cmd_derivs,
+            'optimize': _cmd_optimize}
 
 
 def main(argv=None):
@@ -94,6 +131,9 @@ def main(argv=None):
     """
     os.environ.setdefault('OPENMDAO_REPORTS', '0')
     args = _parser().parse_args(argv)
+    if not os.environ.get('VOLTWAKE_DEBUG'):
+        # OpenMDAO's advisory warnings (relevance, zero partials) are for developers.
+        warnings.filterwarnings('ignore', module='openmdao')
     try:
         return COMMANDS[args.command](args)
     except VoltwakeError as err:

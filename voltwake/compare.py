@@ -67,9 +67,12 @@ def percent_changes(design_values, reference_values):
             for key in CHANGED if reference_values[key] != 0.0}
 
 
-def compare(config=None, overrides=None):
+def compare(config=None, overrides=None, optimized=False):
     """
     Analyse a design and its conventional reference (the aft fan removed) side by side.
+
+    With ``optimized`` both are first optimised with the same objective and constraints (the
+    reference without the aft-fan design variables and constraints): the fair comparison.
 
     Parameters
     ----------
@@ -77,6 +80,8 @@ def compare(config=None, overrides=None):
         The configuration; None for the packaged turbo-electric demo.
     overrides : dict or list of str or None
         Dotted key path -> value applied before validation.
+    optimized : bool
+        Compare the two optima instead of the two configured designs.
 
     Returns
     -------
@@ -84,6 +89,22 @@ def compare(config=None, overrides=None):
         Both designs and the percentage changes.
     """
     config = load_config(config, overrides)
+    if optimized:
+        return _compare_optima(config)
     design = analyze(config, keep_problem=False)
     reference = analyze(config.without_aft_fan(), keep_problem=False)
+    return Comparison(design, reference, percent_changes(design.values, reference.values))
+
+
+def _compare_optima(config):
+    from .analysis import AnalysisResult
+    from .errors import OptimizationError
+    from .optimization import optimize
+    results = []
+    for cfg in (config, config.without_aft_fan()):
+        opt = optimize(cfg)
+        if not opt.success:
+            raise OptimizationError(f'optimising {cfg.name!r} failed: {opt.message}')
+        results.append(AnalysisResult(cfg.name, True, opt.outputs, 0, None))
+    design, reference = results
     return Comparison(design, reference, percent_changes(design.values, reference.values))

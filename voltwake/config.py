@@ -4,20 +4,40 @@ Loading and strict validation of aircraft configurations.
 A configuration is a YAML mapping of sections (see :mod:`voltwake.schema`). Dimensional
 values are bare numbers in SI or strings with units (``"35000 ft"``, ``"10 kW/kg"``)
 converted with OpenMDAO's unit system. Every error names the file, the line, the dotted
-key path, the value and what was expected.
+key path, the value and what was expected. Values given with ``--set`` are reported as
+coming from ``--set``.
+
+Unit strings are checked against a plain grammar (unit names, ``*``, ``/``, parentheses and
+small integer powers) before OpenMDAO sees them, because OpenMDAO evaluates unit strings as
+Python expressions.
 """
 
 import copy
 import difflib
 import math
+import numbers
 import os
+import re
 
-import yaml
 from openmdao.utils.units import convert_units, is_compatible, valid_units
 
 from .errors import ConfigError
-from .schema import CONDUCTORS, OPTIONAL_SECTIONS, REQUIRED, SECTIONS, Field
-from .yamlio import parse_yaml, read_yaml_file
+from .schema import CONDUCTORS, DEFAULTED_SECTIONS, OPTIONAL_SECTIONS, REQUIRED, SECTIONS, Field
+from .yamlio import parse_value, parse_yaml, read_yaml_file
+
+#: Source name of values given as overrides.
+OVERRIDE_SOURCE = '--set'
+
+_UNIT_NAME = r'[A-Za-z][A-Za-z0-9_]*'
+_UNIT_POWER = r'(?:\s*\*\*\s*(?:-?[0-9]{1,2}|\(\s*-?[0-9]{1,2}\s*\)))?'
+_UNIT_TERM = (rf'(?:1\s*/\s*)?{_UNIT_NAME}{_UNIT_POWER}'
+              rf'(?:\s*[*/]\s*{_UNIT_NAME}{_UNIT_POWER})*')
+_UNIT_GROUP = re.compile(rf'\(\s*{_UNIT_TERM}\s*\){_UNIT_POWER}')
+_UNIT_EXPR = re.compile(_UNIT_TERM)
+_MAX_UNIT_CHARS = 64
+
+#: Keys outside the aft-fan sections that only a turbo-electric model has inputs for.
+_AFT_ONLY = ('performance.aft_fan_max_diameter_ratio', 'performance.motor_power_limit')
 
 _CHECKS = {
     'positive': (lambda v: v > 0, 'a value > 0'),
@@ -86,7 +106,8 @@ class Config:
         """
         out = {}
         for path, value in self.values.items():
-            if not self.has_aft_fan and path.split('.')[0] in ('aft_fan', 'electrical'):
+            if not self.has_aft_fan and (path.split('.')[0] in ('aft_fan', 'electrical')
+                                         or path in _AFT_ONLY):
                 continue
             field = field_at(path)
             if field is not None and field.target:
@@ -128,7 +149,8 @@ class Config:
         Config
             The new configuration.
         """
-        return _validate(copy.deepcopy(self.data), self.source, self.origins_lines(), overrides)
+        return _validate(copy.deepcopy(self.data), self.source, self.origins_lines(), overrides,
+                         self._overridden())
 
     def without_aft_fan(self):
         """
@@ -143,7 +165,12 @@ class Config:
         data.pop('aft_fan', None)
         data.pop('electrical', None)
         data['aircraft'] = f"{self.name} (conventional reference)"
-        return _validate(data, self.source, self.origins_lines(), None)
+        return _validate(data, self.source, self.origins_lines(), None, self._overridden())
+
+    def _overridden(self):
+        """Return the tuple key paths whose values were given as overrides."""
+        return {tuple(p.split('.')) for p, (src, _) in self.origins.items()
+                if src == OVERRIDE_SOURCE}
 
     def origins_lines(self):
         """
@@ -200,6 +227,44 @@ def field_at(path):
     return node if isinstance(node, Field) else None
 
 
+def _show(value):
+    """Return ``repr(value)`` cut to a length that fits an error line."""
+    text = repr(value)
+    return text if len(text) <= 60 else text[:57] + '...'
+
+
+def _plain_unit(unit):
+    """Return True when ``unit`` is a plain unit expression such as 'kg/m**3' or 'g/(kN*s)'."""
+    if len(unit) > _MAX_UNIT_CHARS:
+        return False
+    for _ in range(4):
+        unit, count = _UNIT_GROUP.subn('x', unit)
+        if not count:
+            break
+    return _UNIT_EXPR.fullmatch(unit) is not None
+
+
+def _known_unit(unit):
+    """Return True when OpenMDAO knows the plain unit expression ``unit``."""
+    if not _plain_unit(unit):
+        return False
+    try:
+        return valid_units(unit)
+    except (SyntaxError, NameError, TypeError, ValueError, ArithmeticError):
+        return False
+
+
+def _to_float(value, where):
+    """Convert a number to a finite float or raise :class:`ConfigError`."""
+    try:
+        out = float(value)
+    except OverflowError:
+        out = math.inf
+    if not math.isfinite(out):
+        raise ConfigError(f'got {_show(value)}; expected a finite number', **where)
+    return out
+
+
 def parse_quantity(value, units, where):
     """
     Convert a bare number (SI) or a ``"number unit"`` string to SI ``units``.
@@ -219,27 +284,25 @@ def parse_quantity(value, units, where):
         The value in ``units``.
     """
     expect = f"a number in {units} or a string with units such as '12 {units}'"
-    if isinstance(value, bool) or not isinstance(value, (int, float, str)):
-        raise ConfigError(f'got {value!r}; expected {expect}', **where)
     if isinstance(value, str):
         text = value.strip()
         number, _, unit = text.partition(' ')
         try:
             number = float(number)
         except ValueError:
-            raise ConfigError(f'got {value!r}; expected {expect}', **where) from None
+            raise ConfigError(f'got {_show(value)}; expected {expect}', **where) from None
+        number = _to_float(number, where)
         unit = unit.strip() or units
-        if not valid_units(unit):
-            raise ConfigError(f"got {value!r}: unknown unit {unit!r}; expected {expect}",
-                              **where)
-        if not is_compatible(unit, units):
-            raise ConfigError(f"got {value!r}: unit {unit!r} cannot be converted to {units}; "
+        if not _known_unit(unit):
+            raise ConfigError(f"got {_show(value)}: unknown unit {_show(unit)}; "
                               f"expected {expect}", **where)
-        value = float(convert_units(number, unit, units))
-    value = float(value)
-    if not math.isfinite(value):
-        raise ConfigError(f'got {value!r}; expected a finite number', **where)
-    return value
+        if not is_compatible(unit, units):
+            raise ConfigError(f"got {_show(value)}: unit {unit!r} cannot be converted to "
+                              f"{units}; expected {expect}", **where)
+        return _to_float(convert_units(number, unit, units), where)
+    if isinstance(value, (bool, complex)) or not isinstance(value, numbers.Real):
+        raise ConfigError(f'got {_show(value)}; expected {expect}', **where)
+    return _to_float(value, where)
 
 
 def _suggest(key, known):
@@ -248,58 +311,77 @@ def _suggest(key, known):
 
 
 def _check_field(field, value, where):
+    raw = value
     if field.kind == 'quantity':
         value = parse_quantity(value, field.units, where)
     elif field.kind == 'number':
-        if isinstance(value, bool) or not isinstance(value, (int, float)):
-            raise ConfigError(f'got {value!r}; expected a number ({field.doc})', **where)
-        value = float(value)
-        if not math.isfinite(value):
-            raise ConfigError(f'got {value!r}; expected a finite number', **where)
+        if isinstance(value, bool) or not isinstance(value, numbers.Real):
+            raise ConfigError(f'got {_show(value)}; expected a number ({field.doc})', **where)
+        value = _to_float(value, where)
     elif field.kind == 'integer':
-        if isinstance(value, bool) or not isinstance(value, int):
-            raise ConfigError(f'got {value!r}; expected a whole number ({field.doc})', **where)
+        if isinstance(value, bool) or not isinstance(value, numbers.Integral):
+            raise ConfigError(f'got {_show(value)}; expected a whole number ({field.doc})',
+                              **where)
+        value = int(value)
     elif field.kind == 'choice':
         if not isinstance(value, str) or value not in field.choices:
             hint = _suggest(str(value), field.choices)
-            raise ConfigError(f"got {value!r}; expected one of {', '.join(field.choices)}{hint}",
-                              **where)
-    elif field.kind == 'text':
-        if not isinstance(value, str):
-            raise ConfigError(f'got {value!r}; expected text', **where)
+            raise ConfigError(f"got {_show(value)}; expected one of "
+                              f"{', '.join(field.choices)}{hint}", **where)
+    elif field.kind == 'mapping':
+        if not isinstance(value, dict) or not value:
+            raise ConfigError(f'got {value!r}; expected a mapping ({field.doc})', **where)
+    elif field.kind == 'text' and not isinstance(value, str):
+        raise ConfigError(f'got {_show(value)}; expected text', **where)
     if field.check:
         test, expect = _CHECKS[field.check]
         if not test(value):
-            shown = f'{value:g} {field.units}' if field.units else f'{value!r}'
+            shown = _show(raw)
+            if field.units and isinstance(raw, str):
+                shown += f' (= {value:g} {field.units})'
+            elif field.units:
+                shown += f' {field.units}'
             raise ConfigError(f'got {shown}; expected {expect} ({field.doc})', **where)
     return value
 
 
-def _walk(schema, data, path, lines, source, values, origins):
+def _where(sub, lines, source, overridden):
+    """Return the :class:`ConfigError` keywords for the entry at tuple path ``sub``."""
+    dotted = '.'.join(sub)
+    if any(sub[:i] in overridden for i in range(1, len(sub) + 1)):
+        return {'source': OVERRIDE_SOURCE, 'line': None, 'path': dotted}
+    return {'source': source, 'line': lines.get(sub, lines.get(sub[:-1])), 'path': dotted}
+
+
+def _walk(schema, data, path, lines, source, values, origins, overridden):
     known = list(schema)
     for key in data:
         if key not in schema:
             sub = path + (str(key),)
+            where = _where(sub, lines, source, overridden)
+            where['line'] = None if where['line'] is None else lines.get(sub)
             raise ConfigError(f'unknown key{_suggest(str(key), known)}; known keys here: '
-                              f"{', '.join(known)}", source=source, line=lines.get(sub),
-                              path='.'.join(sub))
+                              f"{', '.join(known)}", **where)
     for key, field in schema.items():
         sub = path + (key,)
         dotted = '.'.join(sub)
-        where = {'source': source, 'line': lines.get(sub, lines.get(path)), 'path': dotted}
+        where = _where(sub, lines, source, overridden)
         if isinstance(field, dict):
             if key not in data:
+                if not path and key in DEFAULTED_SECTIONS:
+                    _walk(field, {}, sub, lines, source, values, origins, overridden)
+                    continue
                 if not path and key in OPTIONAL_SECTIONS:
                     continue
                 raise ConfigError(f"missing section; expected a mapping with keys "
                                   f"{', '.join(field)}", **where)
             if not isinstance(data[key], dict):
-                raise ConfigError(f'got {data[key]!r}; expected a mapping with keys '
+                raise ConfigError(f'got {_show(data[key])}; expected a mapping with keys '
                                   f"{', '.join(field)}", **where)
-            _walk(field, data[key], sub, lines, source, values, origins)
+            _walk(field, data[key], sub, lines, source, values, origins, overridden)
         elif key in data:
             values[dotted] = _check_field(field, data[key], where)
-            origins[dotted] = (source, where['line'])
+            origins[dotted] = (where['source'], where['line'])
         elif field.default is REQUIRED:
             raise ConfigError(f'missing required key ({field.doc})', **where)
         else:
@@ -307,46 +389,52 @@ def _walk(schema, data, path, lines, source, values, origins):
             origins[dotted] = ('default', None)
 
 
-def _apply_overrides(data, overrides, lines):
+def _apply_overrides(data, overrides, overridden):
+    """Apply overrides to ``data`` in place, adding every path they set to ``overridden``."""
     items = overrides.items() if isinstance(overrides, dict) else None
     if items is None:
         items = []
         for text in overrides:
             path, sep, raw = str(text).partition('=')
             if not sep or not path.strip():
-                raise ConfigError(f"got {text!r}; expected key.path=value", source='--set')
-            try:
-                value = yaml.safe_load(raw) if raw.strip() else raw
-            except yaml.YAMLError:
-                value = raw
+                raise ConfigError(f"got {_show(text)}; expected key.path=value",
+                                  source=OVERRIDE_SOURCE)
+            value = parse_value(raw, OVERRIDE_SOURCE) if raw.strip() else raw
             items.append((path.strip(), value))
     for path, value in items:
-        parts = str(path).split('.')
+        parts = tuple(part.strip() for part in str(path).split('.'))
+        if not all(parts):
+            raise ConfigError(f"got {_show(str(path))}; expected a dotted key path such as "
+                              "'wing.area'", source=OVERRIDE_SOURCE)
         node = data
         for i, part in enumerate(parts[:-1]):
             if not isinstance(node.get(part), dict):
                 if part in node:
-                    raise ConfigError(f"'{part}' is not a section", source='--set',
+                    raise ConfigError(f"'{part}' is not a section", source=OVERRIDE_SOURCE,
                                       path='.'.join(parts[:i + 1]))
                 node[part] = {}
+                overridden.add(parts[:i + 1])
             node = node[part]
         node[parts[-1]] = value
-        lines.pop(tuple(parts), None)
+        overridden.add(parts)
 
 
-def _validate(data, source, lines, overrides):
+def _validate(data, source, lines, overrides, overridden=()):
     if not isinstance(data, dict):
         raise ConfigError(f'got {type(data).__name__}; expected a mapping of sections',
                           source=source)
-    lines = dict(lines)
+    overridden = set(overridden)
     if overrides:
-        _apply_overrides(data, overrides, lines)
+        _apply_overrides(data, overrides, overridden)
     values, origins = {}, {}
-    _walk(SECTIONS, data, (), lines, source, values, origins)
+    _walk(SECTIONS, data, (), lines, source, values, origins, overridden)
     if ('aft_fan' in data) != ('electrical' in data):
-        missing = 'electrical' if 'aft_fan' in data else 'aft_fan'
-        raise ConfigError("missing section; an aft fan needs both 'aft_fan' and 'electrical'",
-                          source=source, path=missing)
+        present, missing = ('aft_fan', 'electrical') if 'aft_fan' in data else ('electrical',
+                                                                               'aft_fan')
+        where = _where((present,), lines, source, overridden)
+        raise ConfigError(f"missing section '{missing}'; a design with an aft fan needs both "
+                          f"'aft_fan' and 'electrical' sections (only '{present}' is given)",
+                          **where)
     return Config(data, values, origins, source)
 
 

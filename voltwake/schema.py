@@ -21,7 +21,7 @@ class Field:
     ----------
     kind : str
         'quantity' (float with units), 'number' (dimensionless float), 'integer',
-        'choice' or 'text'.
+        'choice', 'text' or 'mapping' (checked by its user, e.g. the optimisation spec).
     doc : str
         What the key means.
     units : str or None
@@ -145,7 +145,29 @@ SECTIONS = {
 }
 
 #: Sections that may be left out: with no ``aft_fan`` the aircraft is conventional.
-OPTIONAL_SECTIONS = {'aft_fan', 'electrical', 'optimization', 'solver'}
+OPTIONAL_SECTIONS = {'aft_fan', 'electrical', 'optimization', 'solver', 'performance'}
+#: Optional sections whose keys all have defaults: left out, the defaults apply.
+DEFAULTED_SECTIONS = {'solver', 'performance'}
+
+SECTIONS['performance'] = {
+    'takeoff_max_lift_coefficient': _n('maximum lift coefficient, take-off configuration',
+                                       'takeoff_max_lift_coefficient', default=2.2),
+    'landing_max_lift_coefficient': _n('maximum lift coefficient, landing configuration',
+                                       'landing_max_lift_coefficient', default=2.7),
+    'buffet_lift_coefficient': _n('buffet-onset lift coefficient at the cruise Mach number',
+                                  'buffet_lift_coefficient', default=0.8),
+    'buffet_margin_load_factor': _n('load factor to buffet onset to be kept at cruise',
+                                    'buffet_margin_load_factor', default=1.3,
+                                    check='at_least_one'),
+    'residual_climb_rate': _q('m/s', 'rate of climb still available at top of climb',
+                              'residual_climb_rate', check='nonnegative', default=1.524),
+    'throttle_ratio': _n('engine throttle ratio of the thrust-lapse model', 'throttle_ratio',
+                         default=1.05, check='at_least_one'),
+    'aft_fan_max_diameter_ratio': _n('largest aft-fan diameter / maximum fuselage diameter',
+                                     'aft_fan_max_diameter_ratio', default=0.6),
+    'motor_power_limit': _q('W', 'largest rated power of one aft-fan motor',
+                            'motor_power_limit', default=4.0e6),
+}
 
 SECTIONS['aft_fan'] = {
     'thrust_fraction': _n('share of the cruise net thrust produced by the aft fan',
@@ -197,6 +219,21 @@ SECTIONS['electrical'] = {
                             'thermal_specific_mass', check='nonnegative'),
         'drag_per_power': _q('N/W', 'drag penalty per unit heat rejected',
                              'thermal_drag_per_power', check='nonnegative', default=0.0),
+    },
+}
+
+SECTIONS['optimization'] = {
+    'objective': Field('text', 'model output to minimise: block_fuel, mtow, block_energy or '
+                       'any scalar model output', default='block_fuel'),
+    'design_variables': Field('mapping', 'config key path -> {lower, upper[, scaler]}'),
+    'constraints': Field('mapping', 'model output -> {lower | upper | equals}',
+                         default={}),
+    'optimizer': {
+        'method': Field('choice', 'SciPy optimizer', default='SLSQP',
+                        choices=('SLSQP', 'trust-constr')),
+        'tolerance': _n('optimizer convergence tolerance', None, default=1e-8),
+        'max_iterations': Field('integer', 'optimizer iteration limit', default=100,
+                                check='at_least_one'),
     },
 }
 

@@ -91,3 +91,47 @@ def comparison_text(design, reference, diff):
     lines.append(f'Block fuel change versus the reference: {diff["block_fuel_kg"]:+.2f}%')
     lines.append(CAUTION)
     return '\n'.join(lines)
+
+
+def optimization_text(result):
+    """
+    Format the outcome of an optimisation.
+
+    Parameters
+    ----------
+    result : OptimizationResult
+        The outcome.
+
+    Returns
+    -------
+    str
+        Design variables (active bounds marked), constraints (active ones marked),
+        objective and its change from the starting design.
+    """
+    lines = [f"{'optimum' if result.success else 'NOT a successful optimum'}: {result.message}",
+             f'{result.evaluations} model evaluations, {result.failed_points} trial points '
+             'did not close',
+             'Design variables                         value        lower        upper']
+    for path, dv in result.design.items():
+        mark = '  <- active bound' if dv['active'] else ''
+        lines.append(f"  {path:<34s}{dv['value']:>12.5g}{dv['lower']:>13.5g}"
+                     f"{dv['upper']:>13.5g} {dv['units'] or ''}{mark}")
+    lines.append('Constraints                              value        bound')
+    for name, con in result.constraints.items():
+        bound = ' '.join(f'{k} {con[k]:g}' for k in ('lower', 'upper', 'equals')
+                         if con[k] is not None)
+        mark = '  <- active' if con['active'] else ''
+        lines.append(f"  {name:<34s}{con['value']:>12.5g}   {bound} {con['units'] or ''}"
+                     f"{mark}")
+    if result.outputs:
+        key = {'block_fuel': 'block_fuel_kg', 'mtow': 'mtow_kg',
+               'block_energy': 'block_energy_MJ', 'total_fuel': 'total_fuel_kg'}
+        field = key.get(result.objective, 'block_fuel_kg')
+        start, end = result.start[field], result.outputs[field]
+        lines.append(f'Objective {result.objective}: {end:,.6g} (start {start:,.6g}, '
+                     f'{100 * (end - start) / start:+.2f}%)')
+        lines.append(f"Block fuel {result.outputs['block_fuel_kg']:,.1f} kg, MTOW "
+                     f"{result.outputs['mtow_kg']:,.1f} kg, L/D "
+                     f"{result.outputs['cruise_lift_to_drag']:.3f}")
+    lines.append(CAUTION)
+    return '\n'.join(lines)

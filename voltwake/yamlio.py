@@ -92,7 +92,12 @@ def _build(node, loader, path, lines, budget, source, active=None):
             return _build_collection(node, loader, path, lines, budget, source, active)
         finally:
             active.discard(id(node))
-    return loader.construct_object(node)
+    try:
+        return loader.construct_object(node)
+    except ValueError:
+        # Python refuses to read integers of more than a few thousand digits.
+        raise ConfigError('a number with too many digits', source=source,
+                          line=node.start_mark.line + 1, path='.'.join(path) or None) from None
 
 
 def _build_collection(node, loader, path, lines, budget, source, active):
@@ -105,7 +110,7 @@ def _build_collection(node, loader, path, lines, budget, source, active):
             if key_node.tag == 'tag:yaml.org,2002:merge':
                 raise ConfigError('merge keys (<<) are not supported', source=source,
                                   line=key_node.start_mark.line + 1, path='.'.join(path) or None)
-            key = str(loader.construct_object(key_node))
+            key = str(_build(key_node, loader, path, lines, budget, source, active))
             sub = path + (key,)
             if key in out:
                 raise ConfigError(f'duplicate key (first given on line {lines[sub]})',

@@ -1,0 +1,443 @@
+"""
+Optimisation of a configured aircraft against fuel burn (or another output) with the
+performance constraints of its ``optimization`` section, using OpenMDAO's
+ScipyOptimizeDriver and the model's analytic total derivatives.
+"""
+
+import contextlib
+import dataclasses
+import io
+import difflib
+import math
+
+import numpy as np
+import openmdao.api as om
+from openmdao.core.analysis_error import AnalysisError
+
+from voltwake.models.aircraft import AircraftModel
+
+from .analysis import (build_model_problem, closure_problem, read_fields, run_sizing,
+                       set_model_inputs)
+from .config import field_at, load_config, parse_quantity
+from .errors import ConfigError
+
+#: Objective shortcuts -> promoted model output.
+OBJECTIVES = {'block_fuel': 'block_fuel', 'mtow': 'mtow', 'block_energy': 'block_energy',
+              'total_energy': 'block_energy', 'total_fuel': 'total_fuel'}
+
+#: Largest scaled constraint violation accepted as feasible.
+FEASIBILITY_TOLERANCE = 1e-5
+
+
+@dataclasses.dataclass
+class DesignVariable:
+    """
+    One design variable: a config key path and the model input it sets.
+
+    Parameters
+    ----------
+    path : str
+        Dotted config key path.
+    target : str
+        Promoted model input.
+    lower, upper : float
+        Bounds in SI ``units``.
+    units : str or None
+        SI units.
+    """
+
+    path: str
+    target: str
+    lower: float
+    upper: float
+    units: str = None
+
+
+@dataclasses.dataclass
+class Constraint:
+    """
+    One constraint on a model output.
+
+    Parameters
+    ----------
+    name : str
+        Promoted model output.
+    lower, upper, equals : float or None
+        Bounds in ``units``.
+    units : str or None
+        Units of the bounds (the output's own).
+    """
+
+    name: str
+    lower: float = None
+    upper: float = None
+    equals: float = None
+    units: str = None
+
+    def violation(self, value):
+        """
+        Return the violation of this constraint at ``value``, relative to its bound.
+
+        Parameters
+        ----------
+        value : float
+            The output value in ``units``.
+
+        Returns
+        -------
+        float
+            0 when satisfied.
+        """
+        out = 0.0
+        for bound, sign in ((self.upper, 1.0), (self.lower, -1.0), (self.equals, 0.0)):
+            if bound is None:
+                continue
+            gap = abs(value - bound) if sign == 0.0 else sign * (value - bound)
+            out = max(out, gap / max(abs(bound), 1.0))
+        return out
+
+
+def _where(config, path):
+    line = config.origins_lines().get(tuple(path.split('.')))
+    return {'source': config.source, 'line': line, 'path': path}
+
+
+def design_variables(config, model_inputs):
+    """
+    Read and check the design variables of the ``optimization`` section.
+
+    Parameters
+    ----------
+    config : Config
+        The configuration.
+    model_inputs : dict
+        Promoted model inputs set by the configuration (see ``Config.model_inputs``).
+
+    Returns
+    -------
+    list of DesignVariable
+        The design variables present in this model (aft-fan ones are dropped for a
+        conventional design).
+    """
+    spec = config.values['optimization.design_variables']
+    out = []
+    for path, bounds in spec.items():
+        where = _where(config, f'optimization.design_variables.{path}')
+        field = field_at(path)
+        if field is None or not field.target:
+            raise ConfigError('not a configurable model input; expected a config key path '
+                              "such as 'wing.area'", **where)
+        if field.target not in model_inputs:
+            if path.split('.')[0] in ('aft_fan', 'electrical'):
+                continue   # the conventional reference has no aft-fan variables
+            raise ConfigError('this input is not in the model', **where)
+        if not isinstance(bounds, dict) or set(bounds) - {'lower', 'upper'} or \
+                not {'lower', 'upper'} <= set(bounds):
+            raise ConfigError(f'got {bounds!r}; expected {{lower: ..., upper: ...}}', **where)
+        units = field.units
+        lower = parse_quantity(bounds['lower'], units or '', where) if units else \
+            _number(bounds['lower'], where)
+        upper = parse_quantity(bounds['upper'], units or '', where) if units else \
+            _number(bounds['upper'], where)
+        if not lower < upper:
+            raise ConfigError(f'lower bound {lower:g} is not below upper bound {upper:g}',
+                              **where)
+        out.append(DesignVariable(path, field.target, lower, upper, units))
+    if not out:
+        raise ConfigError('no design variables for this design', source=config.source,
+                          path='optimization.design_variables')
+    return out
+
+
+def _number(value, where):
+    if isinstance(value, bool) or not isinstance(value, (int, float)) or \
+            not math.isfinite(value):
+        raise ConfigError(f'got {value!r}; expected a finite number', **where)
+    return float(value)
+
+
+def constraints(config, prob):
+    """
+    Read and check the constraints of the ``optimization`` section against the model.
+
+    Parameters
+    ----------
+    config : Config
+        The configuration.
+    prob : om.Problem
+        The set-up problem (for output names and units).
+
+    Returns
+    -------
+    list of Constraint
+        Constraints on outputs of this model (aft-fan ones are dropped for a conventional
+        design).
+    """
+    meta = prob.model.get_io_metadata(iotypes='output', metadata_keys=['units'],
+                                      get_remote=True, return_rel_names=False)
+    units_of = {}
+    for abs_name, info in meta.items():
+        units_of[info['prom_name']] = info['units']
+    out = []
+    for name, bounds in config.values['optimization.constraints'].items():
+        where = _where(config, f'optimization.constraints.{name}')
+        if name not in units_of:
+            if name in ('aft_fan_diameter_margin', 'motor_power_margin',
+                        'cable_current_density_margin') and not config.has_aft_fan:
+                continue
+            close = difflib.get_close_matches(name, list(units_of), n=1)
+            hint = f" (did you mean '{close[0]}'?)" if close else ''
+            raise ConfigError(f'not a model output{hint}', **where)
+        if not isinstance(bounds, dict) or not bounds or \
+                set(bounds) - {'lower', 'upper', 'equals'}:
+            raise ConfigError(f'got {bounds!r}; expected lower, upper and/or equals', **where)
+        units = units_of[name]
+        conv = {key: (parse_quantity(val, units, where) if units else _number(val, where))
+                for key, val in bounds.items()}
+        out.append(Constraint(name, units=units, **conv))
+    return out
+
+
+class SizingOptimizeDriver(om.ScipyOptimizeDriver):
+    """
+    ScipyOptimizeDriver that survives trial points where the sizing loop does not close.
+
+    Each model evaluation starts from the last converged state; a trial point that still
+    does not close is counted (``failed_points``) and its outputs are left as found.
+
+    Parameters
+    ----------
+    **kwargs : dict of keyword arguments
+        Keyword arguments that will be mapped into the Driver options.
+    """
+
+    def __init__(self, **kwargs):
+        super().__init__(**kwargs)
+        self.failed_points = 0
+        self.evaluations = 0
+        self.history = []
+        self.on_evaluation = None
+        self._last_good = None
+        self.spec_constraints = []
+
+    def _run_solve_nonlinear(self):
+        model = self._problem().model
+        loop = model.sizing
+        self.evaluations += 1
+        if self._last_good is not None:   # the loop's states only, not the design variables
+            loop._outputs.set_val(self._last_good)
+        closed = True
+        try:
+            with np.errstate(all='ignore'):
+                super()._run_solve_nonlinear()
+            closed = closure_problem(self._problem(), model.options['aft_fan']) is None
+        except AnalysisError:
+            closed = False
+        if closed:
+            self._last_good = loop._outputs.asarray().copy()
+        else:
+            self.failed_points += 1
+        self._log(closed)
+
+    def _log(self, closed):
+        prob = self._problem()
+        objective = float(np.real(list(
+            self.get_objective_values(driver_scaling=False).values())[0][0]))
+        worst = 0.0
+        for con in self.spec_constraints:
+            value = float(np.real(prob.get_val(con.name, units=con.units)[0]))
+            worst = max(worst, con.violation(value))
+        entry = {'evaluation': self.evaluations, 'objective': objective,
+                 'max_violation': worst, 'closed': closed,
+                 'design': {name: float(np.real(val[0])) for name, val in
+                            self.get_design_var_values(driver_scaling=False).items()}}
+        self.history.append(entry)
+        if self.on_evaluation is not None:
+            self.on_evaluation(entry)
+
+
+def build_problem(config, overrides=None, recorder_path=None):
+    """
+    Return the optimisation problem of a configuration, set up and ready to run.
+
+    Parameters
+    ----------
+    config : Config, dict, str or None
+        The configuration (its ``optimization`` section is required).
+    overrides : dict or list of str or None
+        Dotted key path -> value applied before validation.
+    recorder_path : str or None
+        Where to write an OpenMDAO SqliteRecorder case file of the driver iterations.
+
+    Returns
+    -------
+    om.Problem
+        The problem, with design variables, constraints and objective added. Its driver
+        (a :class:`SizingOptimizeDriver`) carries ``design_variables`` and ``constraints``.
+    """
+    config = load_config(config, overrides)
+    if 'optimization.design_variables' not in config.values:
+        raise ConfigError("no 'optimization' section; expected design_variables, "
+                          'constraints and an objective', source=config.source)
+    probe = build_model_problem(config)
+    cons = constraints(config, probe)
+    dvs = design_variables(config, config.model_inputs())
+    objective = config.values['optimization.objective']
+    target = OBJECTIVES.get(objective, objective)
+    outputs = _outputs(probe)
+    if target not in outputs:
+        close = difflib.get_close_matches(target, list(outputs), n=1)
+        hint = f" (did you mean '{close[0]}'?)" if close else ''
+        raise ConfigError(f'not a model output{hint}',
+                          **_where(config, 'optimization.objective'))
+    run_sizing(probe, config.has_aft_fan)
+    start = abs(float(np.real(probe.get_val(target)[0])))
+
+    driver = SizingOptimizeDriver(optimizer=config.values['optimization.optimizer.method'],
+                                  tol=config.values['optimization.optimizer.tolerance'],
+                                  maxiter=config.values['optimization.optimizer.max_iterations'],
+                                  disp=False)
+    driver.design_variables, driver.spec_constraints, driver.config = dvs, cons, config
+    prob = om.Problem(AircraftModel(vec_size=1, **config.model_options()), reports=False)
+    prob.driver = driver
+    for dv in dvs:
+        prob.model.add_design_var(dv.target, lower=dv.lower, upper=dv.upper, units=dv.units,
+                                  ref0=dv.lower, ref=dv.upper)
+    for con in cons:
+        scale = max(abs(b) for b in (con.lower, con.upper, con.equals) if b is not None)
+        prob.model.add_constraint(con.name, lower=con.lower, upper=con.upper,
+                                  equals=con.equals, units=con.units, ref=max(scale, 1.0))
+    prob.model.add_objective(target, ref=start if start > 0 else 1.0)
+    if recorder_path:
+        driver.add_recorder(om.SqliteRecorder(recorder_path))
+        for key in ('record_desvars', 'record_objectives', 'record_constraints'):
+            driver.recording_options[key] = True
+    set_model_inputs(prob, config, setup=True)
+    return prob
+
+
+def _outputs(prob):
+    meta = prob.model.get_io_metadata(iotypes='output', get_remote=True)
+    return {info['prom_name'] for info in meta.values()}
+
+
+@dataclasses.dataclass
+class OptimizationResult:
+    """
+    Outcome of an optimisation.
+
+    Parameters
+    ----------
+    success : bool
+        True only when the optimiser reports success and the final point is feasible.
+    message : str
+        The optimiser's message (and why the run is not a success, if it is not).
+    design : dict
+        Config key path -> {value, lower, upper, units, active}.
+    constraints : dict
+        Constraint output -> {value, lower, upper, equals, units, active, violation}.
+    outputs : dict
+        The same fields as :func:`voltwake.analyze` at the final point.
+    start : dict
+        The same fields at the configured (starting) design.
+    history : list of dict
+        One entry per model evaluation: objective, worst violation, closed, design.
+    failed_points : int
+        Trial points at which the sizing loop did not close.
+    evaluations : int
+        Model evaluations.
+    objective : str
+        Name of the objective output.
+    """
+
+    success: bool
+    message: str
+    design: dict
+    constraints: dict
+    outputs: dict
+    start: dict
+    history: list
+    failed_points: int
+    evaluations: int
+    objective: str
+    problem: object = None
+
+    def to_dict(self):
+        """
+        Return the result as a JSON-ready mapping (no problem object).
+
+        Returns
+        -------
+        dict
+            Every field but ``problem``.
+        """
+        out = dataclasses.asdict(dataclasses.replace(self, problem=None))
+        out.pop('problem')
+        return out
+
+
+def _active(value, lower, upper, tol=1e-4):
+    span = max(abs(upper - lower), 1e-12) if lower is not None and upper is not None else 1.0
+    return bool((lower is not None and abs(value - lower) <= tol * max(span, abs(lower)))
+                or (upper is not None and abs(value - upper) <= tol * max(span, abs(upper))))
+
+
+def optimize(config=None, overrides=None, recorder_path=None, on_evaluation=None):
+    """
+    Minimise the configured objective subject to the configured constraints.
+
+    Parameters
+    ----------
+    config : Config, dict, str or None
+        The configuration; None for the packaged turbo-electric demo.
+    overrides : dict or list of str or None
+        Dotted key path -> value applied before validation.
+    recorder_path : str or None
+        OpenMDAO SqliteRecorder case file written as the run goes.
+    on_evaluation : callable or None
+        Called with each history entry (for progress lines).
+
+    Returns
+    -------
+    OptimizationResult
+        The outcome; ``success`` is False when the optimiser failed or the final point is
+        infeasible or does not close.
+    """
+    config = load_config(config, overrides)
+    prob = build_problem(config, recorder_path=recorder_path)
+    driver = prob.driver
+    driver.on_evaluation = on_evaluation
+    prob.run_model()
+    start = read_fields(prob, config.has_aft_fan)
+    with np.errstate(all='ignore'), contextlib.redirect_stdout(io.StringIO()):
+        prob.run_driver()
+    # Final evaluation at the optimiser's last design, from the last converged state.
+    driver._run_solve_nonlinear()
+    reason = closure_problem(prob, config.has_aft_fan)
+    result = getattr(driver, '_scipy_optimize_result', None)
+    design = {}
+    for dv in driver.design_variables:
+        value = float(np.real(prob.get_val(dv.target, units=dv.units)[0]))
+        design[dv.path] = {'value': value, 'lower': dv.lower, 'upper': dv.upper,
+                           'units': dv.units, 'active': _active(value, dv.lower, dv.upper)}
+    cons, worst = {}, 0.0
+    for con in driver.spec_constraints:
+        value = float(np.real(prob.get_val(con.name, units=con.units)[0]))
+        viol = con.violation(value)
+        worst = max(worst, viol)
+        cons[con.name] = {'value': value, 'lower': con.lower, 'upper': con.upper,
+                          'equals': con.equals, 'units': con.units, 'violation': viol,
+                          'active': con.equals is not None
+                          or _active(value, con.lower, con.upper)}
+    message = str(result.message) if result is not None else 'no optimiser result'
+    success = bool(result is not None and result.success) and reason is None \
+        and worst <= FEASIBILITY_TOLERANCE
+    if reason is not None:
+        message += f'; final design does not close ({reason})'
+    elif worst > FEASIBILITY_TOLERANCE:
+        message += f'; final design infeasible (worst relative violation {worst:.3g})'
+    outputs = read_fields(prob, config.has_aft_fan) if reason is None else {}
+    objective = config.values['optimization.objective']
+    return OptimizationResult(success, message, design, cons, outputs, start,
+                              list(driver.history), driver.failed_points,
+                              driver.evaluations, objective, prob)
