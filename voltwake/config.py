@@ -353,6 +353,11 @@ def _where(sub, lines, source, overridden):
     return {'source': source, 'line': lines.get(sub, lines.get(sub[:-1])), 'path': dotted}
 
 
+def _all_default(schema):
+    return all(_all_default(f) if isinstance(f, dict) else f.default is not REQUIRED
+               for f in schema.values())
+
+
 def _walk(schema, data, path, lines, source, values, origins, overridden):
     known = list(schema)
     for key in data:
@@ -368,7 +373,7 @@ def _walk(schema, data, path, lines, source, values, origins, overridden):
         where = _where(sub, lines, source, overridden)
         if isinstance(field, dict):
             if key not in data:
-                if not path and key in DEFAULTED_SECTIONS:
+                if (not path and key in DEFAULTED_SECTIONS) or (path and _all_default(field)):
                     _walk(field, {}, sub, lines, source, values, origins, overridden)
                     continue
                 if not path and key in OPTIONAL_SECTIONS:

@@ -9,6 +9,7 @@ import dataclasses
 import io
 import difflib
 import math
+import sys
 
 import numpy as np
 import openmdao.api as om
@@ -406,7 +407,15 @@ def optimize(config=None, overrides=None, recorder_path=None, on_evaluation=None
     config = load_config(config, overrides)
     prob = build_problem(config, recorder_path=recorder_path)
     driver = prob.driver
-    driver.on_evaluation = on_evaluation
+    if on_evaluation is not None:
+        stream = sys.stdout
+
+        def report(entry):
+            # The optimiser's own prints are silenced below; progress goes to the caller.
+            with contextlib.redirect_stdout(stream):
+                on_evaluation(entry)
+
+        driver.on_evaluation = report
     prob.run_model()
     start = read_fields(prob, config.has_aft_fan)
     with np.errstate(all='ignore'), contextlib.redirect_stdout(io.StringIO()):

@@ -23,6 +23,8 @@ MAX_FILE_BYTES = 1_000_000
 MAX_NODES = 100_000
 #: Deepest nesting of mappings and lists accepted.
 MAX_DEPTH = 64
+#: Tags of the collections accepted (no sets, ordered maps or application tags).
+_PLAIN_COLLECTIONS = ('tag:yaml.org,2002:map', 'tag:yaml.org,2002:seq')
 
 
 class _LineLoader(yaml.SafeLoader):
@@ -82,6 +84,10 @@ def _build(node, loader, path, lines, budget, source, active=None):
         raise ConfigError(f'document expands to more than {MAX_NODES} nodes (alias expansion '
                           'too large); refusing it', source=source, line=node.start_mark.line + 1)
     if isinstance(node, (yaml.MappingNode, yaml.SequenceNode)):
+        if node.tag not in _PLAIN_COLLECTIONS:
+            raise ConfigError(f'unsupported tag {node.tag!r}; expected a plain mapping or list',
+                              source=source, line=node.start_mark.line + 1,
+                              path='.'.join(path) or None)
         active = set() if active is None else active
         if id(node) in active:
             raise ConfigError('recursive alias (a mapping or list contains itself)',
@@ -157,7 +163,9 @@ def parse_yaml(text, source='<string>'):
         raise ConfigError(f'not valid YAML: {problem}', source=source, line=line) from None
     finally:
         loader.dispose()
-    if node is None:
+    if node is None or (isinstance(node, yaml.ScalarNode) and node.value == ''
+                        and node.tag == 'tag:yaml.org,2002:null'):
+        # No document at all, or a document marker with nothing under it ('---').
         raise ConfigError('the file is empty; expected a mapping of sections', source=source)
     lines = {}
     try:

@@ -1,0 +1,146 @@
+"""Optimisation through the framework: a known optimum, multiple starts, infeasibility, totals."""
+
+import json
+import math
+
+import numpy as np
+import pytest
+import yaml
+from openmdao.utils.assert_utils import assert_check_totals
+
+from voltwake.cli import main
+from voltwake.config import demo_path, load_config
+from voltwake.optimization import build_problem, optimize
+
+TURBO_ELECTRIC = demo_path('turbo_electric')
+
+
+def _conventional_with(optimization):
+    with open(demo_path('conventional')) as handle:
+        data = yaml.safe_load(handle)
+    data['optimization'] = optimization
+    return load_config(data)
+
+
+def test_wing_area_for_least_fuel_gives_the_best_lift_coefficient():
+    """
+    Only the wing area varies; airframe mass depends on MTOW alone and the fuselage and
+    nacelle drag areas do not scale with the wing, so fuel is least where cruise drag is
+    least at the mid-cruise weight: dD/dS = q cd0_wing - W^2/(q S^2 pi e AR) = 0, i.e.
+    CL* = sqrt(cd0_wing pi e AR) (the parabolic-polar minimum-drag condition, e.g. Anderson,
+    Introduction to Flight, ch. 6; from memory), with cd0_wing the wing-area-proportional
+    zero-lift drag coefficient.
+    """
+    config = _conventional_with({'objective': 'block_fuel',
+                                 'design_variables': {'wing.area': {'lower': '60 m**2',
+                                                                    'upper': '250 m**2'}}})
+    result = optimize(config)
+    assert result.success, result.message
+    cd0_wing = config.value('drag.cd0_other')
+    expected = math.sqrt(cd0_wing * math.pi * config.value('wing.oswald_efficiency')
+                         * config.value('wing.aspect_ratio'))
+    assert result.outputs['cruise_cl'] == pytest.approx(expected, rel=1e-4)
+    assert not result.design['wing.area']['active']
+
+
+@pytest.fixture(scope='module')
+def demo_optimum():
+    result = optimize(TURBO_ELECTRIC)
+    assert result.success, result.message
+    return result
+
+
+def test_demo_optimum_reports_active_constraints_and_saves_fuel(demo_optimum):
+    assert demo_optimum.failed_points == 0
+    assert any(c['active'] for c in demo_optimum.constraints.values())
+    assert all(c['violation'] <= 1e-5 for c in demo_optimum.constraints.values())
+    assert demo_optimum.outputs['block_fuel_kg'] < demo_optimum.start['block_fuel_kg']
+    assert len(demo_optimum.history) == demo_optimum.evaluations
+
+
+def _starts(config):
+    """Start points as fractions of each design variable's range (0 = lower, 1 = upper)."""
+    paths = list(config.values['optimization.design_variables'])
+    rng = np.random.default_rng(20261201)
+    starts = [dict.fromkeys(paths, 0.0), dict.fromkeys(paths, 1.0), dict.fromkeys(paths, 0.5)]
+    for _ in range(2):
+        starts.append({path: float(rng.uniform(0.0, 1.0)) for path in paths})
+    return starts
+
+
+def _blend(config, fractions):
+    """Design-variable values (SI) at the given fractions of their bounds."""
+    from voltwake.config import field_at, parse_quantity
+    out = {}
+    for path, frac in fractions.items():
+        bounds = config.values['optimization.design_variables'][path]
+        units = field_at(path).units
+        lo, hi = (parse_quantity(bounds[k], units, {}) if units else float(bounds[k])
+                  for k in ('lower', 'upper'))
+        out[path] = lo + frac * (hi - lo)
+    return out
+
+
+def test_demo_optimum_is_reached_from_other_starts(demo_optimum):
+    config = load_config(TURBO_ELECTRIC)
+    starts = _starts(config)
+    best = demo_optimum.outputs['block_fuel_kg']
+    for fractions in starts:
+        result = optimize(config, _blend(config, fractions))
+        assert result.success, (fractions, result.message)
+        assert result.outputs['block_fuel_kg'] == pytest.approx(best, rel=1e-3), fractions
+
+
+def test_infeasible_span_limit_is_not_a_success():
+    # No wing inside the bounds meets a 20 m span: sqrt(7 * 95 m^2) = 25.8 m at the least.
+    result = optimize(TURBO_ELECTRIC, {'optimization.constraints.wingspan': {'upper': '20 m'}})
+    assert not result.success
+    assert 'infeasible' in result.message or 'Positive directional' in result.message \
+        or 'failed' in result.message.lower() or 'Inequality' in result.message
+
+
+def test_total_derivatives_of_the_optimisation_problem():
+    prob = build_problem(TURBO_ELECTRIC)
+    prob.run_model()
+    data = prob.check_totals(method='cs', out_stream=None)
+    assert_check_totals(data, atol=1e-9, rtol=1e-7)
+
+
+def test_no_finite_difference_anywhere_in_the_model():
+    prob = build_problem(TURBO_ELECTRIC)
+    for system in prob.model.system_iter(include_self=True, recurse=True):
+        assert not system._owns_approx_jac, system.pathname
+        assert not system._approx_schemes, system.pathname
+
+
+def test_cli_optimize_writes_results_and_case_file(tmp_path, capsys):
+    out = tmp_path / 'run'
+    assert main(['optimize', '--out', str(out)]) == 0
+    text = capsys.readouterr().out
+    assert 'active' in text and 'eval' in text
+    data = json.loads((out / 'results.json').read_text())
+    assert data['status'] == 'complete' and data['success']
+    assert (out / 'results.yaml').exists() and (out / 'cases.sql').stat().st_size > 0
+    # An existing results directory is not overwritten without --force.
+    assert main(['optimize', '--out', str(out)]) == 2
+    assert main(['optimize', '--out', str(out), '--force']) == 0
+
+
+def test_cli_optimize_infeasible_exits_4(capsys):
+    code = main(['optimize', '--set', 'optimization.constraints.wingspan.upper=20 m'])
+    assert code == 4
+    assert 'optimisation failed' in capsys.readouterr().err
+
+
+def test_recorder_holds_driver_cases(tmp_path):
+    import openmdao.api as om
+    path = str(tmp_path / 'cases.sql')
+    result = optimize(TURBO_ELECTRIC, recorder_path=path)
+    reader = om.CaseReader(path)
+    cases = reader.list_cases('driver', recurse=False, out_stream=None)
+    # Every optimiser evaluation is recorded (the driver's initial run and the final
+    # re-evaluation of the optimum are not optimiser evaluations).
+    assert 10 <= len(cases) <= result.evaluations
+    last = reader.get_case(cases[-1])
+    assert last.get_objectives()['block_fuel'][0] == pytest.approx(
+        result.outputs['block_fuel_kg'], rel=1e-6)
