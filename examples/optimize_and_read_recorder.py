@@ -13,9 +13,9 @@ import tempfile
 
 os.environ.setdefault('OPENMDAO_REPORTS', '0')   # no OpenMDAO report files
 
-import openmdao.api as om  # noqa: E402
+import openmdao.api as om
 
-from voltwake.optimization import optimize  # noqa: E402
+from voltwake.optimization import optimize
 
 CASE_FILE = 'optimization_cases.sql'
 

@@ -16,9 +16,9 @@ import tempfile
 
 os.environ.setdefault('OPENMDAO_REPORTS', '0')   # no OpenMDAO report files
 
-import numpy as np  # noqa: E402
+import numpy as np
 
-import voltwake  # noqa: E402
+import voltwake
 
 PLOT_FILE = 'thrust_fraction_sweep.png'
 

@@ -373,13 +373,17 @@ class SizingLoop(om.Group):
              ['cruise_fuel_fraction', 'block_fuel', 'reserve_fuel', 'total_fuel',
               'mid_cruise_mass', 'landing_mass', 'block_energy'])
 
-        newton = self.nonlinear_solver = om.NewtonSolver(solve_subsystems=True)
+        newton = self.nonlinear_solver = om.NewtonSolver(solve_subsystems=True,
+                                                         max_sub_solves=2)
         newton.options['maxiter'] = opt['max_iterations']
         newton.options['rtol'] = opt['tolerance']
         newton.options['atol'] = 1e-8
         newton.options['iprint'] = -1
         newton.options['err_on_non_converge'] = True
-        newton.linesearch = om.BoundsEnforceLS(bound_enforcement='vector')
+        # No line search: the model's states stay physical along full Newton steps (the
+        # capture-height fluxes are continued oddly below the wall), and a line search would
+        # cost one more residual evaluation per iteration.
+        newton.linesearch = None
         self.linear_solver = om.DirectSolver(assemble_jac=True)
 
     def guess_nonlinear(self, inputs, outputs, residuals):

@@ -19,7 +19,8 @@ def run_example(name, outdir, extra_env=None):
     """Run ``examples/<name>`` with OUTDIR ``outdir`` from the repo root; return the process."""
     env = dict(os.environ, OPENMDAO_REPORTS='0', **(extra_env or {}))
     return subprocess.run([sys.executable, str(REPO / 'examples' / name), str(outdir)],
-                          cwd=REPO, env=env, capture_output=True, text=True, timeout=600)
+                          check=False, cwd=REPO, env=env, capture_output=True, text=True,
+                          timeout=600)
 
 
 def table_rows(stdout):

@@ -144,3 +144,50 @@ def test_recorder_holds_driver_cases(tmp_path):
     last = reader.get_case(cases[-1])
     assert last.get_objectives()['block_fuel'][0] == pytest.approx(
         result.outputs['block_fuel_kg'], rel=1e-6)
+
+
+def test_trial_point_that_does_not_close_is_counted_not_fatal():
+    prob = build_problem(TURBO_ELECTRIC)
+    prob.final_setup()
+    driver = prob.driver
+    driver._run_solve_nonlinear()
+    assert driver.failed_points == 0
+    good = prob.get_val('block_fuel').copy()
+    # A fan pressure ratio too low to give thrust: the sizing loop cannot close there.
+    prob.set_val('turbofan_fan_pressure_ratio', 1.0)
+    driver._run_solve_nonlinear()
+    assert driver.failed_points == 1
+    assert driver.history[-1]['closed'] is False
+    # Back at the configured design, the next evaluation starts from the last converged
+    # state and closes again.
+    prob.set_val('turbofan_fan_pressure_ratio', 1.5)
+    driver._run_solve_nonlinear()
+    assert driver.history[-1]['closed'] is True
+    assert prob.get_val('block_fuel') == pytest.approx(good, rel=1e-9)
+
+
+def test_design_variable_scaling_and_bad_specs():
+    from voltwake.errors import ConfigError
+    prob = build_problem(TURBO_ELECTRIC, {
+        'optimization.design_variables.wing.area': {'lower': 95, 'upper': 150, 'ref': 100}})
+    meta = prob.model.get_design_vars()
+    assert meta['wing_area']['total_scaler'] == pytest.approx(0.01)
+    with pytest.raises(ConfigError, match='not below upper'):
+        build_problem(TURBO_ELECTRIC, {
+            'optimization.design_variables.wing.area': {'lower': 150, 'upper': 95}})
+    with pytest.raises(ConfigError, match='not a configurable model input'):
+        build_problem(TURBO_ELECTRIC, {
+            'optimization.design_variables.wing.span': {'lower': 1, 'upper': 2}})
+    with pytest.raises(ConfigError, match="did you mean 'wingspan'"):
+        build_problem(TURBO_ELECTRIC, {'optimization.constraints.wingspn': {'upper': 36}})
+
+
+def test_compare_optimized_reference_has_no_aft_fan(demo_optimum):
+    from voltwake.compare import compare
+    comp = compare(TURBO_ELECTRIC, optimized=True)
+    assert comp.design.values['block_fuel_kg'] == pytest.approx(
+        demo_optimum.outputs['block_fuel_kg'], rel=1e-6)
+    assert comp.reference.values['electrical_mass_kg'] == 0.0
+    expected = 100 * (comp.design.values['block_fuel_kg'] / comp.reference.values[
+        'block_fuel_kg'] - 1)
+    assert comp.fuel_burn_change_percent == pytest.approx(expected, rel=1e-12)

@@ -6,8 +6,11 @@ Conceptual estimates only: not for certification, flight or operational decision
 
 from .analysis import AnalysisResult, analyze, build_model_problem
 from .config import Config, load_config
+from .compare import compare
 from .errors import ConfigError, NotClosedError, OptimizationError, VoltwakeError
+from .optimization import OptimizationResult, build_problem, optimize
 
 __all__ = ['AnalysisResult', 'Config', 'ConfigError', 'NotClosedError', 'OptimizationError',
-           'VoltwakeError', 'analyze', 'build_model_problem', 'load_config']
+           'OptimizationResult', 'VoltwakeError', 'analyze', 'build_model_problem',
+           'build_problem', 'compare', 'load_config', 'optimize']
 __version__ = '0.1.0'

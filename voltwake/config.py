@@ -394,6 +394,16 @@ def _walk(schema, data, path, lines, source, values, origins, overridden):
             origins[dotted] = ('default', None)
 
 
+def _regroup_design_variable(parts):
+    """Design-variable keys are dotted config paths: keep them whole in an override path."""
+    head = ('optimization', 'design_variables')
+    if parts[:2] != head or len(parts) < 4:
+        return parts
+    if parts[-1] in ('lower', 'upper', 'ref', 'ref0') and len(parts) > 4:
+        return head + ('.'.join(parts[2:-1]), parts[-1])
+    return head + ('.'.join(parts[2:]),)
+
+
 def _apply_overrides(data, overrides, overridden):
     """Apply overrides to ``data`` in place, adding every path they set to ``overridden``."""
     items = overrides.items() if isinstance(overrides, dict) else None
@@ -411,6 +421,7 @@ def _apply_overrides(data, overrides, overridden):
         if not all(parts):
             raise ConfigError(f"got {_show(str(path))}; expected a dotted key path such as "
                               "'wing.area'", source=OVERRIDE_SOURCE)
+        parts = _regroup_design_variable(parts)
         node = data
         for i, part in enumerate(parts[:-1]):
             if not isinstance(node.get(part), dict):

@@ -45,6 +45,8 @@ class DesignVariable:
         Bounds in SI ``units``.
     units : str or None
         SI units.
+    ref0, ref : float or None
+        Values that the optimiser sees as 0 and 1 (default: the bounds).
     """
 
     path: str
@@ -52,6 +54,8 @@ class DesignVariable:
     lower: float
     upper: float
     units: str = None
+    ref0: float = None
+    ref: float = None
 
 
 @dataclasses.dataclass
@@ -132,18 +136,19 @@ def design_variables(config, model_inputs):
             if path.split('.')[0] in ('aft_fan', 'electrical'):
                 continue   # the conventional reference has no aft-fan variables
             raise ConfigError('this input is not in the model', **where)
-        if not isinstance(bounds, dict) or set(bounds) - {'lower', 'upper'} or \
+        if not isinstance(bounds, dict) or set(bounds) - {'lower', 'upper', 'ref0', 'ref'} or \
                 not {'lower', 'upper'} <= set(bounds):
-            raise ConfigError(f'got {bounds!r}; expected {{lower: ..., upper: ...}}', **where)
+            raise ConfigError(f'got {bounds!r}; expected {{lower: ..., upper: ...}} and '
+                              'optionally ref0 and ref (scaling)', **where)
         units = field.units
-        lower = parse_quantity(bounds['lower'], units or '', where) if units else \
-            _number(bounds['lower'], where)
-        upper = parse_quantity(bounds['upper'], units or '', where) if units else \
-            _number(bounds['upper'], where)
-        if not lower < upper:
-            raise ConfigError(f'lower bound {lower:g} is not below upper bound {upper:g}',
-                              **where)
-        out.append(DesignVariable(path, field.target, lower, upper, units))
+        vals = {key: (parse_quantity(val, units, where) if units else _number(val, where))
+                for key, val in bounds.items()}
+        if not vals['lower'] < vals['upper']:
+            raise ConfigError(f"lower bound {vals['lower']:g} is not below upper bound "
+                              f"{vals['upper']:g}", **where)
+        if 'ref' in vals and vals['ref'] == vals.get('ref0', 0.0):
+            raise ConfigError('ref must differ from ref0', **where)
+        out.append(DesignVariable(path, field.target, units=units, **vals))
     if not out:
         raise ConfigError('no design variables for this design', source=config.source,
                           path='optimization.design_variables')
@@ -220,6 +225,7 @@ class SizingOptimizeDriver(om.ScipyOptimizeDriver):
         self.on_evaluation = None
         self._last_good = None
         self.spec_constraints = []
+        self.design_variables = []
 
     def _run_solve_nonlinear(self):
         model = self._problem().model
@@ -242,6 +248,7 @@ class SizingOptimizeDriver(om.ScipyOptimizeDriver):
 
     def _log(self, closed):
         prob = self._problem()
+        paths = {dv.target: dv.path for dv in self.design_variables}
         objective = float(np.real(list(
             self.get_objective_values(driver_scaling=False).values())[0][0]))
         worst = 0.0
@@ -250,7 +257,7 @@ class SizingOptimizeDriver(om.ScipyOptimizeDriver):
             worst = max(worst, con.violation(value))
         entry = {'evaluation': self.evaluations, 'objective': objective,
                  'max_violation': worst, 'closed': closed,
-                 'design': {name: float(np.real(val[0])) for name, val in
+                 'design': {paths.get(name, name): float(np.real(val[0])) for name, val in
                             self.get_design_var_values(driver_scaling=False).items()}}
         self.history.append(entry)
         if self.on_evaluation is not None:
@@ -302,8 +309,11 @@ def build_problem(config, overrides=None, recorder_path=None):
     prob = om.Problem(AircraftModel(vec_size=1, **config.model_options()), reports=False)
     prob.driver = driver
     for dv in dvs:
+        scaled = dv.ref is not None or dv.ref0 is not None
         prob.model.add_design_var(dv.target, lower=dv.lower, upper=dv.upper, units=dv.units,
-                                  ref0=dv.lower, ref=dv.upper)
+                                  ref0=(dv.ref0 or 0.0) if scaled else dv.lower,
+                                  ref=(dv.ref if dv.ref is not None else 1.0) if scaled
+                                  else dv.upper)
     for con in cons:
         scale = max(abs(b) for b in (con.lower, con.upper, con.equals) if b is not None)
         prob.model.add_constraint(con.name, lower=con.lower, upper=con.upper,
@@ -349,6 +359,12 @@ class OptimizationResult:
         Model evaluations.
     objective : str
         Name of the objective output.
+    best_feasible : dict or None
+        The history entry with the least objective among closed, feasible evaluations.
+    inputs : dict
+        The configuration as given (after overrides).
+    problem : om.Problem or None
+        The OpenMDAO problem at the final point.
     """
 
     success: bool
@@ -361,6 +377,8 @@ class OptimizationResult:
     failed_points: int
     evaluations: int
     objective: str
+    best_feasible: dict = None
+    inputs: dict = None
     problem: object = None
 
     def to_dict(self):
@@ -447,6 +465,9 @@ def optimize(config=None, overrides=None, recorder_path=None, on_evaluation=None
         message += f'; final design infeasible (worst relative violation {worst:.3g})'
     outputs = read_fields(prob, config.has_aft_fan) if reason is None else {}
     objective = config.values['optimization.objective']
+    feasible = [e for e in driver.history
+                if e['closed'] and e['max_violation'] <= FEASIBILITY_TOLERANCE]
+    best = min(feasible, key=lambda e: e['objective']) if feasible else None
     return OptimizationResult(success, message, design, cons, outputs, start,
                               list(driver.history), driver.failed_points,
-                              driver.evaluations, objective, prob)
+                              driver.evaluations, objective, best, config.data, prob)

@@ -133,5 +133,11 @@ def optimization_text(result):
         lines.append(f"Block fuel {result.outputs['block_fuel_kg']:,.1f} kg, MTOW "
                      f"{result.outputs['mtow_kg']:,.1f} kg, L/D "
                      f"{result.outputs['cruise_lift_to_drag']:.3f}")
+    if not result.success:
+        best = result.best_feasible
+        lines.append('Best feasible point found: ' + (
+            'none' if best is None else f"evaluation {best['evaluation']}, objective "
+            f"{best['objective']:,.6g}, design " + ', '.join(
+                f'{k} = {v:.5g}' for k, v in best['design'].items())))
     lines.append(CAUTION)
     return '\n'.join(lines)
