@@ -66,6 +66,14 @@ AFT_FAN_FIELDS = {
     'generator_mass_kg': ('generator_mass', 'kg'),
     'cable_mass_kg': ('cable_mass', 'kg'),
     'thermal_mass_kg': ('thermal_mass', 'kg'),
+    'rectifier_mass_kg': ('rectifier_mass', 'kg'),
+    'inverter_mass_kg': ('inverter_mass', 'kg'),
+    'generator_loss_kW': ('generator_loss', 'kW'),
+    'rectifier_loss_kW': ('rectifier_loss', 'kW'),
+    'cable_loss_kW': ('cable_loss', 'kW'),
+    'inverter_loss_kW': ('inverter_loss', 'kW'),
+    'motor_loss_kW': ('motor_loss', 'kW'),
+    'motor_rated_power_kW': ('motor_rated_power', 'kW'),
 }
 
 
@@ -205,6 +213,58 @@ def read_fields(prob, aft_fan, index=0):
     return out
 
 
+_CLOSED = 'the sizing loop did not close: '
+
+#: Checks of a converged state, in order: (test of the point, reason when it fails).
+_CHECKS = [
+    (lambda v, aft: v('turbofan_specific_thrust') > 0,
+     'the under-wing fan gives no thrust (jet velocity not above flight speed; raise the fan '
+     'pressure ratio)'),
+    (lambda v, aft: v('aft_specific_thrust') > 0 if aft else True,
+     'the aft fan gives no thrust (jet velocity not above the ingested flow velocity; raise '
+     'its pressure ratio)'),
+    (lambda v, aft: np.isfinite(v('mtow')) & (v('mtow') <= 50.0 * v('payload')),
+     'MTOW ran away (weight grows without bound)'),
+    (lambda v, aft: (v('mtow') > 0) & (v('total_fuel') > 0) & (v('oew') > 0),
+     'no positive MTOW satisfies the mass balance (weight grows without bound)'),
+    (lambda v, aft: v('capture_height') > 0 if aft else True,
+     'no capture height satisfies the aft-fan mass flow'),
+    (lambda v, aft: v('cable_efficiency') > 0 if aft else True,
+     'the cable loses all the power it carries'),
+    (lambda v, aft: v('lift_to_drag') > 0, 'no positive lift-to-drag ratio'),
+]
+
+
+def closure_reasons(prob, aft_fan):
+    """
+    Say, point by point, why a design did not close, from the state a solve left behind.
+
+    Parameters
+    ----------
+    prob : om.Problem
+        The problem after a solve (failed or not).
+    aft_fan : bool
+        Whether the design has an aft fan.
+
+    Returns
+    -------
+    list of str or None
+        One entry per design point: a one-line reason, or None when the state is physical.
+    """
+    def val(name):
+        return np.real(prob.get_val(name))
+
+    size = prob.model.options['vec_size']
+    reasons = [None] * size
+    with np.errstate(invalid='ignore'):
+        for test, reason in _CHECKS:
+            ok = np.broadcast_to(np.asarray(test(val, aft_fan)), (size,))
+            for i in np.flatnonzero(~ok):
+                if reasons[i] is None:
+                    reasons[i] = _CLOSED + reason
+    return reasons
+
+
 def closure_problem(prob, aft_fan):
     """
     Say why a design did not close, from the state the failed solve left behind.
@@ -219,30 +279,15 @@ def closure_problem(prob, aft_fan):
     Returns
     -------
     str or None
-        A one-line reason, or None when the converged state is physical.
+        A one-line reason (the first failing point's), or None when every point is physical.
     """
-    def val(name):
-        return np.real(prob.get_val(name))
-
-    closed = 'the sizing loop did not close: '
-    if not np.all(val('turbofan_specific_thrust') > 0):
-        return closed + ('the under-wing fan gives no thrust (jet velocity not above flight '
-                         'speed; raise the fan pressure ratio)')
-    if aft_fan and not np.all(val('aft_specific_thrust') > 0):
-        return closed + ('the aft fan gives no thrust (jet velocity not above the ingested '
-                         'flow velocity; raise its pressure ratio)')
-    mtow, payload = val('mtow'), val('payload')
-    if not np.all(np.isfinite(mtow)) or np.any(mtow > 50.0 * payload):
-        return closed + f'MTOW ran away to {np.max(mtow):.4g} kg (weight grows without bound)'
-    if np.any(mtow <= 0) or np.any(val('total_fuel') <= 0) or np.any(val('oew') <= 0):
-        return closed + 'no positive MTOW satisfies the mass balance (weight grows without bound)'
-    if aft_fan and not np.all(val('capture_height') > 0):
-        return closed + 'no capture height satisfies the aft-fan mass flow'
-    if aft_fan and not np.all(val('cable_efficiency') > 0):
-        return closed + 'the cable loses all the power it carries'
-    if not np.all(val('lift_to_drag') > 0):
-        return closed + 'no positive lift-to-drag ratio'
-    return None
+    reasons = [r for r in closure_reasons(prob, aft_fan) if r is not None]
+    if not reasons:
+        return None
+    if 'MTOW ran away' in reasons[0]:
+        mtow = np.real(prob.get_val('mtow'))
+        return reasons[0].replace('MTOW ran away', f'MTOW ran away to {np.max(mtow):.4g} kg')
+    return reasons[0]
 
 
 def run_sizing(prob, aft_fan):

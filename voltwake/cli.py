@@ -49,6 +49,30 @@ def _parser():
     p.add_argument('--force', action='store_true', help='allow a non-empty --out DIR')
     p.add_argument('--json', action='store_true', help='print one JSON object at the end')
 
+    p = sub.add_parser('sweep', help='trade studies: design-space map, target sweep with '
+                                     'optimisations, technology break-even, Monte Carlo')
+    _config_arg(p)
+    p.add_argument('--map', action='append', default=[], metavar='PATH=LO:HI:N',
+                   help='an axis of a vectorised design-space map (analysis only)')
+    p.add_argument('--targets', action='append', default=[], metavar='PATH=LO:HI:N',
+                   help='an axis of a target sweep (an optimisation at every point)')
+    p.add_argument('--breakeven', metavar='PATH=LO:HI',
+                   help='technology input at which the design burns as much fuel as the '
+                        'optimised reference')
+    p.add_argument('--monte-carlo', dest='samples', type=int, metavar='N',
+                   help='Monte Carlo samples over study.uncertainty.distributions')
+    p.add_argument('--seed', type=int, help='Monte Carlo seed')
+    p.add_argument('--jobs', type=int, default=None,
+                   help='local processes for the optimisations (default: all cores)')
+    p.add_argument('--out', metavar='DIR', help='write CSV, summaries, plots and report.html')
+    p.add_argument('--force', action='store_true', help='allow a non-empty --out DIR')
+    p.add_argument('--json', action='store_true', help='print one JSON object at the end')
+
+    p = sub.add_parser('report', help='write one self-contained HTML report of a results '
+                                      'directory')
+    p.add_argument('results_dir', help='a directory written by optimize or sweep --out')
+    p.add_argument('--output', help='HTML file (default: RESULTS_DIR/report.html)')
+
     p = sub.add_parser('derivs', help='check partial and total derivatives against '
                                       'complex step')
     _config_arg(p)
@@ -86,6 +110,22 @@ def _cmd_derivs(args):
     return errors.EXIT_OK
 
 
+def _optimization_plots(result, out_dir):
+    """Convergence history, mass breakdown and power flow of an optimum (needs matplotlib)."""
+    try:
+        from . import plots
+        plots.plot_history(result.history, os.path.join(out_dir, 'convergence.png'),
+                           objective_label=result.objective)
+        if result.outputs:
+            plots.plot_mass_breakdown(result.outputs, result.start,
+                                      os.path.join(out_dir, 'mass_breakdown.png'),
+                                      design_label='optimum', reference_label='start')
+            if result.outputs.get('aft_thrust_fraction', 0.0) > 0:
+                plots.plot_power_flow(result.outputs, os.path.join(out_dir, 'power_flow.png'))
+    except errors.ConfigError:
+        pass   # no matplotlib: the results files and the report still stand
+
+
 def _cmd_optimize(args):
     from .optimization import optimize
     from .results_io import prepare_out_dir, write_results
@@ -104,6 +144,9 @@ def _cmd_optimize(args):
     data = result.to_dict()
     if out_dir:
         write_results(out_dir, 'results', {'status': 'complete', **data})
+        _optimization_plots(result, out_dir)
+        from .report import write_report
+        write_report(out_dir)
     print(json.dumps(data, indent=2) if args.json else optimization_text(result))
     if not result.success:
         print(f'voltwake: error: optimisation failed: {result.message}', file=sys.stderr)
@@ -111,8 +154,37 @@ def _cmd_optimize(args):
     return errors.EXIT_OK
 
 
+def _cmd_sweep(args):
+    from .config import load_config
+    from .parallel import ProgressBar, is_root
+    from .results_io import prepare_out_dir
+    from .sweep import _clean, run_sweep, study_spec
+    if args.jobs is not None and args.jobs < 1:
+        raise errors.ConfigError(f'--jobs {args.jobs}: expected a whole number >= 1')
+    config = load_config(args.config, args.overrides)
+    spec = study_spec(config, args.map, args.targets, args.breakeven, args.samples, args.seed)
+    root = is_root()
+    out_dir = prepare_out_dir(args.out, args.force) if (args.out and root) else None
+    bar = ProgressBar() if (root and not args.json) else None
+    summaries = run_sweep(config, spec, jobs=args.jobs, out_dir=out_dir, progress=bar)
+    if not root:
+        return errors.EXIT_OK
+    if args.json:
+        print(json.dumps(_clean(summaries), indent=2, sort_keys=True))
+    else:
+        from .summary import sweep_text
+        print(sweep_text(summaries, out_dir))
+    return errors.EXIT_OK
+
+
+def _cmd_report(args):
+    from .report import write_report
+    print(write_report(args.results_dir, args.output))
+    return errors.EXIT_OK
+
+
 COMMANDS = {'analyze': _cmd_analyze, 'compare': _cmd_compare, 'derivs': _cmd_derivs,
-            'optimize': _cmd_optimize}
+            'optimize': _cmd_optimize, 'sweep': _cmd_sweep, 'report': _cmd_report}
 
 
 def main(argv=None):

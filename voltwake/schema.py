@@ -237,6 +237,9 @@ SECTIONS['optimization'] = {
     },
 }
 
+SECTIONS['study'] = Field('mapping', 'trade study for voltwake sweep: map, targets, breakeven '
+                          'and/or uncertainty (see README)', default={})
+
 SECTIONS['solver'] = {
     'max_iterations': Field('integer', 'Newton iteration limit of the sizing loop',
                             default=30, check='at_least_one'),

@@ -141,3 +141,50 @@ def optimization_text(result):
                 f'{k} = {v:.5g}' for k, v in best['design'].items())))
     lines.append(CAUTION)
     return '\n'.join(lines)
+
+
+def sweep_text(summaries, out_dir=None):
+    """
+    Format the summaries of ``voltwake sweep``.
+
+    Parameters
+    ----------
+    summaries : dict
+        Study name -> summary.
+    out_dir : str or None
+        Where the files were written.
+
+    Returns
+    -------
+    str
+        A few lines per study.
+    """
+    lines = []
+    for name, res in summaries.items():
+        if name == 'map':
+            lines.append(f"design-space map of {res.get('design', '')}: "
+                         f"{100 * res['closure_rate']:.2f}% of the points closed "
+                         f"({res.get('recovered', 0)} by continuation)")
+        elif name == 'targets':
+            ref = res.get('reference', {})
+            lines.append(f"target sweep: {res.get('points_count', '')} points; optimised "
+                         f"reference block fuel {ref.get('block_fuel_kg', float('nan')):,.1f} kg")
+        elif name == 'breakeven':
+            if res.get('found'):
+                lines.append(f"break-even {res['path']} = {res['value']:.6g} "
+                             f"{res.get('units') or ''} (fuel-burn difference there "
+                             f"{res['difference_at_value']:+.4f}%)")
+            else:
+                lines.append(f"no break-even of {res['path']} in [{res['lower']:g}, "
+                             f"{res['upper']:g}]: {res.get('message', '')}")
+        elif name == 'montecarlo':
+            stats = res['fuel_burn_change_percent']
+            lines.append(f"Monte Carlo, {res['samples']} samples: fuel-burn change mean "
+                         f"{stats.get('mean', float('nan')):+.3f}% (5-95%: "
+                         f"{stats.get('p05', float('nan')):+.3f}% to "
+                         f"{stats.get('p95', float('nan')):+.3f}%), probability that the "
+                         f"turbo-electric design wins {100 * res['probability_of_win']:.1f}%")
+    if out_dir:
+        lines.append(f'results written to {out_dir}')
+    lines.append(CAUTION)
+    return '\n'.join(lines)

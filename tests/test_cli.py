@@ -1,0 +1,293 @@
+"""
+Tests of the ``voltwake`` command (voltwake.cli): outputs, exit codes and error lines.
+
+Most tests call ``voltwake.cli.main`` in-process; two run ``python -m voltwake.cli`` in a
+subprocess to check the real entry point, exit status and standard error.
+"""
+
+import contextlib
+import io
+import json
+import math
+import os
+import subprocess
+import sys
+
+import pytest
+from ambiance import Atmosphere
+
+from voltwake.cli import main
+from voltwake.config import demo_path, load_config
+from voltwake.errors import EXIT_BAD_INPUT, EXIT_NOT_CLOSED, EXIT_OK
+from voltwake.summary import CAUTION
+
+TURBO = demo_path('turbo_electric')
+CONVENTIONAL = demo_path('conventional')
+
+ANALYSIS_KEYS = {'converged', 'mtow_kg', 'oew_kg', 'payload_kg', 'block_fuel_kg',
+                 'reserve_fuel_kg', 'cruise_lift_to_drag', 'cruise_cl', 'tsfc_g_per_kN_s',
+                 'overall_efficiency', 'wingspan_m'}
+AFT_FAN_KEYS = {'power_saving_coefficient', 'aft_fan_shaft_power_kW', 'aft_fan_diameter_m',
+                'turbofan_power_extraction_kW', 'electrical_chain_efficiency',
+                'electrical_mass_kg', 'thermal_load_kW'}
+
+
+def run(argv):
+    """Run ``main`` in-process; return (exit code, stdout, stderr)."""
+    out, err = io.StringIO(), io.StringIO()
+    with contextlib.redirect_stdout(out), contextlib.redirect_stderr(err):
+        code = main(argv)
+    return code, out.getvalue(), err.getvalue()
+
+
+def run_subprocess(argv, cwd):
+    env = dict(os.environ, OPENMDAO_REPORTS='0')
+    env.pop('VOLTWAKE_DEBUG', None)
+    return subprocess.run([sys.executable, '-m', 'voltwake.cli', *argv], cwd=cwd, env=env,
+                          capture_output=True, text=True, timeout=600)
+
+
+def assert_one_error_line(stderr):
+    """Standard error holds exactly one line, the voltwake error, and no traceback."""
+    lines = stderr.splitlines()
+    assert len(lines) == 1, stderr
+    assert lines[0].startswith('voltwake: error: '), stderr
+    assert 'Traceback' not in stderr
+    return lines[0]
+
+
+@pytest.fixture(scope='module')
+def analyses():
+    """``analyze --json`` of both demos, run once for the module."""
+    out = {}
+    for name, path in (('turbo', TURBO), ('conventional', CONVENTIONAL)):
+        code, stdout, stderr = run(['analyze', path, '--json'])
+        out[name] = (code, stdout, stderr)
+    return out
+
+
+# --- analyze --json ------------------------------------------------------------------------
+
+@pytest.mark.parametrize('name', ['turbo', 'conventional'])
+def test_analyze_json_is_one_object_with_the_fields(analyses, name):
+    code, stdout, stderr = analyses[name]
+    assert code == EXIT_OK
+    assert stderr == ''
+    result = json.loads(stdout)              # the whole output is one JSON document
+    assert isinstance(result, dict)
+    keys = ANALYSIS_KEYS | (AFT_FAN_KEYS if name == 'turbo' else set())
+    assert keys <= result.keys()
+    assert result['converged'] is True
+    assert all(math.isfinite(v) for v in result.values() if isinstance(v, float))
+
+
+@pytest.mark.parametrize('name, path', [('turbo', TURBO), ('conventional', CONVENTIONAL)])
+def test_analyze_json_mass_and_fuel_balance(analyses, name, path):
+    result = json.loads(analyses[name][1])
+    config = load_config(path)
+    assert result['payload_kg'] == pytest.approx(config.value('mission.payload'), rel=1e-12)
+    # MTOW = empty (operating) mass + payload + fuel: Raymer, Aircraft Design: A Conceptual
+    # Approach, 6th ed., eq. 3.1 (from memory; crew counted in the operating empty mass).
+    assert result['mtow_kg'] == pytest.approx(
+        result['oew_kg'] + result['payload_kg'] + result['block_fuel_kg']
+        + result['reserve_fuel_kg'], rel=1e-9)
+    # Wing span from the definition of aspect ratio, AR = b**2 / S (common practice).
+    assert result['wingspan_m'] == pytest.approx(
+        math.sqrt(config.value('wing.aspect_ratio') * config.value('wing.area')), rel=1e-9)
+
+
+@pytest.mark.parametrize('name, path', [('turbo', TURBO), ('conventional', CONVENTIONAL)])
+def test_analyze_json_overall_efficiency(analyses, name, path):
+    result = json.loads(analyses[name][1])
+    config = load_config(path)
+    # Overall efficiency = thrust power / fuel power = V / (TSFC * LHV) (common practice),
+    # with the speed of sound of the ISA from the reference library ambiance (its
+    # constructor takes geometric height; the config altitude is geopotential).
+    height = Atmosphere.geop2geom_height(config.value('mission.cruise_altitude'))
+    speed = config.value('mission.cruise_mach') * Atmosphere(height).speed_of_sound[0]
+    tsfc = result['tsfc_g_per_kN_s'] * 1e-6           # g/(kN s) -> kg/(N s)
+    assert result['overall_efficiency'] == pytest.approx(
+        speed / (tsfc * config.value('fuel.heating_value')), rel=1e-9)
+
+
+def test_analyze_json_power_balance_of_the_electrical_chain(analyses):
+    result = json.loads(analyses['turbo'][1])
+    extracted = result['turbofan_power_extraction_kW']
+    # Energy conservation (common practice): the aft-fan shaft receives the extracted power
+    # times the chain efficiency, and every watt lost in the chain is heat to reject.
+    assert result['aft_fan_shaft_power_kW'] == pytest.approx(
+        extracted * result['electrical_chain_efficiency'], rel=1e-9)
+    assert result['thermal_load_kW'] == pytest.approx(
+        extracted - result['aft_fan_shaft_power_kW'], rel=1e-9)
+    assert 0.0 < result['power_saving_coefficient'] < 1.0
+    assert 0.0 < result['electrical_chain_efficiency'] < 1.0
+    assert result['aft_fan_diameter_m'] > 0.0 and result['electrical_mass_kg'] > 0.0
+
+
+def test_analyze_json_conventional_has_no_aft_fan(analyses):
+    result = json.loads(analyses['conventional'][1])
+    assert result.get('aft_thrust_fraction', 0.0) == 0.0
+    assert result.get('power_saving_coefficient', 0.0) == 0.0
+    assert result.get('electrical_mass_kg', 0.0) == 0.0
+
+
+def test_analyze_with_override_changes_the_design(analyses):
+    code, stdout, _ = run(['analyze', CONVENTIONAL, '--json', '--set', 'wing.area=130 m**2'])
+    assert code == EXIT_OK
+    result, base = json.loads(stdout), json.loads(analyses['conventional'][1])
+    # Span grows as the square root of the area at fixed aspect ratio (AR = b**2 / S).
+    assert result['wingspan_m'] == pytest.approx(base['wingspan_m'] * math.sqrt(130 / 122),
+                                                 rel=1e-9)
+
+
+def test_analyze_json_through_python_m(tmp_path):
+    proc = run_subprocess(['analyze', CONVENTIONAL, '--json'], cwd=tmp_path)
+    assert proc.returncode == EXIT_OK, proc.stderr
+    assert proc.stderr == ''
+    result = json.loads(proc.stdout)
+    assert ANALYSIS_KEYS <= result.keys() and result['converged'] is True
+    assert list(tmp_path.iterdir()) == []                # no report files left behind
+
+
+# --- text output ---------------------------------------------------------------------------
+
+def test_analyze_text_ends_with_the_caution(capsys):
+    assert main(['analyze', TURBO]) == EXIT_OK
+    out = capsys.readouterr().out
+    assert out.rstrip('\n').splitlines()[-1] == CAUTION
+    assert 'Power saving coefficient' in out
+
+
+def test_compare_text_ends_with_the_caution(capsys):
+    assert main(['compare', TURBO]) == EXIT_OK
+    out = capsys.readouterr().out
+    assert out.rstrip('\n').splitlines()[-1] == CAUTION
+    assert 'Block fuel change versus the reference:' in out
+
+
+# --- compare --json ------------------------------------------------------------------------
+
+def test_compare_json(capsys, analyses):
+    assert main(['compare', TURBO, '--json']) == EXIT_OK
+    captured = capsys.readouterr()
+    assert captured.err == ''
+    comp = json.loads(captured.out)
+    design, reference = comp['design'], comp['reference']
+    assert (ANALYSIS_KEYS | AFT_FAN_KEYS) <= design.keys()
+    assert ANALYSIS_KEYS <= reference.keys()
+    assert design['power_saving_coefficient'] > 0.0
+    assert reference.get('aft_thrust_fraction', 0.0) == 0.0
+    assert comp['fuel_burn_change_percent'] == pytest.approx(
+        100.0 * (design['block_fuel_kg'] - reference['block_fuel_kg'])
+        / reference['block_fuel_kg'], rel=1e-9)
+    # The reference is the same airframe without the aft fan: the conventional demo.
+    conventional = json.loads(analyses['conventional'][1])
+    assert reference['block_fuel_kg'] == pytest.approx(conventional['block_fuel_kg'], rel=1e-9)
+    assert design['block_fuel_kg'] == pytest.approx(
+        json.loads(analyses['turbo'][1])['block_fuel_kg'], rel=1e-9)
+
+
+# --- bad input: exit 2 with one line -------------------------------------------------------
+
+def bad_config(tmp_path):
+    text = open(TURBO, encoding='utf-8').read().replace('  aspect_ratio: 10.5\n',
+                                                        '  aspect_ratio: -10.5\n')
+    line = text.splitlines().index('  aspect_ratio: -10.5') + 1
+    path = tmp_path / 'bad.yaml'
+    path.write_text(text, encoding='utf-8')
+    return str(path), line
+
+
+@pytest.mark.parametrize('command', [['analyze'], ['analyze', '--json'], ['compare'],
+                                     ['compare', '--json'], ['derivs']])
+def test_bad_config_exits_2_with_one_line(capsys, tmp_path, command):
+    path, line = bad_config(tmp_path)
+    assert main([*command, path]) == EXIT_BAD_INPUT
+    captured = capsys.readouterr()
+    message = assert_one_error_line(captured.err)
+    assert message.startswith(f'voltwake: error: {path}:{line}: wing.aspect_ratio: got -10.5')
+    assert captured.out == ''
+
+
+@pytest.mark.parametrize('override, expected', [
+    ('wing.aspect_ratio=0', '--set: wing.aspect_ratio: got 0; expected a value > 0'),
+    ('wing.aera=3', "--set: wing.aera: unknown key (did you mean 'area'?)"),
+    ('mission.range=1500 kg', "--set: mission.range: got '1500 kg': unit 'kg' cannot be"),
+    ('mission.cruise_mach=1.2', '--set: mission.cruise_mach: got 1.2; expected a value in (0, 1)'),
+    ('mission.range', "--set: got 'mission.range'; expected key.path=value"),
+])
+def test_bad_override_exits_2_naming_set(capsys, override, expected):
+    assert main(['analyze', TURBO, '--set', override]) == EXIT_BAD_INPUT
+    message = assert_one_error_line(capsys.readouterr().err)
+    assert message.startswith(f'voltwake: error: {expected}'), message
+
+
+@pytest.mark.parametrize('content', [b'', b'\x00\x01\x02binary', b'wing: [1\n'])
+def test_unreadable_files_exit_2(capsys, tmp_path, content):
+    path = tmp_path / 'odd.yaml'
+    path.write_bytes(content)
+    assert main(['analyze', str(path)]) == EXIT_BAD_INPUT
+    message = assert_one_error_line(capsys.readouterr().err)
+    assert message.startswith(f'voltwake: error: {path}')
+
+
+def test_missing_file_exits_2(capsys, tmp_path):
+    path = tmp_path / 'nowhere.yaml'
+    assert main(['analyze', str(path)]) == EXIT_BAD_INPUT
+    message = assert_one_error_line(capsys.readouterr().err)
+    assert message.startswith(f'voltwake: error: {path}: cannot read the file')
+
+
+def test_bad_config_through_python_m(tmp_path):
+    path, line = bad_config(tmp_path)
+    proc = run_subprocess(['analyze', path], cwd=tmp_path)
+    assert proc.returncode == EXIT_BAD_INPUT
+    assert proc.stdout == ''
+    message = assert_one_error_line(proc.stderr)
+    assert f'{path}:{line}: wing.aspect_ratio' in message
+
+
+# --- designs that cannot close: exit 3 with one line ---------------------------------------
+
+def not_closed(capsys, path, override):
+    assert main(['analyze', path, '--json', '--set', override]) == EXIT_NOT_CLOSED
+    captured = capsys.readouterr()
+    assert captured.out == ''
+    message = assert_one_error_line(captured.err)
+    assert message.startswith('voltwake: error: the sizing loop did not close: ')
+    return message
+
+
+def test_airframe_mass_exponent_above_one_runs_away(capsys):
+    # With airframe mass ~ MTOW**1.2 every added kilogram adds more than a kilogram of
+    # structure: the mass balance has no finite root near the demo design.
+    message = not_closed(capsys, CONVENTIONAL, 'structure.airframe_mass_exponent=1.2')
+    assert 'MTOW' in message and 'weight grows without bound' in message
+
+
+@pytest.mark.parametrize('path', [TURBO, CONVENTIONAL])
+@pytest.mark.parametrize('ratio', ['1.0', '0.95'])
+def test_fan_pressure_ratio_without_thrust(capsys, path, ratio):
+    # A fan pressure ratio of one or less gives a jet no faster than flight: no thrust.
+    message = not_closed(capsys, path, f'turbofans.fan_pressure_ratio={ratio}')
+    assert 'under-wing fan gives no thrust' in message
+    assert 'raise the fan pressure ratio' in message
+
+
+@pytest.mark.parametrize('path', [TURBO, CONVENTIONAL])
+def test_fan_pressure_ratio_barely_above_one(capsys, path):
+    not_closed(capsys, path, 'turbofans.fan_pressure_ratio=1.01')
+
+
+@pytest.mark.xfail(strict=True, reason='voltwake.analysis.closure_problem reads a NaN state '
+                   'left by the failed Newton solve as "no thrust" and checks the aft fan '
+                   'before the mass balance, so the reason names the wrong cause')
+@pytest.mark.parametrize('path, override, cause, not_cause', [
+    (TURBO, 'structure.airframe_mass_exponent=1.2', 'weight grows without bound', 'aft fan'),
+    (TURBO, 'turbofans.fan_pressure_ratio=1.01', 'under-wing fan', 'aft fan'),
+    (TURBO, 'aft_fan.fan_pressure_ratio=1.0', 'aft fan gives no thrust', 'nan'),
+    (CONVENTIONAL, 'structure.airframe_mass_exponent=1.05', 'MTOW', 'nan'),
+])
+def test_not_closed_reason_names_the_cause(capsys, path, override, cause, not_cause):
+    message = not_closed(capsys, path, override)
+    assert cause in message and not_cause not in message

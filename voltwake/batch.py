@@ -1,0 +1,221 @@
+"""
+Many designs at once: one vectorised model whose Newton solve converges every point together.
+
+Points that do not close are isolated and marked with a reason (they are never dropped or
+filled with garbage): a failing point's inputs are set back to the base design so that it
+cannot spoil the solve of the others, then a continuation walks it from the base design to
+its own inputs in steps; whatever still does not close is reported as not closing.
+"""
+
+import dataclasses
+
+import numpy as np
+from openmdao.core.analysis_error import AnalysisError
+
+from .analysis import FIELDS, AFT_FAN_FIELDS, build_model_problem, closure_reasons
+from .config import field_at, load_config
+from .errors import ConfigError
+
+#: Largest relative residual of a point accepted as converged.
+RESIDUAL_TOLERANCE = 1e-7
+#: Continuation steps (fractions of the way from the base design to the point).
+CONTINUATION = (0.25, 0.5, 0.75, 1.0)
+
+
+@dataclasses.dataclass
+class BatchResult:
+    """
+    Results of many design points.
+
+    Parameters
+    ----------
+    inputs : dict
+        Dotted config path -> array of the varied inputs (SI).
+    values : dict
+        Result field -> array (NaN where the point did not close).
+    closed : ndarray of bool
+        Which points closed.
+    reasons : list of str or None
+        Why each point did not close (None where it closed).
+    recovered : int
+        Points that closed only through the continuation.
+    """
+
+    inputs: dict
+    values: dict
+    closed: np.ndarray
+    reasons: list
+    recovered: int = 0
+
+    @property
+    def closure_rate(self):
+        """float: Share of the points that closed."""
+        return float(np.mean(self.closed)) if len(self.closed) else 1.0
+
+
+def _targets(config, columns):
+    out = {}
+    size = None
+    for path, values in columns.items():
+        field = field_at(path)
+        if field is None or not field.target or field.target not in config.model_inputs():
+            raise ConfigError('not a model input of this design; expected a config key path '
+                              "such as 'aft_fan.thrust_fraction'", source=config.source,
+                              path=path)
+        arr = np.asarray(values, dtype=float).ravel()
+        if size is not None and arr.size != size:
+            raise ConfigError(f'{arr.size} values where the other inputs have {size}',
+                              source=config.source, path=path)
+        size = arr.size
+        out[path] = (field.target, field.units, arr)
+    return out, size
+
+
+def _point_residuals(prob):
+    """Largest residual of each point relative to its output (after apply_nonlinear)."""
+    loop = prob.model.sizing
+    loop.run_apply_nonlinear()
+    size = prob.model.options['vec_size']
+    worst = np.zeros(size)
+    outs = dict(loop._outputs._abs_item_iter())
+    for name, res in loop._residuals._abs_item_iter():
+        rel = np.abs(np.real(res)) / np.maximum(np.abs(np.real(outs[name])), 1.0)
+        worst = np.maximum(worst, np.where(np.isfinite(rel), rel, np.inf).reshape(size))
+    return worst
+
+
+def _solve(prob, aft_fan):
+    """Run the model; return per-point (ok, reason)."""
+    try:
+        with np.errstate(all='ignore'):
+            prob.run_model()
+    except AnalysisError:
+        pass
+    reasons = closure_reasons(prob, aft_fan)
+    residual = _point_residuals(prob)
+    ok = (residual < RESIDUAL_TOLERANCE) & np.array([r is None for r in reasons])
+    for i in np.flatnonzero(~ok):
+        if reasons[i] is None:
+            reasons[i] = ('the sizing loop did not close: Newton iterations did not converge '
+                          f'(relative residual {residual[i]:.2g})')
+    return ok, reasons
+
+
+def _set(prob, targets, fraction, base, where):
+    for target, units, arr in targets.values():
+        value = np.asarray(prob.get_val(target, units=units), dtype=float).copy()
+        value[where] = base[target] + fraction[where] * (arr[where] - base[target])
+        prob.set_val(target, value, units=units)
+
+
+def _reset_states(prob, bad, good):
+    """Give bad points the converged states of a good point (or leave defaults)."""
+    if good is None:
+        return
+    size = prob.model.options['vec_size']
+    for _, flat in prob.model.sizing._outputs._abs_item_iter():
+        flat = flat.reshape(size)
+        flat[bad] = flat[good]
+
+
+def _isolate(prob, aft_fan, targets, fraction, base, active):
+    """Solve; points that fail are set back to the base design until the rest converge."""
+    size = len(fraction)
+    failed = np.zeros(size, dtype=bool)
+    reasons = [None] * size
+    for _ in range(size + 1):
+        ok, why = _solve(prob, aft_fan)
+        bad = ~ok & active & ~failed
+        if not bad.any():
+            if np.all(ok | failed | ~active):
+                return failed, reasons
+        for i in np.flatnonzero(bad):
+            reasons[i] = why[i]
+        failed |= bad
+        frac = fraction.copy()
+        frac[failed] = 0.0
+        _set(prob, targets, frac, base, failed)
+        good = np.flatnonzero(ok & ~failed)
+        _reset_states(prob, failed, good[0] if good.size else None)
+    return failed | ~_solve(prob, aft_fan)[0], reasons
+
+
+def analyze_points(config, columns, field_names=None):
+    """
+    Analyse many designs in one vectorised model.
+
+    Parameters
+    ----------
+    config : Config, dict, str or None
+        The base configuration; every point starts from it.
+    columns : dict
+        Dotted config path -> 1-D sequence of values (SI), one per point (all equal length).
+    field_names : list of str or None
+        Result fields to return (default: every analysis field).
+
+    Returns
+    -------
+    BatchResult
+        Inputs, result fields (NaN where a point did not close), closure flags and reasons.
+    """
+    config = load_config(config)
+    targets, size = _targets(config, columns)
+    aft = config.has_aft_fan
+    prob = build_model_problem(config, vec_size=size)
+    base = {t: float(np.asarray(config.model_inputs()[t][0])) for t, _, _ in targets.values()}
+    one = np.ones(size)
+    _set(prob, targets, one, base, np.ones(size, dtype=bool))
+    failed, reasons = _isolate(prob, aft, targets, one, base, np.ones(size, dtype=bool))
+    recovered = 0
+    if failed.any():
+        # Continuation: walk the failed points from the base design to their own inputs.
+        walking = failed.copy()
+        fraction = np.where(walking, 0.0, 1.0)
+        for step in CONTINUATION:
+            trial = np.where(walking, step, fraction)
+            _set(prob, targets, trial, base, walking)
+            stuck, why = _isolate(prob, aft, targets, trial, base, walking)
+            for i in np.flatnonzero(stuck & walking):
+                reasons[i] = why[i] or reasons[i]
+            fraction = np.where(walking & ~stuck, trial, fraction)
+            walking &= ~stuck
+            if not walking.any():
+                break
+        recovered = int(np.sum(walking))
+        failed = failed & ~walking
+        for i in np.flatnonzero(~failed):
+            reasons[i] = None
+        _set(prob, targets, np.where(failed, 0.0, 1.0), base, np.ones(size, dtype=bool))
+        _solve(prob, aft)
+    names = field_names or list(FIELDS) + list(AFT_FAN_FIELDS)
+    values = {}
+    table = {**FIELDS, **AFT_FAN_FIELDS}
+    for key in names:
+        name, units = table[key]
+        if key in AFT_FAN_FIELDS and not aft:
+            arr = np.zeros(size)
+        else:
+            arr = np.real(np.asarray(prob.get_val(name, units=units), dtype=complex)).copy()
+        arr = np.broadcast_to(arr, (size,)).astype(float)
+        arr[failed] = np.nan
+        values[key] = arr
+    inputs = {path: arr for path, (_, _, arr) in targets.items()}
+    return BatchResult(inputs, values, ~failed, reasons, recovered)
+
+
+def full_factorial(axes):
+    """
+    Return the columns of a full-factorial grid.
+
+    Parameters
+    ----------
+    axes : dict
+        Dotted config path -> 1-D sequence of values; the first path varies slowest.
+
+    Returns
+    -------
+    dict
+        Dotted config path -> flattened column (C order over the axes).
+    """
+    grids = np.meshgrid(*[np.asarray(v, dtype=float) for v in axes.values()], indexing='ij')
+    return {path: grid.ravel() for path, grid in zip(axes, grids)}

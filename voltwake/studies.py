@@ -1,0 +1,249 @@
+"""
+Trade studies: design-space maps and Monte Carlo over technology inputs, each evaluated as one
+vectorised model (see :mod:`voltwake.batch`), compared with the conventional reference.
+"""
+
+import csv
+import io
+import math
+
+import numpy as np
+
+from .analysis import analyze
+from .batch import analyze_points, full_factorial
+from .config import field_at, load_config, parse_quantity
+from .errors import ConfigError
+
+#: Fields written for every point of a study, with their units for the CSV header.
+POINT_FIELDS = {
+    'block_fuel_kg': 'kg', 'total_fuel_kg': 'kg', 'mtow_kg': 'kg', 'oew_kg': 'kg',
+    'cruise_lift_to_drag': '-', 'tsfc_g_per_kN_s': 'g/(kN*s)', 'overall_efficiency': '-',
+    'power_saving_coefficient': '-', 'aft_fan_diameter_m': 'm', 'aft_fan_shaft_power_kW': 'kW',
+    'electrical_mass_kg': 'kg', 'aft_fan_mass_kg': 'kg', 'engines_mass_kg': 'kg',
+    'electrical_chain_efficiency': '-', 'capture_height_m': 'm',
+}
+
+
+def parse_axis(text, count_required=True):
+    """
+    Parse ``PATH=LO:HI[:N]`` (units allowed on LO and HI) into a path and values.
+
+    Parameters
+    ----------
+    text : str
+        The axis specification, e.g. ``aft_fan.fan_pressure_ratio=1.2:1.6:100``.
+    count_required : bool
+        Whether ``:N`` must be given.
+
+    Returns
+    -------
+    tuple
+        (path, lower, upper, count or None) with bounds in SI.
+    """
+    path, sep, spec = str(text).partition('=')
+    parts = spec.split(':')
+    where = {'source': '--command line', 'path': path.strip() or None}
+    if not sep or len(parts) not in ((3,) if count_required else (2, 3)):
+        form = 'PATH=LO:HI:N' if count_required else 'PATH=LO:HI'
+        raise ConfigError(f'got {text!r}; expected {form}', **where)
+    path = path.strip()
+    field = field_at(path)
+    if field is None or not field.target:
+        raise ConfigError('not a model input; expected a config key path such as '
+                          "'aft_fan.thrust_fraction'", **where)
+    lower, upper = (parse_quantity(p.strip(), field.units, where) if field.units
+                    else _float(p, where) for p in parts[:2])
+    count = None
+    if len(parts) == 3:
+        try:
+            count = int(parts[2])
+        except ValueError:
+            count = 0
+        if count < 1:
+            raise ConfigError(f'got {parts[2]!r} points; expected a whole number >= 1', **where)
+    return path, lower, upper, count
+
+
+def _float(text, where):
+    try:
+        value = float(text)
+    except ValueError:
+        raise ConfigError(f'got {text!r}; expected a number', **where) from None
+    if not math.isfinite(value):
+        raise ConfigError(f'got {text!r}; expected a finite number', **where)
+    return value
+
+
+def _reference(config):
+    ref = analyze(config.without_aft_fan(), keep_problem=False)
+    return ref.values
+
+
+def _rows(batch, reference):
+    rows = []
+    ref_fuel = reference['block_fuel_kg']
+    size = len(batch.closed)
+    for i in range(size):
+        row = {path: float(col[i]) for path, col in batch.inputs.items()}
+        row['closed'] = bool(batch.closed[i])
+        row['reason'] = batch.reasons[i] or ''
+        for key in POINT_FIELDS:
+            row[key] = float(batch.values[key][i])
+        fuel = row['block_fuel_kg']
+        row['fuel_burn_change_percent'] = (100.0 * (fuel - ref_fuel) / ref_fuel
+                                           if row['closed'] else float('nan'))
+        rows.append(row)
+    return rows
+
+
+def design_space_map(config, axes):
+    """
+    Analyse a full-factorial grid of design points as one vectorised model.
+
+    Parameters
+    ----------
+    config : Config, dict, str or None
+        The base configuration.
+    axes : dict
+        Dotted config path -> 1-D sequence of values (SI); the first varies slowest.
+
+    Returns
+    -------
+    dict
+        ``kind``, ``axes`` (path -> values), ``points`` (one row per point, including
+        ``closed`` and ``reason``), ``reference`` (the analysed conventional reference),
+        ``closure_rate`` and ``recovered`` (points closed by continuation).
+    """
+    config = load_config(config)
+    batch = analyze_points(config, full_factorial(axes), list(POINT_FIELDS))
+    reference = _reference(config)
+    return {'kind': 'map', 'axes': {p: [float(v) for v in vals] for p, vals in axes.items()},
+            'points': _rows(batch, reference), 'reference': reference,
+            'closure_rate': batch.closure_rate, 'recovered': batch.recovered,
+            'design': config.name}
+
+
+def sample_distributions(distributions, samples, seed):
+    """
+    Draw samples of technology inputs.
+
+    Parameters
+    ----------
+    distributions : dict
+        Dotted config path -> ``{'uniform': [lo, hi]}`` or ``{'triangular': [lo, mode, hi]}``
+        (values in SI or strings with units).
+    samples : int
+        Number of samples.
+    seed : int
+        Seed of the random generator (the same seed gives the same samples).
+
+    Returns
+    -------
+    dict
+        Dotted config path -> array of samples (SI).
+    """
+    rng = np.random.default_rng(seed)
+    out = {}
+    for path in sorted(distributions):
+        spec = distributions[path]
+        where = {'source': 'study.uncertainty', 'path': path}
+        field = field_at(path)
+        if field is None or not field.target:
+            raise ConfigError('not a model input; expected a config key path', **where)
+        if not isinstance(spec, dict) or len(spec) != 1:
+            raise ConfigError(f'got {spec!r}; expected {{uniform: [lo, hi]}} or '
+                              '{triangular: [lo, mode, hi]}', **where)
+        (kind, params), = spec.items()
+        sizes = {'uniform': 2, 'triangular': 3}
+        if kind not in sizes or not isinstance(params, list) or len(params) != sizes[kind]:
+            raise ConfigError(f'got {spec!r}; expected {{uniform: [lo, hi]}} or '
+                              '{triangular: [lo, mode, hi]}', **where)
+        vals = [parse_quantity(p, field.units, where) if field.units else _float(p, where)
+                for p in params]
+        if vals != sorted(vals) or vals[0] == vals[-1]:
+            raise ConfigError(f'got {params!r}; expected increasing values', **where)
+        out[path] = (rng.uniform(vals[0], vals[1], samples) if kind == 'uniform'
+                     else rng.triangular(vals[0], vals[1], vals[2], samples))
+    return out
+
+
+def monte_carlo(config, distributions, samples=1000, seed=1):
+    """
+    Evaluate sampled technology inputs as one vectorised model against the reference.
+
+    Parameters
+    ----------
+    config : Config, dict, str or None
+        The turbo-electric configuration.
+    distributions : dict
+        See :func:`sample_distributions`.
+    samples : int
+        Number of samples.
+    seed : int
+        Random seed.
+
+    Returns
+    -------
+    dict
+        ``points``, ``reference``, the distribution of ``fuel_burn_change_percent``
+        (mean, standard deviation, percentiles 5/50/95) and ``probability_of_win``
+        (share of closed samples burning less fuel than the reference).
+    """
+    config = load_config(config)
+    if not config.has_aft_fan:
+        raise ConfigError('a Monte Carlo study needs a turbo-electric design (aft_fan section)',
+                          source=config.source)
+    columns = sample_distributions(distributions, samples, seed)
+    batch = analyze_points(config, columns, list(POINT_FIELDS))
+    reference = _reference(config)
+    rows = _rows(batch, reference)
+    change = np.array([r['fuel_burn_change_percent'] for r in rows if r['closed']])
+    stats = {}
+    if change.size:
+        stats = {'mean': float(change.mean()), 'std': float(change.std(ddof=1))
+                 if change.size > 1 else 0.0,
+                 'p05': float(np.percentile(change, 5)), 'p50': float(np.percentile(change, 50)),
+                 'p95': float(np.percentile(change, 95))}
+    return {'kind': 'montecarlo', 'samples': samples, 'seed': seed,
+            'distributions': distributions, 'points': rows, 'reference': reference,
+            'fuel_burn_change_percent': stats,
+            'probability_of_win': float(np.mean(change < 0.0)) if change.size else float('nan'),
+            'closure_rate': batch.closure_rate, 'design': config.name}
+
+
+def points_csv(rows, units=None):
+    """
+    Return the rows of a study as CSV text with units in the header.
+
+    Parameters
+    ----------
+    rows : list of dict
+        One dict per point (same keys).
+    units : dict or None
+        Column -> units shown in the header as ``name [units]``.
+
+    Returns
+    -------
+    str
+        The CSV document.
+    """
+    if not rows:
+        return ''
+    columns = list(rows[0])
+    units = {**POINT_FIELDS, 'fuel_burn_change_percent': '%',
+             **{c: (field_at(c).units or '-') for c in columns if field_at(c) is not None},
+             **(units or {})}
+    buf = io.StringIO()
+    writer = csv.writer(buf, lineterminator='\n')
+    writer.writerow([f'{c} [{units[c]}]' if units.get(c) else c for c in columns])
+    for row in rows:
+        writer.writerow([_cell(row[c]) for c in columns])
+    return buf.getvalue()
+
+
+def _cell(value):
+    if isinstance(value, float):
+        return 'nan' if math.isnan(value) else repr(value)
+    if isinstance(value, (list, tuple)):
+        return ';'.join(str(v) for v in value)
+    return value

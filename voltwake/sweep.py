@@ -1,0 +1,242 @@
+"""
+``voltwake sweep``: run the trade studies of a config's ``study`` section (or of command-line
+flags), write CSV, JSON/YAML summaries, plots and an HTML report under ``--out``.
+"""
+
+import math
+import os
+
+import numpy as np
+
+from .config import field_at, load_config, parse_quantity
+from .errors import ConfigError
+from .studies import design_space_map, monte_carlo, parse_axis, points_csv
+
+_STUDY_KEYS = ('map', 'targets', 'breakeven', 'uncertainty')
+
+
+def _axis_from_spec(path, spec, where_path, need_count=True):
+    where = {'source': 'study', 'path': where_path}
+    field = field_at(path)
+    if field is None or not field.target:
+        raise ConfigError('not a model input; expected a config key path', **where)
+    if 'values' in spec and isinstance(spec['values'], list) and spec['values']:
+        return [parse_quantity(v, field.units, where) if field.units else float(v)
+                for v in spec['values']]
+    keys = {'lower', 'upper', 'count'} if need_count else {'lower', 'upper'}
+    if not isinstance(spec, dict) or set(spec) != keys:
+        raise ConfigError(f'got {spec!r}; expected {{{", ".join(sorted(keys))}}} or '
+                          '{values: [...]}', **where)
+    lo, hi = (parse_quantity(spec[k], field.units, where) if field.units else float(spec[k])
+              for k in ('lower', 'upper'))
+    if not need_count:
+        return lo, hi
+    count = spec['count']
+    if isinstance(count, bool) or not isinstance(count, int) or count < 1:
+        raise ConfigError(f'got count {count!r}; expected a whole number >= 1', **where)
+    return list(np.linspace(lo, hi, count))
+
+
+def study_spec(config, maps=(), targets=(), breakeven=None, samples=None, seed=None):
+    """
+    Build the study specification from command-line flags, or else the config's ``study``.
+
+    Parameters
+    ----------
+    config : Config
+        The configuration.
+    maps, targets : sequence of str
+        ``PATH=LO:HI:N`` axes of a design-space map / target sweep.
+    breakeven : str or None
+        ``PATH=LO:HI`` technology input of a break-even study.
+    samples : int or None
+        Monte Carlo samples (distributions from the config's ``study.uncertainty``).
+    seed : int or None
+        Monte Carlo seed.
+
+    Returns
+    -------
+    dict
+        Keys among ``map``, ``targets`` (path -> values), ``breakeven`` (path, lower, upper)
+        and ``uncertainty`` (distributions, samples, seed).
+    """
+    study = config.values.get('study') or {}
+    unknown = set(study) - set(_STUDY_KEYS)
+    if unknown:
+        raise ConfigError(f"unknown key {sorted(unknown)[0]!r}; expected {', '.join(_STUDY_KEYS)}",
+                          source=config.source, path='study')
+    spec = {}
+    if maps or targets or breakeven or samples:
+        for key, axes in (('map', maps), ('targets', targets)):
+            if axes:
+                spec[key] = {}
+                for text in axes:
+                    path, lo, hi, count = parse_axis(text)
+                    spec[key][path] = list(np.linspace(lo, hi, count))
+        if breakeven:
+            path, lo, hi, _ = parse_axis(breakeven, count_required=False)
+            spec['breakeven'] = (path, lo, hi)
+        if samples:
+            unc = study.get('uncertainty') or {}
+            if not unc.get('distributions'):
+                raise ConfigError('--monte-carlo needs study.uncertainty.distributions in the '
+                                  'config', source=config.source, path='study.uncertainty')
+            spec['uncertainty'] = {'distributions': unc['distributions'], 'samples': samples,
+                                   'seed': seed if seed is not None else unc.get('seed', 1)}
+        return spec
+    for key in ('map', 'targets'):
+        if key in study:
+            if not isinstance(study[key], dict) or not study[key]:
+                raise ConfigError('expected a mapping of config key paths to axes',
+                                  source=config.source, path=f'study.{key}')
+            spec[key] = {path: _axis_from_spec(path, axis, f'study.{key}.{path}')
+                         for path, axis in study[key].items()}
+    if 'breakeven' in study:
+        entry = study['breakeven']
+        if not isinstance(entry, dict) or len(entry) != 1:
+            raise ConfigError('expected one config key path with {lower, upper}',
+                              source=config.source, path='study.breakeven')
+        (path, axis), = entry.items()
+        lo, hi = _axis_from_spec(path, axis, f'study.breakeven.{path}', need_count=False)
+        spec['breakeven'] = (path, lo, hi)
+    if 'uncertainty' in study:
+        unc = study['uncertainty']
+        if not isinstance(unc, dict) or not unc.get('distributions'):
+            raise ConfigError('expected distributions (and optionally samples, seed)',
+                              source=config.source, path='study.uncertainty')
+        spec['uncertainty'] = {'distributions': unc['distributions'],
+                               'samples': int(samples or unc.get('samples', 1000)),
+                               'seed': int(seed if seed is not None else unc.get('seed', 1))}
+    if not spec:
+        raise ConfigError('nothing to sweep: give --map, --targets, --breakeven or '
+                          '--monte-carlo, or a study section in the config',
+                          source=config.source, path='study')
+    return spec
+
+
+def _label(path):
+    field = field_at(path)
+    units = f' [{field.units}]' if field is not None and field.units else ''
+    return f'{path}{units}'
+
+
+def _grid_arrays(axes, rows, key):
+    paths = list(axes)
+    ny, nx = len(axes[paths[0]]), len(axes[paths[1]])
+    z = np.array([r.get(key, math.nan) for r in rows], dtype=float).reshape(ny, nx)
+    closed = np.array([bool(r.get('closed', r.get('success', False))) for r in rows]
+                      ).reshape(ny, nx)
+    return np.asarray(axes[paths[1]]), np.asarray(axes[paths[0]]), z, closed
+
+
+def _plots(kind, result, out_dir):
+    try:
+        from . import plots
+    except ImportError:   # pragma: no cover - the module itself has no hard dependency
+        return []
+    made = []
+    try:
+        axes = result.get('axes') or result.get('target_axes')
+        if kind in ('map', 'targets') and axes and len(axes) == 2:
+            x, y, z, closed = _grid_arrays(axes, result['points'], 'fuel_burn_change_percent')
+            paths = list(axes)
+            made.append(plots.plot_fuel_map(x, y, z, closed, _label(paths[1]), _label(paths[0]),
+                                            os.path.join(out_dir, f'{kind}_fuel_change.png')))
+            _, _, psc, _ = _grid_arrays(axes, result['points'], 'power_saving_coefficient')
+            made.append(plots.plot_psc_map(x, y, psc, closed, _label(paths[1]),
+                                           _label(paths[0]),
+                                           os.path.join(out_dir, f'{kind}_psc.png')))
+        if kind == 'montecarlo':
+            change = [r['fuel_burn_change_percent'] for r in result['points'] if r['closed']]
+            made.append(plots.plot_histogram(change, os.path.join(out_dir, 'montecarlo.png'),
+                                             'block-fuel change versus reference [%]',
+                                             'Monte Carlo over technology inputs'))
+    except ConfigError:
+        return made   # matplotlib missing: the study still has its CSV and summaries
+    return made
+
+
+def run_sweep(config, spec, jobs=None, out_dir=None, progress=None):
+    """
+    Run every study of ``spec`` and write its outputs.
+
+    Parameters
+    ----------
+    config : Config, dict, str or None
+        The configuration.
+    spec : dict
+        From :func:`study_spec`.
+    jobs : int or None
+        Local processes for the optimisations (default: all cores).
+    out_dir : str or None
+        Results directory (already prepared), or None to write nothing.
+    progress : callable or None
+        ``progress(done, failed, total, elapsed)`` for the optimisations.
+
+    Returns
+    -------
+    dict
+        Study kind -> its summary (points left out; they go to CSV).
+    """
+    from .results_io import write_atomic, write_results
+    config = load_config(config)
+    summaries = {}
+    for kind in ('map', 'targets', 'breakeven', 'uncertainty'):
+        if kind not in spec:
+            continue
+        if kind == 'map':
+            result = design_space_map(config, spec['map'])
+            name = 'map'
+        elif kind == 'targets':
+            from .target_sweep import target_sweep
+            result = target_sweep(config, spec['targets'], jobs=jobs, progress=progress)
+            result['kind'] = 'targets'
+            result['target_axes'] = {p: [float(v) for v in vals]
+                                     for p, vals in spec['targets'].items()}
+            name = 'targets'
+        elif kind == 'breakeven':
+            from .breakeven import breakeven, technology_sensitivities
+            path, lo, hi = spec['breakeven']
+            result = breakeven(config, path, lo, hi, jobs=jobs)
+            result['kind'] = 'breakeven'
+            result['sensitivities'] = technology_sensitivities(config)
+            name = 'breakeven'
+        else:
+            unc = spec['uncertainty']
+            result = monte_carlo(config, unc['distributions'], unc['samples'], unc['seed'])
+            name = 'montecarlo'
+        points = result.pop('points', None)
+        summaries[name] = result
+        if out_dir:
+            if points:
+                write_atomic(os.path.join(out_dir, f'{name}_points.csv'), points_csv(points))
+                result['points'] = points
+            plots = _plots(result.get('kind', name), result, out_dir)
+            result.pop('points', None)
+            result['plots'] = [os.path.basename(p) for p in plots]
+            write_results(out_dir, f'{name}_summary', {'status': 'complete', **_clean(result)})
+        elif points is not None:
+            result['points_count'] = len(points)
+            result['closed_count'] = sum(bool(r.get('closed', r.get('success'))) for r in points)
+    if out_dir:
+        from .report import write_report
+        write_report(out_dir)
+    return summaries
+
+
+def _clean(value):
+    """Make a result JSON-ready and deterministic (NaN -> None, numpy -> Python)."""
+    if isinstance(value, dict):
+        return {str(k): _clean(v) for k, v in value.items()}
+    if isinstance(value, (list, tuple)):
+        return [_clean(v) for v in value]
+    if isinstance(value, np.ndarray):
+        return [_clean(v) for v in value.tolist()]
+    if isinstance(value, (np.floating, float)):
+        value = float(value)
+        return None if math.isnan(value) or math.isinf(value) else value
+    if isinstance(value, np.integer):
+        return int(value)
+    if isinstance(value, np.bool_):
+        return bool(value)
+    return value

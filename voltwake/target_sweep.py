@@ -1,0 +1,248 @@
+"""
+Target sweeps: an optimisation at every point of a grid of fixed inputs or output targets.
+
+At each point the swept config inputs are fixed (and taken out of the design variables), the
+swept model outputs become equality constraints, and every other design variable is
+optimised. Each optimum is compared with the optimised conventional reference (the same
+configuration without the aft fan, same objective and constraints). The optimisations are
+independent and run through :func:`voltwake.parallel.map_jobs`.
+"""
+
+import copy
+import itertools
+import math
+
+from .analysis import build_model_problem
+from .config import field_at, load_config
+from .errors import ConfigError
+from .parallel import map_jobs
+
+#: Result fields copied into every row (NaN for a failed point).
+ROW_FIELDS = ('block_fuel_kg', 'total_fuel_kg', 'mtow_kg', 'oew_kg', 'power_saving_coefficient',
+              'electrical_mass_kg', 'aft_fan_mass_kg', 'engines_mass_kg')
+
+
+def is_config_input(path):
+    """
+    Return True when ``path`` is a config key (fixed as an input), False for a model output.
+
+    Parameters
+    ----------
+    path : str
+        Dotted config key path or promoted model output name.
+
+    Returns
+    -------
+    bool
+        True for a config key.
+    """
+    return field_at(path) is not None
+
+
+def in_reference(path, reference):
+    """
+    Return True when the config input ``path`` also acts on the conventional reference.
+
+    Parameters
+    ----------
+    path : str
+        Dotted config key path.
+    reference : Config
+        The conventional reference configuration.
+
+    Returns
+    -------
+    bool
+        False for the aft-fan and electrical sections and for limits only an aft fan has.
+    """
+    if path not in reference.values:
+        return False
+    target = field_at(path).target
+    return not target or target in reference.model_inputs()
+
+
+def fixed_config(config, inputs=None, outputs=None):
+    """
+    Return the configuration with inputs fixed and outputs constrained to given values.
+
+    Each fixed input is set in its section and removed from
+    ``optimization.design_variables``; each output gets the constraint ``{equals: value}``
+    in ``optimization.constraints`` (replacing any constraint on it).
+
+    Parameters
+    ----------
+    config : Config, dict, str or None
+        The configuration (with an ``optimization`` section).
+    inputs : dict or None
+        Dotted config key path -> value (SI number, or a string with units).
+    outputs : dict or None
+        Promoted model output -> required value (in the output's units).
+
+    Returns
+    -------
+    Config
+        The validated configuration.
+    """
+    config = load_config(config)
+    if 'optimization.design_variables' not in config.values:
+        raise ConfigError("no 'optimization' section; expected design_variables, "
+                          'constraints and an objective', source=config.source)
+    data = copy.deepcopy(config.data)
+    opt = data['optimization']
+    dvs = dict(opt.get('design_variables') or {})
+    for path, value in (inputs or {}).items():
+        _set_path(data, path, value, config.source)
+        dvs.pop(path, None)
+    if not dvs:
+        raise ConfigError('every design variable is fixed; nothing is left to optimise',
+                          source=config.source, path='optimization.design_variables')
+    opt['design_variables'] = dvs
+    cons = dict(opt.get('constraints') or {})
+    for name, value in (outputs or {}).items():
+        cons[name] = {'equals': value}
+    opt['constraints'] = cons
+    return load_config(data)
+
+
+def _set_path(data, path, value, source):
+    node = data
+    parts = path.split('.')
+    for i, part in enumerate(parts[:-1]):
+        if not isinstance(node.setdefault(part, {}), dict):
+            raise ConfigError(f"'{part}' is not a section", source=source,
+                              path='.'.join(parts[:i + 1]))
+        node = node[part]
+    node[parts[-1]] = value
+
+
+def _check_outputs(config, names):
+    """Raise ConfigError for target names that are neither config keys nor model outputs."""
+    if not names:
+        return
+    prob = build_model_problem(config)
+    meta = prob.model.get_io_metadata(iotypes='output', get_remote=True)
+    known = {info['prom_name'] for info in meta.values()}
+    for name in names:
+        if name not in known:
+            raise ConfigError('neither a config key nor a model output of this design',
+                              source=config.source, path=name)
+
+
+def optimize_job(job):
+    """
+    Optimise one configuration and return a picklable summary (a map_jobs worker).
+
+    Parameters
+    ----------
+    job : dict
+        ``data``: the configuration mapping.
+
+    Returns
+    -------
+    dict
+        ``success``, ``message``, ``outputs`` (analysis fields), ``design`` (path -> value),
+        ``active`` (active constraint names and ``'bound:<path>'`` for design variables at a
+        bound) and ``evaluations``. A point that raises keeps ``success`` False and the
+        error as its message.
+    """
+    from .optimization import optimize
+    try:
+        result = optimize(load_config(job['data']))
+    except Exception as exc:   # one failed point must not end the sweep; reported per row
+        return {'success': False, 'message': f'{type(exc).__name__}: {exc}', 'outputs': {},
+                'design': {}, 'active': [], 'evaluations': 0}
+    active = [name for name, con in result.constraints.items() if con['active']]
+    active += [f'bound:{path}' for path, dv in result.design.items() if dv['active']]
+    return {'success': result.success, 'message': result.message,
+            'outputs': dict(result.outputs),
+            'design': {path: dv['value'] for path, dv in result.design.items()},
+            'active': active, 'evaluations': result.evaluations}
+
+
+def target_sweep(config, targets, jobs=None, progress=None):
+    """
+    Optimise the design at every point of a full-factorial grid of targets.
+
+    Parameters
+    ----------
+    config : Config, dict, str or None
+        The configuration (with an ``optimization`` section); None for the demo.
+    targets : dict
+        Dotted config key path or model output -> 1-D sequence of values (SI, or the
+        output's units). Full factorial; the first key varies slowest. Config inputs are
+        fixed (and dropped from the design variables); outputs become equality constraints.
+    jobs : int or None
+        Local processes (see :func:`voltwake.parallel.map_jobs`); None for all cores.
+    progress : callable or None
+        ``progress(done, failed, total, elapsed)`` after each optimisation (references
+        included).
+
+    Returns
+    -------
+    dict
+        ``targets``: the swept names in order; ``points``: one row per point with
+        ``'target:<name>'`` values, ``success``, ``message``, :data:`ROW_FIELDS`,
+        ``'dv:<path>'`` optimised design variables, ``active_constraints``, ``evaluations``,
+        ``reference`` (index into ``references``) and ``fuel_burn_change_percent`` (block fuel
+        against the reference, percent); failed points have NaN numbers. ``reference``: the
+        first (usually only) reference, ``references``: all of them, each with ``targets``
+        (the swept conventional inputs it is optimised at), ``success``, ``message``,
+        ``outputs`` and ``design``. A reference is optimised once for every combination of
+        swept inputs that the conventional design also has (once when only aft-fan or
+        electrical inputs and outputs are swept); output targets do not apply to it.
+    """
+    config = load_config(config)
+    names = list(targets)
+    if not names:
+        raise ConfigError('no targets to sweep', source=config.source)
+    grids = []
+    for name in names:
+        values = list(targets[name])
+        if not values:
+            raise ConfigError('no values to sweep', source=config.source, path=name)
+        grids.append(values)
+    _check_outputs(config, [n for n in names if not is_config_input(n)])
+    reference = config.without_aft_fan()
+
+    points, ref_keys = [], {}
+    for combo in itertools.product(*grids):
+        point = dict(zip(names, combo))
+        inputs = {n: v for n, v in point.items() if is_config_input(n)}
+        outputs = {n: v for n, v in point.items() if not is_config_input(n)}
+        ref_inputs = tuple((n, v) for n, v in inputs.items() if in_reference(n, reference))
+        ref_index = ref_keys.setdefault(ref_inputs, len(ref_keys))
+        points.append((point, fixed_config(config, inputs, outputs), ref_index))
+    ref_configs = [fixed_config(reference, dict(key)) if key else reference for key in ref_keys]
+
+    jobs_list = [{'data': cfg.data} for cfg in ref_configs] + \
+                [{'data': cfg.data} for _, cfg, _ in points]
+    results = map_jobs(optimize_job, jobs_list, jobs=jobs, progress=progress)
+    ref_results, point_results = results[:len(ref_configs)], results[len(ref_configs):]
+
+    references = [{'targets': dict(key), 'success': res['success'],
+                   'message': res['message'], 'outputs': res['outputs'],
+                   'design': res['design']}
+                  for key, res in zip(ref_keys, ref_results)]
+    rows = []
+    for (point, cfg, ref_index), res in zip(points, point_results):
+        rows.append(_row(point, cfg, res, references[ref_index], ref_index))
+    return {'targets': names, 'points': rows, 'reference': references[0],
+            'references': references}
+
+
+def _row(point, cfg, res, reference, ref_index):
+    """Return the result row of one point."""
+    ok = res['success']
+    row = {f'target:{name}': value for name, value in point.items()}
+    row.update(success=ok, message=res['message'])
+    for key in ROW_FIELDS:
+        row[key] = res['outputs'].get(key, math.nan) if ok else math.nan
+    for path in cfg.values['optimization.design_variables']:
+        row[f'dv:{path}'] = res['design'].get(path, math.nan) if ok else math.nan
+    row['active_constraints'] = list(res['active']) if ok else []
+    row['evaluations'] = res['evaluations']
+    row['reference'] = ref_index
+    ref_fuel = reference['outputs'].get('block_fuel_kg', math.nan) \
+        if reference['success'] else math.nan
+    row['fuel_burn_change_percent'] = 100.0 * (row['block_fuel_kg'] - ref_fuel) / ref_fuel
+    return row
