@@ -34,6 +34,7 @@ from voltwake.components.thrust_split import ThrustSplitComp
 from voltwake.components.turbofan_core import EngineMassComp, TurbofanCoreComp
 from voltwake.components.weights import AirframeMassComp, MassBuildUpComp
 from voltwake.components.wing import LiftCoefficientComp, WingGeometryComp
+from voltwake.models.solvers import SizingNewtonSolver
 
 #: Electrical devices from the aft-fan shaft back to the turbofan shafts.
 CHAIN = ('motor', 'inverter', 'cable', 'rectifier', 'generator')
@@ -373,8 +374,8 @@ class SizingLoop(om.Group):
              ['cruise_fuel_fraction', 'block_fuel', 'reserve_fuel', 'total_fuel',
               'mid_cruise_mass', 'landing_mass', 'block_energy'])
 
-        newton = self.nonlinear_solver = om.NewtonSolver(solve_subsystems=True,
-                                                         max_sub_solves=2)
+        newton = self.nonlinear_solver = SizingNewtonSolver(solve_subsystems=True,
+                                                            max_sub_solves=2)
         newton.options['maxiter'] = opt['max_iterations']
         newton.options['rtol'] = opt['tolerance']
         newton.options['atol'] = 1e-8

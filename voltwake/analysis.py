@@ -235,7 +235,19 @@ _CHECKS = [
 ]
 
 
-def closure_reasons(prob, aft_fan):
+#: Extra checks of the last finite state of a solve that failed: fans whose specific thrust
+#: is a small fraction of the flight speed need enormous mass flows, and the design runs away.
+_FAILED_CHECKS = [
+    (lambda v, aft: v('turbofan_specific_thrust') > 0.05 * v('true_airspeed'),
+     'the under-wing fan gives almost no thrust per unit mass flow, so the engines grow '
+     'without bound (raise the fan pressure ratio)'),
+    (lambda v, aft: v('aft_specific_thrust') > 0.05 * v('true_airspeed') if aft else True,
+     'the aft fan gives no thrust worth having (jet barely faster than the ingested flow), so '
+     'it grows without bound (raise its pressure ratio)'),
+]
+
+
+def closure_reasons(prob, aft_fan, failed=False):
     """
     Say, point by point, why a design did not close, from the state a solve left behind.
 
@@ -245,6 +257,8 @@ def closure_reasons(prob, aft_fan):
         The problem after a solve (failed or not).
     aft_fan : bool
         Whether the design has an aft fan.
+    failed : bool
+        The solve failed: also apply the diagnostics of a runaway.
 
     Returns
     -------
@@ -256,8 +270,9 @@ def closure_reasons(prob, aft_fan):
 
     size = prob.model.options['vec_size']
     reasons = [None] * size
+    checks = _CHECKS[:2] + (_FAILED_CHECKS if failed else []) + _CHECKS[2:]
     with np.errstate(invalid='ignore'):
-        for test, reason in _CHECKS:
+        for test, reason in checks:
             ok = np.broadcast_to(np.asarray(test(val, aft_fan)), (size,))
             for i in np.flatnonzero(~ok):
                 if reasons[i] is None:
@@ -265,7 +280,7 @@ def closure_reasons(prob, aft_fan):
     return reasons
 
 
-def closure_problem(prob, aft_fan):
+def closure_problem(prob, aft_fan, failed=False):
     """
     Say why a design did not close, from the state the failed solve left behind.
 
@@ -275,13 +290,15 @@ def closure_problem(prob, aft_fan):
         The problem after a failed or suspicious solve.
     aft_fan : bool
         Whether the design has an aft fan.
+    failed : bool
+        The solve failed: also apply the diagnostics of a runaway.
 
     Returns
     -------
     str or None
         A one-line reason (the first failing point's), or None when every point is physical.
     """
-    reasons = [r for r in closure_reasons(prob, aft_fan) if r is not None]
+    reasons = [r for r in closure_reasons(prob, aft_fan, failed) if r is not None]
     if not reasons:
         return None
     if 'MTOW ran away' in reasons[0]:
@@ -311,10 +328,15 @@ def run_sizing(prob, aft_fan):
         with np.errstate(all='ignore'):
             prob.run_model()
     except AnalysisError:
-        reason = closure_problem(prob, aft_fan)
-        raise NotClosedError(reason or (
-            'the sizing loop did not close within '
-            f"{solver.options['maxiter']} Newton iterations")) from None
+        # Diagnose from the last state in which every value was finite.
+        solver.restore_last_finite()
+        reason = closure_problem(prob, aft_fan, failed=True)
+        if reason is None:
+            mtow = np.real(prob.get_val('mtow'))
+            reason = (_CLOSED + 'no convergence within '
+                      f"{solver.options['maxiter']} Newton iterations (MTOW "
+                      f'{np.max(mtow):,.0f} kg at the last finite iterate)')
+        raise NotClosedError(reason) from None
     reason = closure_problem(prob, aft_fan)
     if reason:
         raise NotClosedError(reason)

@@ -13,7 +13,7 @@ import numpy as np
 from openmdao.core.analysis_error import AnalysisError
 
 from .analysis import FIELDS, AFT_FAN_FIELDS, build_model_problem, closure_reasons
-from .config import field_at, load_config
+from .config import _check_field, field_at, load_config
 from .errors import ConfigError
 
 #: Largest relative residual of a point accepted as converged.
@@ -63,6 +63,9 @@ def _targets(config, columns):
                               "such as 'aft_fan.thrust_fraction'", source=config.source,
                               path=path)
         arr = np.asarray(values, dtype=float).ravel()
+        for value in np.unique(arr):
+            _check_field(field, float(value), {'source': config.source, 'line': None,
+                                               'path': path})
         if size is not None and arr.size != size:
             raise ConfigError(f'{arr.size} values where the other inputs have {size}',
                               source=config.source, path=path)
@@ -85,7 +88,7 @@ def _point_residuals(prob):
 
 
 def _solve(prob, aft_fan):
-    """Run the model; return per-point (ok, reason)."""
+    """Run the model; return per-point converged flags, reasons and broken flags."""
     try:
         with np.errstate(all='ignore'):
             prob.run_model()
@@ -93,12 +96,13 @@ def _solve(prob, aft_fan):
         pass
     reasons = closure_reasons(prob, aft_fan)
     residual = _point_residuals(prob)
-    ok = (residual < RESIDUAL_TOLERANCE) & np.array([r is None for r in reasons])
+    broken = ~np.isfinite(residual) | np.array([r is not None for r in reasons])
+    ok = (residual < RESIDUAL_TOLERANCE) & ~broken
     for i in np.flatnonzero(~ok):
         if reasons[i] is None:
             reasons[i] = ('the sizing loop did not close: Newton iterations did not converge '
                           f'(relative residual {residual[i]:.2g})')
-    return ok, reasons
+    return ok, reasons, broken
 
 
 def _set(prob, targets, fraction, base, where):
@@ -108,27 +112,29 @@ def _set(prob, targets, fraction, base, where):
         prob.set_val(target, value, units=units)
 
 
-def _reset_states(prob, bad, good):
-    """Give bad points the converged states of a good point (or leave defaults)."""
-    if good is None:
-        return
+def _reset_states(prob, bad, good, start):
+    """Give bad points the converged states of a good point, or their starting states."""
     size = prob.model.options['vec_size']
-    for _, flat in prob.model.sizing._outputs._abs_item_iter():
+    for name, flat in prob.model.sizing._outputs._abs_item_iter():
         flat = flat.reshape(size)
-        flat[bad] = flat[good]
+        flat[bad] = flat[good] if good is not None else start[name].reshape(size)[bad]
 
 
 def _isolate(prob, aft_fan, targets, fraction, base, active):
     """Solve; points that fail are set back to the base design until the rest converge."""
     size = len(fraction)
+    start = {name: flat.copy() for name, flat in prob.model.sizing._outputs._abs_item_iter()}
     failed = np.zeros(size, dtype=bool)
     reasons = [None] * size
     for _ in range(size + 1):
-        ok, why = _solve(prob, aft_fan)
-        bad = ~ok & active & ~failed
+        ok, why, broken = _solve(prob, aft_fan)
+        # Points that are plainly broken (NaN, no thrust, ...) stop the Newton solve of all:
+        # set them aside first; only then is a point that merely did not converge failed.
+        bad = broken & active & ~failed
         if not bad.any():
-            if np.all(ok | failed | ~active):
-                return failed, reasons
+            bad = ~ok & active & ~failed
+        if not bad.any():
+            return failed, reasons
         for i in np.flatnonzero(bad):
             reasons[i] = why[i]
         failed |= bad
@@ -136,8 +142,8 @@ def _isolate(prob, aft_fan, targets, fraction, base, active):
         frac[failed] = 0.0
         _set(prob, targets, frac, base, failed)
         good = np.flatnonzero(ok & ~failed)
-        _reset_states(prob, failed, good[0] if good.size else None)
-    return failed | ~_solve(prob, aft_fan)[0], reasons
+        _reset_states(prob, failed, good[0] if good.size else None, start)
+    return failed | (~_solve(prob, aft_fan)[0] & active), reasons
 
 
 def analyze_points(config, columns, field_names=None):
@@ -165,19 +171,30 @@ def analyze_points(config, columns, field_names=None):
     base = {t: float(np.asarray(config.model_inputs()[t][0])) for t, _, _ in targets.values()}
     one = np.ones(size)
     _set(prob, targets, one, base, np.ones(size, dtype=bool))
+    prob.final_setup()
     failed, reasons = _isolate(prob, aft, targets, one, base, np.ones(size, dtype=bool))
     recovered = 0
     if failed.any():
         # Continuation: walk the failed points from the base design to their own inputs.
         walking = failed.copy()
         fraction = np.where(walking, 0.0, 1.0)
+        first = np.real(prob.get_val('mtow')).copy()   # failed points sit at the base design
+        last = first.copy()
         for step in CONTINUATION:
             trial = np.where(walking, step, fraction)
             _set(prob, targets, trial, base, walking)
             stuck, why = _isolate(prob, aft, targets, trial, base, walking)
             for i in np.flatnonzero(stuck & walking):
                 reasons[i] = why[i] or reasons[i]
-            fraction = np.where(walking & ~stuck, trial, fraction)
+                if last[i] > first[i] * (1.0 + 1e-6):
+                    reasons[i] = (
+                        'the sizing loop did not close: no solution past '
+                        f'{100 * fraction[i]:.0f}% of the way from the configured design '
+                        f'(MTOW {first[i]:,.0f} kg there, {last[i]:,.0f} kg at '
+                        f'{100 * fraction[i]:.0f}% and rising): weight grows without bound')
+            moved = walking & ~stuck
+            last[moved] = np.real(prob.get_val('mtow'))[moved]
+            fraction = np.where(moved, trial, fraction)
             walking &= ~stuck
             if not walking.any():
                 break

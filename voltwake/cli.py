@@ -203,9 +203,14 @@ def main(argv=None):
     """
     os.environ.setdefault('OPENMDAO_REPORTS', '0')
     args = _parser().parse_args(argv)
-    if not os.environ.get('VOLTWAKE_DEBUG'):
-        # OpenMDAO's advisory warnings (relevance, zero partials) are for developers.
-        warnings.filterwarnings('ignore', module='openmdao')
+    with warnings.catch_warnings():
+        if not os.environ.get('VOLTWAKE_DEBUG'):
+            # OpenMDAO's advisory warnings (relevance, zero partials) are for developers.
+            warnings.filterwarnings('ignore', module='openmdao')
+        return _run(args)
+
+
+def _run(args):
     try:
         return COMMANDS[args.command](args)
     except VoltwakeError as err:

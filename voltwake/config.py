@@ -46,6 +46,10 @@ _CHECKS = {
     'open_fraction': (lambda v: 0 < v < 1, 'a value in (0, 1)'),
     'unit_fraction': (lambda v: 0 <= v < 1, 'a value in [0, 1)'),
     'at_least_one': (lambda v: v >= 1, 'a value >= 1'),
+    'above_one': (lambda v: v > 1, 'a value > 1'),
+    'above_two': (lambda v: v > 2, 'a value > 2'),
+    'isa_altitude': (lambda v: 0 <= v <= 20000, 'a value from 0 to 20 km (the ISA range '
+                                                 'modelled)'),
 }
 
 

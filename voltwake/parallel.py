@@ -66,7 +66,7 @@ def _one_blas_thread():
 
 
 def _call(func, item):
-    """Run one job in a pool process with one BLAS thread."""
+    """Run one job with one BLAS thread."""
     with _one_blas_thread():
         return func(item)
 
@@ -96,8 +96,8 @@ def map_jobs(func, items, jobs=None, progress=None):
     ``jobs=1`` (or a single item) they run in this process. Under MPI with more than one
     rank, ``jobs`` is ignored: rank ``r`` runs items ``r, r + size, ...`` serially, the results
     are gathered on rank 0 and broadcast, so every rank returns the full list and all ranks
-    must call this function together. Each job builds its own OpenMDAO problems, which are
-    kept local to their rank (OpenMDAO's MPI use is switched off while jobs run).
+    must call this function together. The OpenMDAO problems a job builds live on its rank
+    alone (``MPI.COMM_WORLD`` is the rank's ``COMM_SELF`` while the jobs run).
 
     Parameters
     ----------
@@ -162,6 +162,22 @@ class _Counter:
             self.progress(self.done, self.failed, self.total, time.monotonic() - self.start)
 
 
+@contextlib.contextmanager
+def _problems_on_this_rank(mpi):
+    """
+    Keep the OpenMDAO problems that jobs build on this rank alone.
+
+    A problem built without a communicator takes ``MPI.COMM_WORLD``; the ranks run different
+    jobs, so for the duration of the jobs ``COMM_WORLD`` is this rank's ``COMM_SELF``.
+    """
+    world = mpi.COMM_WORLD
+    mpi.COMM_WORLD = mpi.COMM_SELF
+    try:
+        yield
+    finally:
+        mpi.COMM_WORLD = world
+
+
 def _map_mpi(comm, func, items, progress):
     """Run this rank's share of the items, gather on rank 0, broadcast the results."""
     from mpi4py import MPI
@@ -169,13 +185,11 @@ def _map_mpi(comm, func, items, progress):
     rank, size = comm.rank, comm.size
     counter = _Counter(len(items), progress if rank == 0 else None)
     mine, sends = [], []
-    previous = os.environ.get('OPENMDAO_USE_MPI')
-    os.environ['OPENMDAO_USE_MPI'] = '0'   # every problem built by a job stays on this rank
-    try:
+    with _problems_on_this_rank(MPI):
         for index in range(rank, len(items), size):
             try:
                 result, error = _call(func, items[index]), None
-            except Exception as exc:   # re-raised on every rank below, not swallowed
+            except Exception as exc:  # noqa: BLE001 - re-raised on every rank below
                 result, error = None, exc
             mine.append((index, result, error))
             if rank == 0:
@@ -185,11 +199,6 @@ def _map_mpi(comm, func, items, progress):
             else:
                 sends.append(comm.isend(error is not None or _failed(result), dest=0,
                                         tag=_PROGRESS_TAG))
-    finally:
-        if previous is None:
-            os.environ.pop('OPENMDAO_USE_MPI', None)
-        else:
-            os.environ['OPENMDAO_USE_MPI'] = previous
     if rank == 0:
         while counter.done < len(items):
             counter.add(comm.recv(source=MPI.ANY_SOURCE, tag=_PROGRESS_TAG))
@@ -291,7 +300,7 @@ class ProgressBar:
 
 def _clock(seconds):
     """Return ``seconds`` as mm:ss, or h:mm:ss from an hour."""
-    seconds = int(round(seconds))
+    seconds = round(seconds)
     hours, rest = divmod(seconds, 3600)
     minutes, secs = divmod(rest, 60)
     return f'{hours}:{minutes:02d}:{secs:02d}' if hours else f'{minutes:02d}:{secs:02d}'

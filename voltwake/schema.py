@@ -30,7 +30,8 @@ class Field:
         Default value (SI) or REQUIRED.
     check : str or None
         Physical limit: 'positive', 'nonnegative', 'fraction' (0 < x <= 1),
-        'open_fraction' (0 < x < 1), 'unit_fraction' (0 <= x < 1), 'at_least_one'.
+        'open_fraction' (0 < x < 1), 'unit_fraction' (0 <= x < 1), 'at_least_one',
+        'above_one', 'above_two', 'isa_altitude' (0 to 20 km).
     target : str or None
         Promoted model input fed by this value.
     choices : tuple
@@ -81,7 +82,7 @@ SECTIONS = {
         'payload': _q('kg', 'design payload', 'payload'),
         'cruise_mach': _n('cruise Mach number', 'mach', check='open_fraction'),
         'cruise_altitude': _q('m', 'cruise altitude (geopotential, ISA), 0 to 20 km',
-                              'altitude', check='nonnegative'),
+                              'altitude', check='isa_altitude'),
         'takeoff_fraction': _n('mass fraction over engine start, taxi and take-off',
                                'takeoff_fraction', check='fraction'),
         'climb_fraction': _n('mass fraction over the climb', 'climb_fraction', check='fraction'),
@@ -106,7 +107,8 @@ SECTIONS = {
     },
     'fuselage': {
         'diameter': _q('m', 'maximum fuselage diameter', 'fuselage_diameter'),
-        'fineness_ratio': _n('fuselage length / diameter', 'fuselage_fineness_ratio'),
+        'fineness_ratio': _n('fuselage length / diameter (above 2 for the wetted-area formula)',
+                             'fuselage_fineness_ratio', check='above_two'),
         'interference_factor': _n('interference factor of the fuselage drag',
                                   'fuselage_interference_factor', default=1.0),
     },
@@ -123,7 +125,8 @@ SECTIONS = {
     'turbofans': {
         'count': Field('integer', 'number of under-wing turbofans', default=2,
                        check='at_least_one'),
-        'fan_pressure_ratio': _n('fan pressure ratio', 'turbofan_fan_pressure_ratio'),
+        'fan_pressure_ratio': _n('fan pressure ratio', 'turbofan_fan_pressure_ratio',
+                                 check='above_one'),
         'fan_efficiency': _n('fan isentropic efficiency', 'turbofan_fan_efficiency',
                              check='fraction'),
         'fan_face_mach': _n('axial Mach number at the fan face', 'turbofan_fan_face_mach',
@@ -172,7 +175,8 @@ SECTIONS['performance'] = {
 SECTIONS['aft_fan'] = {
     'thrust_fraction': _n('share of the cruise net thrust produced by the aft fan',
                           'aft_thrust_fraction', check='unit_fraction'),
-    'fan_pressure_ratio': _n('aft-fan pressure ratio', 'aft_fan_pressure_ratio'),
+    'fan_pressure_ratio': _n('aft-fan pressure ratio', 'aft_fan_pressure_ratio',
+                             check='above_one'),
     'fan_efficiency': _n('aft-fan isentropic efficiency', 'aft_fan_efficiency',
                          check='fraction'),
     'fan_face_mach': _n('axial Mach number at the aft-fan face', 'aft_fan_face_mach',

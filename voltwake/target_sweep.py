@@ -9,8 +9,10 @@ independent and run through :func:`voltwake.parallel.map_jobs`.
 """
 
 import copy
+import difflib
 import itertools
 import math
+import numbers
 
 from .analysis import build_model_problem
 from .config import field_at, load_config
@@ -124,7 +126,9 @@ def _check_outputs(config, names):
     known = {info['prom_name'] for info in meta.values()}
     for name in names:
         if name not in known:
-            raise ConfigError('neither a config key nor a model output of this design',
+            close = difflib.get_close_matches(name, sorted(known), n=1)
+            hint = f" (did you mean '{close[0]}'?)" if close else ''
+            raise ConfigError(f'neither a config key nor a model output of this design{hint}',
                               source=config.source, path=name)
 
 
@@ -148,7 +152,7 @@ def optimize_job(job):
     from .optimization import optimize
     try:
         result = optimize(load_config(job['data']))
-    except Exception as exc:   # one failed point must not end the sweep; reported per row
+    except Exception as exc:  # noqa: BLE001 - a failed point is reported in its row
         return {'success': False, 'message': f'{type(exc).__name__}: {exc}', 'outputs': {},
                 'design': {}, 'active': [], 'evaluations': 0}
     active = [name for name, con in result.constraints.items() if con['active']]
@@ -197,7 +201,8 @@ def target_sweep(config, targets, jobs=None, progress=None):
         raise ConfigError('no targets to sweep', source=config.source)
     grids = []
     for name in names:
-        values = list(targets[name])
+        values = [float(v) if isinstance(v, numbers.Real) and not isinstance(v, bool) else v
+                  for v in targets[name]]
         if not values:
             raise ConfigError('no values to sweep', source=config.source, path=name)
         grids.append(values)

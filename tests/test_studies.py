@@ -1,0 +1,129 @@
+"""Vectorised design-space maps and Monte Carlo studies, and the sweep command."""
+
+import csv
+import json
+
+import numpy as np
+import pytest
+
+import voltwake
+from voltwake.batch import analyze_points, full_factorial
+from voltwake.cli import main
+from voltwake.config import demo_path, load_config
+from voltwake.studies import design_space_map, monte_carlo, parse_axis, points_csv
+
+TURBO_ELECTRIC = demo_path('turbo_electric')
+
+
+def test_vectorised_map_matches_points_analysed_one_at_a_time():
+    axes = {'aft_fan.fan_pressure_ratio': [1.2, 1.35, 1.5],
+            'aft_fan.thrust_fraction': [0.1, 0.3]}
+    batch = analyze_points(TURBO_ELECTRIC, full_factorial(axes))
+    assert batch.closed.all()
+    for i, (fpr, frac) in enumerate(zip(*full_factorial(axes).values())):
+        single = voltwake.analyze(TURBO_ELECTRIC, {'aft_fan.fan_pressure_ratio': fpr,
+                                                   'aft_fan.thrust_fraction': frac})
+        for key in ('block_fuel_kg', 'mtow_kg', 'power_saving_coefficient'):
+            assert batch.values[key][i] == pytest.approx(single.values[key], rel=1e-8)
+
+
+def test_points_that_do_not_close_are_marked_not_dropped():
+    # At a fan pressure ratio of 1.01 the under-wing fans give almost no thrust: those points
+    # cannot close; the others must still close and match their single analyses.
+    columns = {'turbofans.fan_pressure_ratio': [1.01, 1.45, 1.01, 1.6]}
+    batch = analyze_points(TURBO_ELECTRIC, columns)
+    assert batch.closed.tolist() == [False, True, False, True]
+    assert 'did not close' in batch.reasons[0] and batch.reasons[1] is None
+    assert np.isnan(batch.values['block_fuel_kg'][[0, 2]]).all()
+    single = voltwake.analyze(TURBO_ELECTRIC, {'turbofans.fan_pressure_ratio': 1.6})
+    assert batch.values['block_fuel_kg'][3] == pytest.approx(single.block_fuel_kg, rel=1e-8)
+
+
+def test_far_points_close_and_impossible_ones_are_reported():
+    # 4,500 km with 16 t of payload is far from the configured design but closes (MTOW near
+    # 118 t); 5,500 km with 16 t has no positive MTOW (the single analysis says so too).
+    columns = {'mission.range': [2.0e6, 4.5e6, 5.5e6],
+               'mission.payload': [10000.0, 16000.0, 16000.0]}
+    batch = analyze_points(TURBO_ELECTRIC, columns)
+    assert batch.closed.tolist() == [True, True, False]
+    single = voltwake.analyze(TURBO_ELECTRIC, {'mission.range': 4.5e6,
+                                               'mission.payload': 16000.0})
+    assert batch.values['mtow_kg'][1] == pytest.approx(single.mtow_kg, rel=1e-8)
+    with pytest.raises(voltwake.NotClosedError):
+        voltwake.analyze(TURBO_ELECTRIC, {'mission.range': 5.5e6, 'mission.payload': 16000.0})
+
+
+def test_map_rows_and_csv_units():
+    result = design_space_map(TURBO_ELECTRIC, {'aft_fan.thrust_fraction': [0.1, 0.2]})
+    rows = result['points']
+    ref = result['reference']['block_fuel_kg']
+    for row in rows:
+        assert row['fuel_burn_change_percent'] == pytest.approx(
+            100 * (row['block_fuel_kg'] - ref) / ref, rel=1e-12)
+    text = points_csv(rows)
+    header = next(csv.reader(text.splitlines()))
+    assert 'block_fuel_kg [kg]' in header and 'fuel_burn_change_percent [%]' in header
+    assert 'aft_fan.thrust_fraction [-]' in header
+
+
+def test_monte_carlo_is_reproducible_and_consistent():
+    dists = {'electrical.motor.specific_power': {'uniform': ['5 kW/kg', '20 kW/kg']},
+             'electrical.motor.efficiency': {'triangular': [0.95, 0.96, 0.99]}}
+    one = monte_carlo(TURBO_ELECTRIC, dists, samples=40, seed=7)
+    two = monte_carlo(TURBO_ELECTRIC, dists, samples=40, seed=7)
+    assert one['points'] == two['points']
+    change = np.array([r['fuel_burn_change_percent'] for r in one['points']])
+    assert one['probability_of_win'] == pytest.approx(np.mean(change < 0))
+    assert one['fuel_burn_change_percent']['mean'] == pytest.approx(change.mean())
+    speeds = np.array([r['electrical.motor.specific_power'] for r in one['points']])
+    assert 5e3 <= speeds.min() and speeds.max() <= 20e3
+    # More specific power -> less fuel, sample by sample at equal motor efficiency (trend).
+    order = np.argsort(speeds)
+    assert np.corrcoef(speeds[order], change[order])[0, 1] < 0
+
+
+def test_batch_values_are_checked_like_config_values():
+    with pytest.raises(voltwake.ConfigError, match='expected a value > 1'):
+        analyze_points(TURBO_ELECTRIC, {'turbofans.fan_pressure_ratio': [1.4, 0.9]})
+
+
+def test_axis_parsing():
+    assert parse_axis('electrical.motor.specific_power=5 kW/kg:20 kW/kg:4') == (
+        'electrical.motor.specific_power', 5000.0, 20000.0, 4)
+    with pytest.raises(voltwake.ConfigError, match='expected PATH=LO:HI:N'):
+        parse_axis('aft_fan.thrust_fraction=0.1:0.2')
+    with pytest.raises(voltwake.ConfigError, match='not a model input'):
+        parse_axis('wing.span=1:2:3')
+
+
+def test_sweep_command_writes_csv_plots_and_report(tmp_path, capsys):
+    out = tmp_path / 'study'
+    code = main(['sweep', '--map', 'aft_fan.fan_pressure_ratio=1.2:1.5:4',
+                 '--map', 'aft_fan.thrust_fraction=0.1:0.3:3', '--out', str(out)])
+    assert code == 0
+    assert 'closed' in capsys.readouterr().out
+    rows = list(csv.DictReader((out / 'map_points.csv').read_text().splitlines()))
+    assert len(rows) == 12
+    summary = json.loads((out / 'map_summary.json').read_text())
+    assert summary['status'] == 'complete' and summary['closure_rate'] == 1.0
+    report = (out / 'report.html').read_text()
+    assert 'not for certification' in report
+    for png in summary['plots']:
+        assert (out / png).stat().st_size > 1000
+        assert png.replace('_', ' ').replace('.png', '') in report
+
+
+def test_sweep_without_a_study_is_a_clear_error(capsys):
+    code = main(['sweep', demo_path('conventional')])
+    assert code == 2
+    assert 'nothing to sweep' in capsys.readouterr().err
+
+
+def test_sweep_from_the_config_study_section(tmp_path):
+    data = load_config(TURBO_ELECTRIC).data
+    data['study'] = {'map': {'aft_fan.thrust_fraction': {'lower': 0.1, 'upper': 0.2,
+                                                         'count': 3}}}
+    from voltwake.sweep import run_sweep, study_spec
+    config = load_config(data)
+    result = run_sweep(config, study_spec(config))
+    assert result['map']['closure_rate'] == 1.0 and result['map']['points_count'] == 3

@@ -1,0 +1,210 @@
+"""
+Technology break-even and fuel-burn sensitivities of a turbo-electric design.
+
+:func:`breakeven` finds the value of an aft-fan or electrical input (a motor specific power,
+a converter efficiency...) at which the optimised turbo-electric design burns exactly the
+fuel of the optimised conventional reference, by Brent's root-finding method on the
+optimised fuel-burn difference. :func:`technology_sensitivities` gives the derivative and the
+elasticity of block fuel with respect to the technology inputs of the analysed design, from
+the model's analytic total derivatives.
+"""
+
+import math
+
+import numpy as np
+from openmdao.utils.units import unit_conversion
+from scipy.optimize import brentq
+
+from .analysis import build_model_problem, run_sizing
+from .config import field_at, load_config
+from .errors import ConfigError, OptimizationError
+from .parallel import map_jobs
+from .target_sweep import fixed_config, optimize_job
+
+#: Config sections whose inputs the conventional reference does not have.
+TECHNOLOGY_SECTIONS = ('aft_fan', 'electrical')
+
+#: Default break-even tolerance on the input, as a fraction of the search interval.
+XTOL_FRACTION = 1e-5
+
+
+def _technology_field(config, path):
+    """Return the schema field of a numeric aft-fan or electrical input, or raise."""
+    field = field_at(path)
+    if field is None or path.split('.')[0] not in TECHNOLOGY_SECTIONS or \
+            field.kind not in ('quantity', 'number') or not field.target:
+        raise ConfigError('expected a numeric input of the aft_fan or electrical section '
+                          "(such as 'electrical.motor.specific_power'); the conventional "
+                          'reference must not depend on it', source=config.source, path=path)
+    return field
+
+
+def _turbo_electric(config):
+    config = load_config(config)
+    if not config.has_aft_fan:
+        raise ConfigError('this design has no aft fan; a technology study needs the '
+                          "'aft_fan' and 'electrical' sections", source=config.source)
+    return config
+
+
+def breakeven(config, path, lower, upper, jobs=None, xtol=None):
+    """
+    Find the value of a technology input at which both optimised designs burn the same fuel.
+
+    The difference ``d(x) = 100 (F(x) - F_ref) / F_ref`` (percent) between the optimised block
+    fuel ``F(x)`` of the turbo-electric design with the input fixed at ``x`` and that of the
+    optimised conventional reference ``F_ref`` (same objective and constraints, no aft fan; it
+    does not depend on ``x`` and is optimised once) is solved for ``d(x) = 0`` by Brent's
+    method (``scipy.optimize.brentq``). The reference and both ends are optimised in
+    parallel with :func:`voltwake.parallel.map_jobs`; the inner iterations are sequential.
+
+    Parameters
+    ----------
+    config : Config, dict, str or None
+        The turbo-electric configuration (with an ``optimization`` section).
+    path : str
+        Dotted key path of a numeric ``aft_fan`` or ``electrical`` input, e.g.
+        ``'electrical.motor.specific_power'`` (W/kg) or ``'electrical.motor.efficiency'``.
+        If it is a design variable it is taken out of the design variables.
+    lower, upper : float
+        Search interval, SI.
+    jobs : int or None
+        Local processes for the first three optimisations; None for all cores.
+    xtol : float or None
+        Absolute tolerance on the value (SI); None for ``1e-5 (upper - lower)``.
+
+    Returns
+    -------
+    dict
+        ``found``, ``message``, ``path``, ``units``, ``value`` (NaN when not found),
+        ``difference_at_value`` (percent), ``lower``, ``upper``, ``difference_at_lower``,
+        ``difference_at_upper``, ``reference_block_fuel_kg`` and ``evaluations`` (a list of
+        {value, difference, block_fuel_kg} in the order evaluated). ``found`` is False, with
+        a message, when the difference has the same sign at both ends.
+
+    Raises
+    ------
+    OptimizationError
+        When the reference or the design cannot be optimised at a value it needs.
+    """
+    config = _turbo_electric(config)
+    field = _technology_field(config, path)
+    lower, upper = float(lower), float(upper)
+    if not lower < upper:
+        raise ConfigError(f'lower bound {lower:g} is not below upper bound {upper:g}',
+                          source=config.source, path=path)
+    xtol = XTOL_FRACTION * (upper - lower) if xtol is None else float(xtol)
+
+    reference = config.without_aft_fan()
+    jobs_list = [{'data': reference.data}] + \
+        [{'data': fixed_config(config, {path: x}).data} for x in (lower, upper)]
+    ref, at_lower, at_upper = map_jobs(optimize_job, jobs_list, jobs=jobs)
+    if not ref['success']:
+        raise OptimizationError(f"optimising the conventional reference failed: "
+                                f"{ref['message']}")
+    ref_fuel = ref['outputs']['block_fuel_kg']
+    evaluations, cache = [], {}
+    units = f' {field.units}' if field.units else ''
+
+    def record(x, res):
+        if not res['success']:
+            raise OptimizationError(f"optimising the design with {path} = {x:g}{units} "
+                                    f"failed: {res['message']}")
+        fuel = res['outputs']['block_fuel_kg']
+        diff = 100.0 * (fuel - ref_fuel) / ref_fuel
+        evaluations.append({'value': x, 'difference': diff, 'block_fuel_kg': fuel})
+        cache[x] = diff
+        return diff
+
+    def difference(x):
+        x = float(x)
+        if x not in cache:
+            [res] = map_jobs(optimize_job, [{'data': fixed_config(config, {path: x}).data}],
+                             jobs=1)
+            record(x, res)
+        return cache[x]
+
+    d_lower, d_upper = record(lower, at_lower), record(upper, at_upper)
+    out = {'found': False, 'path': path, 'units': field.units, 'value': math.nan,
+           'difference_at_value': math.nan, 'lower': lower, 'upper': upper,
+           'difference_at_lower': d_lower, 'difference_at_upper': d_upper,
+           'reference_block_fuel_kg': ref_fuel, 'evaluations': evaluations}
+    if d_lower * d_upper > 0.0:
+        side = 'more' if d_lower > 0.0 else 'less'
+        out['message'] = (f'no break-even on [{lower:g}, {upper:g}]{units}: the '
+                          f'turbo-electric design burns {side} fuel than the reference at both '
+                          f'ends ({d_lower:+.4g} % and {d_upper:+.4g} %)')
+        return out
+    value = brentq(difference, lower, upper, xtol=xtol)
+    out.update(found=True, value=value, difference_at_value=difference(value),
+               message=f'break-even at {path} = {value:.6g}{units}')
+    return out
+
+
+def default_technology_paths(config):
+    """
+    Return the technology inputs of a configuration.
+
+    Parameters
+    ----------
+    config : Config
+        A turbo-electric configuration.
+
+    Returns
+    -------
+    list of str
+        Every ``electrical.*.specific_power`` and ``electrical.*.efficiency``,
+        ``electrical.cable.voltage`` and ``aft_fan.fan_efficiency``, in config order.
+    """
+    out = []
+    for path in config.values:
+        parts = path.split('.')
+        section, key = parts[0], parts[-1]
+        if (section == 'electrical' and key in ('specific_power', 'efficiency')) or \
+                path in ('electrical.cable.voltage', 'aft_fan.fan_efficiency'):
+            out.append(path)
+    return out
+
+
+def technology_sensitivities(config, paths=None):
+    """
+    Return d(block fuel)/d(input) and the elasticity of block fuel for technology inputs.
+
+    The derivatives are the analytic total derivatives of the converged sizing model at the
+    configured design (not re-optimised): ``dF/dx`` in kg per SI unit of ``x`` and the
+    elasticity ``(x / F) dF/dx`` (percent block-fuel change per percent input change).
+
+    Parameters
+    ----------
+    config : Config, dict, str or None
+        A turbo-electric configuration.
+    paths : list of str or None
+        Dotted key paths of numeric aft-fan or electrical inputs; None for
+        :func:`default_technology_paths`.
+
+    Returns
+    -------
+    dict
+        Path -> {``value`` (SI), ``units``, ``derivative`` (kg per SI unit),
+        ``elasticity``, ``block_fuel_kg``}.
+    """
+    config = _turbo_electric(config)
+    paths = default_technology_paths(config) if paths is None else list(paths)
+    targets = {}
+    for path in paths:
+        targets[path] = _technology_field(config, path).target
+    prob = build_model_problem(config)
+    run_sizing(prob, True)
+    fuel = float(np.real(prob.get_val('block_fuel', units='kg')[0]))
+    meta = prob.model.get_io_metadata(iotypes='output', metadata_keys=['units'],
+                                      get_remote=True)
+    units = next(info['units'] for info in meta.values() if info['prom_name'] == 'block_fuel')
+    factor = unit_conversion(units, 'kg')[0] if units else 1.0
+    totals = prob.compute_totals(of=['block_fuel'], wrt=list(targets.values()))
+    out = {}
+    for path, target in targets.items():
+        value = config.values[path]
+        deriv = factor * float(np.real(totals['block_fuel', target][0, 0]))
+        out[path] = {'value': value, 'units': field_at(path).units, 'derivative': deriv,
+                     'elasticity': deriv * value / fuel, 'block_fuel_kg': fuel}
+    return out
