@@ -191,3 +191,49 @@ def test_compare_optimized_reference_has_no_aft_fan(demo_optimum):
     expected = 100 * (comp.design.values['block_fuel_kg'] / comp.reference.values[
         'block_fuel_kg'] - 1)
     assert comp.fuel_burn_change_percent == pytest.approx(expected, rel=1e-12)
+
+
+def test_ctrl_c_leaves_partial_results_and_a_readable_case_file(tmp_path):
+    import os
+    import signal
+    import subprocess
+    import sys
+    import time
+
+    import openmdao.api as om
+    out = tmp_path / 'run'
+    env = dict(os.environ, OPENMDAO_REPORTS='0')
+    proc = subprocess.Popen([sys.executable, '-m', 'voltwake.cli', 'optimize', '--out',
+                             str(out)], stdout=subprocess.PIPE, stderr=subprocess.PIPE,
+                            text=True, env=env)
+    seen = 0
+    deadline = time.monotonic() + 120
+    while time.monotonic() < deadline:
+        line = proc.stdout.readline()
+        if line.startswith('eval'):
+            seen += 1
+        if seen >= 5:
+            break
+    proc.send_signal(signal.SIGINT)
+    _, err = proc.communicate(timeout=60)
+    assert proc.returncode == 130, err
+    assert err.strip().splitlines() == ['voltwake: error: optimisation interrupted after '
+                                        + err.split('after ')[1].strip()]
+    data = json.loads((out / 'results.json').read_text())
+    assert data['status'] == 'partial' and 'partial' in data['message']
+    assert len(data['history']) >= 5
+    cases = om.CaseReader(str(out / 'cases.sql')).list_cases('driver', recurse=False,
+                                                             out_stream=None)
+    assert len(cases) >= 1
+
+
+def test_repeated_runs_give_byte_identical_json(capsys):
+    outputs = []
+    for _ in range(2):
+        assert main(['optimize', '--json']) == 0
+        outputs.append(capsys.readouterr().out)
+    assert outputs[0] == outputs[1]
+    for _ in range(2):
+        assert main(['analyze', '--json']) == 0
+        outputs.append(capsys.readouterr().out)
+    assert outputs[2] == outputs[3]

@@ -127,3 +127,24 @@ def test_sweep_from_the_config_study_section(tmp_path):
     config = load_config(data)
     result = run_sweep(config, study_spec(config))
     assert result['map']['closure_rate'] == 1.0 and result['map']['points_count'] == 3
+
+
+def test_ctrl_c_during_a_sweep_exits_130_with_a_partial_summary(tmp_path):
+    import os
+    import signal
+    import subprocess
+    import sys
+    import time
+    out = tmp_path / 'sweep'
+    env = dict(os.environ, OPENMDAO_REPORTS='0')
+    # The packaged demo's study: a 100 x 100 map, then a Monte Carlo study.
+    proc = subprocess.Popen([sys.executable, '-m', 'voltwake.cli', 'sweep', '--out', str(out)],
+                            stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True, env=env)
+    time.sleep(4.0)
+    proc.send_signal(signal.SIGINT)
+    _, err = proc.communicate(timeout=120)
+    assert proc.returncode == 130, err
+    assert len(err.strip().splitlines()) == 1 and 'interrupted' in err
+    summaries = sorted(out.glob('*_summary.json'))
+    partial = [json.loads(p.read_text()) for p in summaries]
+    assert any(s['status'] == 'partial' for s in partial)

@@ -12,7 +12,7 @@ import dataclasses
 import numpy as np
 from openmdao.core.analysis_error import AnalysisError
 
-from .analysis import FIELDS, AFT_FAN_FIELDS, build_model_problem, closure_reasons
+from .analysis import AFT_FAN_FIELDS, FIELDS, build_model_problem, closure_reasons
 from .config import _check_field, field_at, load_config
 from .errors import ConfigError
 
@@ -120,8 +120,9 @@ def _reset_states(prob, bad, good, start):
         flat[bad] = flat[good] if good is not None else start[name].reshape(size)[bad]
 
 
-def _isolate(prob, aft_fan, targets, fraction, base, active):
-    """Solve; points that fail are set back to the base design until the rest converge."""
+def _isolate(prob, aft_fan, targets, fraction, base, active, fallback=None):
+    """Solve; points that fail are set back (to ``fallback``, default the base design) until
+    the rest converge."""
     size = len(fraction)
     start = {name: flat.copy() for name, flat in prob.model.sizing._outputs._abs_item_iter()}
     failed = np.zeros(size, dtype=bool)
@@ -139,11 +140,81 @@ def _isolate(prob, aft_fan, targets, fraction, base, active):
             reasons[i] = why[i]
         failed |= bad
         frac = fraction.copy()
-        frac[failed] = 0.0
+        frac[failed] = 0.0 if fallback is None else fallback[failed]
         _set(prob, targets, frac, base, failed)
         good = np.flatnonzero(ok & ~failed)
         _reset_states(prob, failed, good[0] if good.size else None, start)
     return failed | (~_solve(prob, aft_fan)[0] & active), reasons
+
+
+def _read(prob, names, aft):
+    table = {**FIELDS, **AFT_FAN_FIELDS}
+    size = prob.model.options['vec_size']
+    values = {}
+    for key in names:
+        name, units = table[key]
+        if key in AFT_FAN_FIELDS and not aft:
+            arr = np.zeros(size)
+        else:
+            arr = np.real(np.asarray(prob.get_val(name, units=units), dtype=complex)).copy()
+        values[key] = np.broadcast_to(arr, (size,)).astype(float)
+    return values
+
+
+def _setup(config, targets, size):
+    prob = build_model_problem(config, vec_size=size)
+    base = {t: float(np.asarray(config.model_inputs()[t][0])) for t, _, _ in targets.values()}
+    return prob, base
+
+
+def _continue(config, targets, names):
+    """
+    Walk points that did not close from the base design to their own inputs, in steps that
+    halve where the walk stalls; a point that stalls for good is past a fold of the sizing
+    loop (its MTOW rising along the way says the weight grows without bound).
+    """
+    size = len(next(iter(targets.values()))[2])
+    prob, base = _setup(config, targets, size)
+    aft = config.has_aft_fan
+    every = np.ones(size, dtype=bool)
+    fraction = np.zeros(size)
+    _set(prob, targets, fraction, base, every)
+    prob.final_setup()
+    _solve(prob, aft)                              # every point at the base design
+    first = np.real(prob.get_val('mtow')).copy()
+    last = first.copy()
+    step = np.full(size, CONTINUATION[0])
+    walking = every.copy()
+    reasons = [None] * size
+    smallest = CONTINUATION[0] / 16.0
+    while walking.any():
+        trial = np.where(walking, np.minimum(fraction + step, 1.0), fraction)
+        _set(prob, targets, trial, base, walking)
+        stuck, why = _isolate(prob, aft, targets, trial, base, walking, fallback=fraction)
+        moved = walking & ~stuck
+        fraction[moved] = trial[moved]
+        last[moved] = np.real(prob.get_val('mtow'))[moved]
+        walking &= ~(moved & (fraction >= 1.0))
+        halved = walking & stuck
+        step[halved] /= 2.0
+        for i in np.flatnonzero(halved & (step < smallest)):
+            walking[i] = False
+            reasons[i] = why[i]
+            if last[i] > first[i] * (1.0 + 1e-6):
+                reasons[i] = (
+                    'the sizing loop did not close: no solution past '
+                    f'{100 * fraction[i]:.0f}% of the way from the configured design (MTOW '
+                    f'{first[i]:,.0f} kg there, {last[i]:,.0f} kg at {100 * fraction[i]:.0f}% '
+                    'and rising): weight grows without bound')
+        if halved.any():
+            # Re-converge the stalled points at their last good inputs before the next step.
+            _set(prob, targets, fraction, base, halved)
+            _isolate(prob, aft, targets, fraction, base, halved, fallback=fraction)
+    closed = fraction >= 1.0
+    _set(prob, targets, fraction, base, every)
+    ok = _solve(prob, aft)[0]
+    closed &= ok
+    return closed, reasons, _read(prob, names, aft)
 
 
 def analyze_points(config, columns, field_names=None):
@@ -167,55 +238,29 @@ def analyze_points(config, columns, field_names=None):
     config = load_config(config)
     targets, size = _targets(config, columns)
     aft = config.has_aft_fan
-    prob = build_model_problem(config, vec_size=size)
-    base = {t: float(np.asarray(config.model_inputs()[t][0])) for t, _, _ in targets.values()}
-    one = np.ones(size)
-    _set(prob, targets, one, base, np.ones(size, dtype=bool))
+    names = field_names or list(FIELDS) + list(AFT_FAN_FIELDS)
+    prob, base = _setup(config, targets, size)
+    every = np.ones(size, dtype=bool)
+    _set(prob, targets, np.ones(size), base, every)
     prob.final_setup()
-    failed, reasons = _isolate(prob, aft, targets, one, base, np.ones(size, dtype=bool))
+    failed, reasons = _isolate(prob, aft, targets, np.ones(size), base, every)
+    values = _read(prob, names, aft)
     recovered = 0
     if failed.any():
-        # Continuation: walk the failed points from the base design to their own inputs.
-        walking = failed.copy()
-        fraction = np.where(walking, 0.0, 1.0)
-        first = np.real(prob.get_val('mtow')).copy()   # failed points sit at the base design
-        last = first.copy()
-        for step in CONTINUATION:
-            trial = np.where(walking, step, fraction)
-            _set(prob, targets, trial, base, walking)
-            stuck, why = _isolate(prob, aft, targets, trial, base, walking)
-            for i in np.flatnonzero(stuck & walking):
-                reasons[i] = why[i] or reasons[i]
-                if last[i] > first[i] * (1.0 + 1e-6):
-                    reasons[i] = (
-                        'the sizing loop did not close: no solution past '
-                        f'{100 * fraction[i]:.0f}% of the way from the configured design '
-                        f'(MTOW {first[i]:,.0f} kg there, {last[i]:,.0f} kg at '
-                        f'{100 * fraction[i]:.0f}% and rising): weight grows without bound')
-            moved = walking & ~stuck
-            last[moved] = np.real(prob.get_val('mtow'))[moved]
-            fraction = np.where(moved, trial, fraction)
-            walking &= ~stuck
-            if not walking.any():
-                break
-        recovered = int(np.sum(walking))
-        failed = failed & ~walking
-        for i in np.flatnonzero(~failed):
-            reasons[i] = None
-        _set(prob, targets, np.where(failed, 0.0, 1.0), base, np.ones(size, dtype=bool))
-        _solve(prob, aft)
-    names = field_names or list(FIELDS) + list(AFT_FAN_FIELDS)
-    values = {}
-    table = {**FIELDS, **AFT_FAN_FIELDS}
+        idx = np.flatnonzero(failed)
+        sub = {path: (t, u, arr[idx]) for path, (t, u, arr) in targets.items()}
+        closed, why, sub_values = _continue(config, sub, names)
+        for j, i in enumerate(idx):
+            if closed[j]:
+                failed[i] = False
+                reasons[i] = None
+                recovered += 1
+                for key in names:
+                    values[key][i] = sub_values[key][j]
+            else:
+                reasons[i] = why[j] or reasons[i]
     for key in names:
-        name, units = table[key]
-        if key in AFT_FAN_FIELDS and not aft:
-            arr = np.zeros(size)
-        else:
-            arr = np.real(np.asarray(prob.get_val(name, units=units), dtype=complex)).copy()
-        arr = np.broadcast_to(arr, (size,)).astype(float)
-        arr[failed] = np.nan
-        values[key] = arr
+        values[key][failed] = np.nan
     inputs = {path: arr for path, (_, _, arr) in targets.items()}
     return BatchResult(inputs, values, ~failed, reasons, recovered)
 

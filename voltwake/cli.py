@@ -139,8 +139,13 @@ def _cmd_optimize(args):
             print(f"eval {entry['evaluation']:4d}  objective {entry['objective']:14.6g}  "
                   f"worst violation {entry['max_violation']:.3e}{flag}", flush=True)
 
-    result = optimize(args.config, args.overrides, recorder_path=recorder,
-                      on_evaluation=progress)
+    try:
+        result = optimize(args.config, args.overrides, recorder_path=recorder,
+                          on_evaluation=progress)
+    except errors.InterruptedRun as stop:
+        if out_dir and stop.partial is not None:
+            write_results(out_dir, 'results', stop.partial)
+        raise
     data = result.to_dict()
     if out_dir:
         write_results(out_dir, 'results', {'status': 'complete', **data})

@@ -78,3 +78,22 @@ class OptimizationError(VoltwakeError):
     """
 
     exit_code = EXIT_OPTIMIZER_FAILED
+
+
+class InterruptedRun(VoltwakeError):
+    """
+    A run stopped by the user (Ctrl-C); carries what was done so far.
+
+    Parameters
+    ----------
+    message : str
+        What was interrupted.
+    partial : dict or None
+        JSON-ready results of the part that was done.
+    """
+
+    exit_code = EXIT_INTERRUPTED
+
+    def __init__(self, message, partial=None):
+        super().__init__(message)
+        self.partial = partial

@@ -20,7 +20,7 @@ from voltwake.models.aircraft import AircraftModel
 from .analysis import (build_model_problem, closure_problem, read_fields, run_sizing,
                        set_model_inputs)
 from .config import field_at, load_config, parse_quantity
-from .errors import ConfigError
+from .errors import ConfigError, InterruptedRun, NotClosedError
 
 #: Objective shortcuts -> promoted model output.
 OBJECTIVES = {'block_fuel': 'block_fuel', 'mtow': 'mtow', 'block_energy': 'block_energy',
@@ -226,6 +226,7 @@ class SizingOptimizeDriver(om.ScipyOptimizeDriver):
         self._last_good = None
         self.spec_constraints = []
         self.design_variables = []
+        self.start_note = ''
 
     def _run_solve_nonlinear(self):
         model = self._problem().model
@@ -298,7 +299,7 @@ def build_problem(config, overrides=None, recorder_path=None):
         hint = f" (did you mean '{close[0]}'?)" if close else ''
         raise ConfigError(f'not a model output{hint}',
                           **_where(config, 'optimization.objective'))
-    run_sizing(probe, config.has_aft_fan)
+    probe, config, note = _closing_start(probe, config, dvs)
     start = abs(float(np.real(probe.get_val(target)[0])))
 
     driver = SizingOptimizeDriver(optimizer=config.values['optimization.optimizer.method'],
@@ -306,6 +307,7 @@ def build_problem(config, overrides=None, recorder_path=None):
                                   maxiter=config.values['optimization.optimizer.max_iterations'],
                                   disp=False)
     driver.design_variables, driver.spec_constraints, driver.config = dvs, cons, config
+    driver.start_note = note
     prob = om.Problem(AircraftModel(vec_size=1, **config.model_options()), reports=False)
     prob.driver = driver
     for dv in dvs:
@@ -325,6 +327,34 @@ def build_problem(config, overrides=None, recorder_path=None):
             driver.recording_options[key] = True
     set_model_inputs(prob, config, setup=True)
     return prob
+
+
+def _closing_start(probe, config, dvs):
+    """
+    Return a converged problem at the start, moving the start if it does not close.
+
+    A start that does not close is walked toward the centre of the design-variable bounds
+    (25, 50, 75 and 100 % of the way) until the sizing loop closes.
+    """
+    try:
+        run_sizing(probe, config.has_aft_fan)
+        return probe, config, ''
+    except NotClosedError as err:
+        first = err.message
+    values = {dv.path: float(config.values[dv.path]) for dv in dvs}
+    for step in (0.25, 0.5, 0.75, 1.0):
+        moved = {dv.path: values[dv.path] + step * (0.5 * (dv.lower + dv.upper)
+                                                     - values[dv.path]) for dv in dvs}
+        trial = config.with_overrides(moved)
+        probe = build_model_problem(trial)
+        try:
+            run_sizing(probe, trial.has_aft_fan)
+        except NotClosedError:
+            continue
+        return probe, trial, (f'the configured start does not close ({first}); started '
+                              f'{100 * step:.0f}% of the way to the centre of the bounds')
+    raise NotClosedError(f'the starting design does not close ({first}), nor does any point '
+                         'between it and the centre of the design-variable bounds')
 
 
 def _outputs(prob):
@@ -436,8 +466,22 @@ def optimize(config=None, overrides=None, recorder_path=None, on_evaluation=None
         driver.on_evaluation = report
     prob.run_model()
     start = read_fields(prob, config.has_aft_fan)
-    with np.errstate(all='ignore'), contextlib.redirect_stdout(io.StringIO()):
-        prob.run_driver()
+    try:
+        with np.errstate(all='ignore'), contextlib.redirect_stdout(io.StringIO()):
+            prob.run_driver()
+    except KeyboardInterrupt:
+        prob.cleanup()   # flush and close the case recorder
+        history = list(driver.history)
+        feasible = [e for e in history
+                    if e['closed'] and e['max_violation'] <= FEASIBILITY_TOLERANCE]
+        raise InterruptedRun(
+            f'optimisation interrupted after {driver.evaluations} model evaluations',
+            {'status': 'partial', 'success': False,
+             'message': 'interrupted by the user; these results are partial',
+             'history': history, 'evaluations': driver.evaluations,
+             'failed_points': driver.failed_points, 'start': start,
+             'best_feasible': min(feasible, key=lambda e: e['objective']) if feasible
+             else None, 'inputs': config.data}) from None
     # Final evaluation at the optimiser's last design, from the last converged state.
     driver._run_solve_nonlinear()
     reason = closure_problem(prob, config.has_aft_fan)
@@ -457,6 +501,8 @@ def optimize(config=None, overrides=None, recorder_path=None, on_evaluation=None
                           'active': con.equals is not None
                           or _active(value, con.lower, con.upper)}
     message = str(result.message) if result is not None else 'no optimiser result'
+    if driver.start_note:
+        message += f'; {driver.start_note}'
     success = bool(result is not None and result.success) and reason is None \
         and worst <= FEASIBILITY_TOLERANCE
     if reason is not None:

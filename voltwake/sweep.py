@@ -178,33 +178,25 @@ def run_sweep(config, spec, jobs=None, out_dir=None, progress=None):
     dict
         Study kind -> its summary (points left out; they go to CSV).
     """
+    from .errors import InterruptedRun
     from .results_io import write_atomic, write_results
     config = load_config(config)
     summaries = {}
     for kind in ('map', 'targets', 'breakeven', 'uncertainty'):
         if kind not in spec:
             continue
-        if kind == 'map':
-            result = design_space_map(config, spec['map'])
-            name = 'map'
-        elif kind == 'targets':
-            from .target_sweep import target_sweep
-            result = target_sweep(config, spec['targets'], jobs=jobs, progress=progress)
-            result['kind'] = 'targets'
-            result['target_axes'] = {p: [float(v) for v in vals]
-                                     for p, vals in spec['targets'].items()}
-            name = 'targets'
-        elif kind == 'breakeven':
-            from .breakeven import breakeven, technology_sensitivities
-            path, lo, hi = spec['breakeven']
-            result = breakeven(config, path, lo, hi, jobs=jobs)
-            result['kind'] = 'breakeven'
-            result['sensitivities'] = technology_sensitivities(config)
-            name = 'breakeven'
-        else:
-            unc = spec['uncertainty']
-            result = monte_carlo(config, unc['distributions'], unc['samples'], unc['seed'])
-            name = 'montecarlo'
+        name = {'uncertainty': 'montecarlo'}.get(kind, kind)
+        try:
+            result = _run_study(kind, config, spec, jobs, progress)
+        except KeyboardInterrupt:
+            if out_dir:
+                write_results(out_dir, f'{name}_summary', {
+                    'status': 'partial', 'kind': kind,
+                    'message': f'interrupted by the user during the {kind} study; the '
+                               'studies before it are complete, this one has no results',
+                    'completed_studies': list(summaries)})
+            raise InterruptedRun(f'sweep interrupted during the {kind} study',
+                                 {'completed_studies': list(summaries)}) from None
         points = result.pop('points', None)
         summaries[name] = result
         if out_dir:
@@ -222,6 +214,28 @@ def run_sweep(config, spec, jobs=None, out_dir=None, progress=None):
         from .report import write_report
         write_report(out_dir)
     return summaries
+
+
+def _run_study(kind, config, spec, jobs, progress):
+    """Run one study and return its result (with its ``points``)."""
+    if kind == 'map':
+        return design_space_map(config, spec['map'])
+    if kind == 'targets':
+        from .target_sweep import target_sweep
+        result = target_sweep(config, spec['targets'], jobs=jobs, progress=progress)
+        result['kind'] = 'targets'
+        result['target_axes'] = {p: [float(v) for v in vals]
+                                 for p, vals in spec['targets'].items()}
+        return result
+    if kind == 'breakeven':
+        from .breakeven import breakeven, technology_sensitivities
+        path, lo, hi = spec['breakeven']
+        result = breakeven(config, path, lo, hi, jobs=jobs)
+        result['kind'] = 'breakeven'
+        result['sensitivities'] = technology_sensitivities(config)
+        return result
+    unc = spec['uncertainty']
+    return monte_carlo(config, unc['distributions'], unc['samples'], unc['seed'])
 
 
 def _clean(value):
