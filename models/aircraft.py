@@ -34,7 +34,7 @@ from voltwake.components.thrust_split import ThrustSplitComp
 from voltwake.components.turbofan_core import EngineMassComp, TurbofanCoreComp
 from voltwake.components.weights import AirframeMassComp, MassBuildUpComp
 from voltwake.components.wing import LiftCoefficientComp, WingGeometryComp
-from voltwake.models.solvers import SizingNewtonSolver
+from voltwake.models.solvers import PointwiseDirectSolver, SizingNewtonSolver
 
 #: Electrical devices from the aft-fan shaft back to the turbofan shafts.
 CHAIN = ('motor', 'inverter', 'cable', 'rectifier', 'generator')
@@ -385,7 +385,7 @@ class SizingLoop(om.Group):
         # capture-height fluxes are continued oddly below the wall), and a line search would
         # cost one more residual evaluation per iteration.
         newton.linesearch = None
-        self.linear_solver = om.DirectSolver(assemble_jac=True)
+        self.linear_solver = PointwiseDirectSolver(assemble_jac=True)
 
     def guess_nonlinear(self, inputs, outputs, residuals):
         """

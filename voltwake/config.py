@@ -23,7 +23,7 @@ from openmdao.utils.units import convert_units, is_compatible, valid_units
 
 from .errors import ConfigError
 from .schema import CONDUCTORS, DEFAULTED_SECTIONS, OPTIONAL_SECTIONS, REQUIRED, SECTIONS, Field
-from .yamlio import parse_value, parse_yaml, read_yaml_file
+from .yamlio import key_path, parse_value, parse_yaml, read_yaml_file
 
 #: Source name of values given as overrides.
 OVERRIDE_SOURCE = '--set'
@@ -35,6 +35,8 @@ _UNIT_TERM = (rf'(?:1\s*/\s*)?{_UNIT_NAME}{_UNIT_POWER}'
 _UNIT_GROUP = re.compile(rf'\(\s*{_UNIT_TERM}\s*\){_UNIT_POWER}')
 _UNIT_EXPR = re.compile(_UNIT_TERM)
 _MAX_UNIT_CHARS = 64
+#: Largest whole number accepted (the largest 32-bit signed integer).
+_MAX_INTEGER = 2**31 - 1
 
 #: Keys outside the aft-fan sections that only a turbo-electric model has inputs for.
 _AFT_ONLY = ('performance.aft_fan_max_diameter_ratio', 'performance.motor_power_limit')
@@ -233,8 +235,21 @@ def field_at(path):
 
 def _show(value):
     """Return ``repr(value)`` cut to a length that fits an error line."""
-    text = repr(value)
+    try:
+        text = repr(value)
+    except ValueError:
+        # Python refuses to write integers of more than a few thousand digits.
+        return 'a number with too many digits'
     return text if len(text) <= 60 else text[:57] + '...'
+
+
+def _expectation(field):
+    """Return what a field expects, for the message of a missing key."""
+    if field.kind == 'quantity':
+        return f"a number in {field.units} or a string with units such as '12 {field.units}'"
+    kinds = {'number': 'a number', 'integer': 'a whole number', 'text': 'text',
+             'mapping': 'a mapping', 'choice': f"one of {', '.join(field.choices)}"}
+    return kinds[field.kind]
 
 
 def _plain_unit(unit):
@@ -327,6 +342,10 @@ def _check_field(field, value, where):
             raise ConfigError(f'got {_show(value)}; expected a whole number ({field.doc})',
                               **where)
         value = int(value)
+        if abs(value) > _MAX_INTEGER:
+            # The model takes counts and limits as floats or C integers.
+            raise ConfigError(f'got {_show(value)}; expected a whole number of at most '
+                              f'{_MAX_INTEGER} ({field.doc})', **where)
     elif field.kind == 'choice':
         if not isinstance(value, str) or value not in field.choices:
             hint = _suggest(str(value), field.choices)
@@ -334,7 +353,7 @@ def _check_field(field, value, where):
                               f"{', '.join(field.choices)}{hint}", **where)
     elif field.kind == 'mapping':
         if not isinstance(value, dict) or not value:
-            raise ConfigError(f'got {value!r}; expected a mapping ({field.doc})', **where)
+            raise ConfigError(f'got {_show(value)}; expected a mapping ({field.doc})', **where)
     elif field.kind == 'text' and not isinstance(value, str):
         raise ConfigError(f'got {_show(value)}; expected text', **where)
     if field.check:
@@ -351,7 +370,7 @@ def _check_field(field, value, where):
 
 def _where(sub, lines, source, overridden):
     """Return the :class:`ConfigError` keywords for the entry at tuple path ``sub``."""
-    dotted = '.'.join(sub)
+    dotted = key_path(sub)
     if any(sub[:i] in overridden for i in range(1, len(sub) + 1)):
         return {'source': OVERRIDE_SOURCE, 'line': None, 'path': dotted}
     return {'source': source, 'line': lines.get(sub, lines.get(sub[:-1])), 'path': dotted}
@@ -369,8 +388,8 @@ def _walk(schema, data, path, lines, source, values, origins, overridden):
             sub = path + (str(key),)
             where = _where(sub, lines, source, overridden)
             where['line'] = None if where['line'] is None else lines.get(sub)
-            raise ConfigError(f'unknown key{_suggest(str(key), known)}; known keys here: '
-                              f"{', '.join(known)}", **where)
+            raise ConfigError(f'unknown key{_suggest(str(key), known)}; expected one of the '
+                              f"known keys here: {', '.join(known)}", **where)
     for key, field in schema.items():
         sub = path + (key,)
         dotted = '.'.join(sub)
@@ -392,7 +411,8 @@ def _walk(schema, data, path, lines, source, values, origins, overridden):
             values[dotted] = _check_field(field, data[key], where)
             origins[dotted] = (where['source'], where['line'])
         elif field.default is REQUIRED:
-            raise ConfigError(f'missing required key ({field.doc})', **where)
+            raise ConfigError(f'missing required key ({field.doc}); expected '
+                              f'{_expectation(field)}', **where)
         else:
             values[dotted] = field.default
             origins[dotted] = ('default', None)
@@ -431,7 +451,7 @@ def _apply_overrides(data, overrides, overridden):
             if not isinstance(node.get(part), dict):
                 if part in node:
                     raise ConfigError(f"'{part}' is not a section", source=OVERRIDE_SOURCE,
-                                      path='.'.join(parts[:i + 1]))
+                                      path=key_path(parts[:i + 1]))
                 node[part] = {}
                 overridden.add(parts[:i + 1])
             node = node[part]
@@ -452,9 +472,9 @@ def _validate(data, source, lines, overrides, overridden=()):
         present, missing = ('aft_fan', 'electrical') if 'aft_fan' in data else ('electrical',
                                                                                'aft_fan')
         where = _where((present,), lines, source, overridden)
-        raise ConfigError(f"missing section '{missing}'; a design with an aft fan needs both "
-                          f"'aft_fan' and 'electrical' sections (only '{present}' is given)",
-                          **where)
+        raise ConfigError(f"missing section '{missing}'; expected both 'aft_fan' and "
+                          f"'electrical' sections for a design with an aft fan (only "
+                          f"'{present}' is given)", **where)
     return Config(data, values, origins, source)
 
 

@@ -185,8 +185,9 @@ SECTIONS['aft_fan'] = {
                            check='unit_fraction'),
     'station_diameter_ratio': _n('fuselage diameter at the fan station / maximum diameter',
                                  'station_diameter_ratio', check='fraction'),
-    'profile_exponent': Field('number', 'n of the power-law boundary-layer profile',
-                              default=7.0, check='positive'),
+    'profile_exponent': Field('number', 'n of the power-law boundary-layer profile (1 or '
+                              'more; 1 is the linear profile)', default=7.0,
+                              check='at_least_one'),
     'fan_areal_mass': _q('kg/m**2', 'fan, casing and shaft mass per fan face area',
                          'aft_fan_areal_mass'),
     'nacelle_areal_mass': _q('kg/m**2', 'aft nacelle mass per wetted area',

@@ -78,6 +78,57 @@ _LineLoader.add_implicit_resolver(
     list('-+0123456789.'))
 
 
+#: What PyYAML's safe constructors raise for a scalar that does not fit its type (e.g.
+#: ``!!bool maybe`` -> KeyError, ``!!timestamp xyz`` -> AttributeError, ``!!int ""`` ->
+#: IndexError, ``2020-02-30`` -> ValueError).
+_CONSTRUCT_ERRORS = (ArithmeticError, AttributeError, LookupError, TypeError, ValueError)
+
+
+def _show_text(text):
+    """Return ``repr(text)`` cut to a length that fits an error line."""
+    shown = repr(text)
+    return shown if len(shown) <= 60 else shown[:57] + '...'
+
+
+def key_path(parts):
+    """
+    Return the dotted key path of ``parts`` as shown in error messages, or None when empty.
+
+    A key that is empty, has spaces at either end or holds characters that are not printable
+    (line breaks, control characters) is shown as its Python repr, so that the message stays
+    on one line and the key can be told apart.
+
+    Parameters
+    ----------
+    parts : tuple of str
+        The keys from the top of the document.
+
+    Returns
+    -------
+    str or None
+        E.g. ``'wing.area'`` or ``"wing.'area\\n'"``.
+    """
+    shown = [part if part and part.isprintable() and part.strip() == part else repr(part)
+             for part in map(str, parts)]
+    return '.'.join(shown) or None
+
+
+def _yaml_problem(err, text):
+    """Return (one-line problem, 1-based line or None) of a PyYAML error."""
+    mark = getattr(err, 'problem_mark', None)
+    if mark is not None:
+        line = mark.line + 1
+    elif isinstance(getattr(err, 'position', None), int) and isinstance(text, str):
+        # A ReaderError (a character YAML does not allow) gives an index into the text.
+        line = text.count('\n', 0, err.position) + 1
+    else:
+        line = None
+    problem = getattr(err, 'problem', None) or str(err).splitlines()[0]
+    context = getattr(err, 'context', None)
+    problem = f'{context}; {problem}' if context else problem
+    return ' '.join(problem.split()), line
+
+
 def _build(node, loader, path, lines, budget, source, active=None):
     budget[0] -= 1
     if budget[0] < 0:
@@ -87,12 +138,13 @@ def _build(node, loader, path, lines, budget, source, active=None):
         if node.tag not in _PLAIN_COLLECTIONS:
             raise ConfigError(f'unsupported tag {node.tag!r}; expected a plain mapping or list',
                               source=source, line=node.start_mark.line + 1,
-                              path='.'.join(path) or None)
+                              path=key_path(path))
         active = set() if active is None else active
         if id(node) in active:
-            raise ConfigError('recursive alias (a mapping or list contains itself)',
+            raise ConfigError('recursive alias (a mapping or list contains itself); expected '
+                              'a tree of mappings and lists',
                               source=source, line=node.start_mark.line + 1,
-                              path='.'.join(path) or None)
+                              path=key_path(path))
         active.add(id(node))
         try:
             return _build_collection(node, loader, path, lines, budget, source, active)
@@ -100,10 +152,20 @@ def _build(node, loader, path, lines, budget, source, active=None):
             active.discard(id(node))
     try:
         return loader.construct_object(node)
-    except ValueError:
-        # Python refuses to read integers of more than a few thousand digits.
-        raise ConfigError('a number with too many digits', source=source,
-                          line=node.start_mark.line + 1, path='.'.join(path) or None) from None
+    except yaml.YAMLError:
+        raise
+    except _CONSTRUCT_ERRORS as err:
+        # Python refuses to read integers of more than a few thousand digits; explicit tags
+        # (!!float, !!int, !!bool, !!timestamp) on text that is not of that type fail too.
+        if 'digits' in str(err):
+            problem = ('a number with too many digits; expected a number of ordinary size '
+                       '(a float reaches about 1.8e308)')
+        else:
+            kind = node.tag.rpartition(':')[2] or node.tag
+            problem = (f'got {_show_text(node.value)}, which is not a valid {kind}; '
+                       f'expected a {kind} (quote the value to keep it as text)')
+        raise ConfigError(problem, source=source, line=node.start_mark.line + 1,
+                          path=key_path(path)) from None
 
 
 def _build_collection(node, loader, path, lines, budget, source, active):
@@ -111,17 +173,25 @@ def _build_collection(node, loader, path, lines, budget, source, active):
         out = {}
         for key_node, value_node in node.value:
             if not isinstance(key_node, yaml.ScalarNode):
-                raise ConfigError('mapping keys must be plain words', source=source,
-                                  line=key_node.start_mark.line + 1, path='.'.join(path) or None)
+                raise ConfigError('mapping keys must be plain words; expected a word, not a '
+                                  'list or mapping', source=source,
+                                  line=key_node.start_mark.line + 1, path=key_path(path))
             if key_node.tag == 'tag:yaml.org,2002:merge':
-                raise ConfigError('merge keys (<<) are not supported', source=source,
-                                  line=key_node.start_mark.line + 1, path='.'.join(path) or None)
-            key = str(_build(key_node, loader, path, lines, budget, source, active))
+                raise ConfigError('merge keys (<<) are not supported; expected plain keys',
+                                  source=source,
+                                  line=key_node.start_mark.line + 1, path=key_path(path))
+            key = _build(key_node, loader, path, lines, budget, source, active)
+            try:
+                key = str(key)
+            except ValueError:       # an integer key of more than a few thousand digits
+                raise ConfigError('a key with too many digits; expected a plain word',
+                                  source=source, line=key_node.start_mark.line + 1,
+                                  path=key_path(path)) from None
             sub = path + (key,)
             if key in out:
                 raise ConfigError(f'duplicate key (first given on line {lines[sub]})',
                                   source=source, line=key_node.start_mark.line + 1,
-                                  path='.'.join(sub))
+                                  path=key_path(sub))
             lines[sub] = key_node.start_mark.line + 1
             out[key] = _build(value_node, loader, sub, lines, budget, source, active)
         return out
@@ -151,18 +221,17 @@ def parse_yaml(text, source='<string>'):
     lines : dict
         Tuple key path -> 1-based line number.
     """
-    loader = _LineLoader(text, source)
+    loader = None
     try:
+        # The reader checks every character when the loader is made: keep that inside.
+        loader = _LineLoader(text, source)
         node = loader.get_single_node()
     except yaml.YAMLError as err:
-        mark = getattr(err, 'problem_mark', None)
-        line = mark.line + 1 if mark is not None else None
-        problem = getattr(err, 'problem', None) or str(err).splitlines()[0]
-        context = getattr(err, 'context', None)
-        problem = f'{context}; {problem}' if context else problem
+        problem, line = _yaml_problem(err, text)
         raise ConfigError(f'not valid YAML: {problem}', source=source, line=line) from None
     finally:
-        loader.dispose()
+        if loader is not None:
+            loader.dispose()
     if node is None or (isinstance(node, yaml.ScalarNode) and node.value == ''
                         and node.tag == 'tag:yaml.org,2002:null'):
         # No document at all, or a document marker with nothing under it ('---').
@@ -171,10 +240,8 @@ def parse_yaml(text, source='<string>'):
     try:
         data = _build(node, loader, (), lines, [MAX_NODES], source)
     except yaml.YAMLError as err:
-        mark = getattr(err, 'problem_mark', None)
-        line = mark.line + 1 if mark is not None else None
-        raise ConfigError(f'not valid YAML: {getattr(err, "problem", None) or str(err)}',
-                          source=source, line=line) from None
+        problem, line = _yaml_problem(err, text)
+        raise ConfigError(f'not valid YAML: {problem}', source=source, line=line) from None
     return data, lines
 
 
@@ -196,13 +263,15 @@ def parse_value(text, source='--set'):
     object
         The value (number, string, bool, None, list or mapping).
     """
-    loader = _LineLoader(text, source)
+    loader = None
     try:
+        loader = _LineLoader(text, source)
         node = loader.get_single_node()
     except yaml.YAMLError:
         return text
     finally:
-        loader.dispose()
+        if loader is not None:
+            loader.dispose()
     if node is None:
         return text
     try:
