@@ -166,8 +166,9 @@ def sweep_text(summaries, out_dir=None):
                          f"{100 * res['closure_rate']:.2f}% of the points closed "
                          f"({res.get('recovered', 0)} by continuation)")
         elif name == 'targets':
-            ref = res.get('reference', {})
-            lines.append(f"target sweep: {res.get('points_count', '')} points; optimised "
+            ref = (res.get('reference') or {}).get('outputs') or {}
+            lines.append(f"target sweep: {res.get('closed_count', 0)} of "
+                         f"{res.get('points_count', 0)} optimisations succeeded; optimised "
                          f"reference block fuel {ref.get('block_fuel_kg', float('nan')):,.1f} kg")
         elif name == 'breakeven':
             if res.get('found'):

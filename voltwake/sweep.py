@@ -146,6 +146,20 @@ def _plots(kind, result, out_dir):
             made.append(plots.plot_psc_map(x, y, psc, closed, _label(paths[1]),
                                            _label(paths[0]),
                                            os.path.join(out_dir, f'{kind}_psc.png')))
+        if kind == 'targets' and axes and len(axes) == 1:
+            (path, values), = axes.items()
+            change = [r.get('fuel_burn_change_percent', math.nan) for r in result['points']]
+            made.append(plots.plot_line(values, {'optimised design vs optimised reference':
+                                                 change}, _label(path),
+                                        'block-fuel change [%]',
+                                        os.path.join(out_dir, 'targets_fuel_change.png')))
+        if kind == 'targets':
+            best = _best_row(result['points'])
+            ref = (result.get('reference') or {}).get('outputs')
+            if best is not None and ref:
+                made.append(plots.plot_mass_breakdown(
+                    _row_masses(best), ref, os.path.join(out_dir, 'targets_mass_breakdown.png'),
+                    design_label='best target point', reference_label='reference'))
         if kind == 'montecarlo':
             change = [r['fuel_burn_change_percent'] for r in result['points'] if r['closed']]
             made.append(plots.plot_histogram(change, os.path.join(out_dir, 'montecarlo.png'),
@@ -154,6 +168,21 @@ def _plots(kind, result, out_dir):
     except ConfigError:
         return made   # matplotlib missing: the study still has its CSV and summaries
     return made
+
+
+def _best_row(rows):
+    done = [r for r in rows if r.get('success') and math.isfinite(r.get('block_fuel_kg', math.nan))]
+    return min(done, key=lambda r: r['block_fuel_kg']) if done else None
+
+
+def _row_masses(row):
+    """Mass breakdown of a target-sweep row (airframe and payload from the balances)."""
+    parts = {k: row[k] for k in ('engines_mass_kg', 'aft_fan_mass_kg', 'electrical_mass_kg',
+                                 'total_fuel_kg', 'mtow_kg')}
+    parts['airframe_mass_kg'] = (row['oew_kg'] - row['engines_mass_kg'] - row['aft_fan_mass_kg']
+                                 - row['electrical_mass_kg'])
+    parts['payload_kg'] = row['mtow_kg'] - row['oew_kg'] - row['total_fuel_kg']
+    return parts
 
 
 def run_sweep(config, spec, jobs=None, out_dir=None, progress=None):
@@ -199,6 +228,9 @@ def run_sweep(config, spec, jobs=None, out_dir=None, progress=None):
                                  {'completed_studies': list(summaries)}) from None
         points = result.pop('points', None)
         summaries[name] = result
+        if points is not None:
+            result['points_count'] = len(points)
+            result['closed_count'] = sum(bool(r.get('closed', r.get('success'))) for r in points)
         if out_dir:
             if points:
                 write_atomic(os.path.join(out_dir, f'{name}_points.csv'), points_csv(points))
@@ -207,9 +239,6 @@ def run_sweep(config, spec, jobs=None, out_dir=None, progress=None):
             result.pop('points', None)
             result['plots'] = [os.path.basename(p) for p in plots]
             write_results(out_dir, f'{name}_summary', {'status': 'complete', **_clean(result)})
-        elif points is not None:
-            result['points_count'] = len(points)
-            result['closed_count'] = sum(bool(r.get('closed', r.get('success'))) for r in points)
     if out_dir:
         from .report import write_report
         write_report(out_dir)
