@@ -148,3 +148,27 @@ def test_ctrl_c_during_a_sweep_exits_130_with_a_partial_summary(tmp_path):
     summaries = sorted(out.glob('*_summary.json'))
     partial = [json.loads(p.read_text()) for p in summaries]
     assert any(s['status'] == 'partial' for s in partial)
+
+
+def test_cli_sweep_under_mpiexec_matches_the_serial_run(tmp_path):
+    import os
+    import shutil
+    import subprocess
+    import sys
+    pytest.importorskip('mpi4py')
+    local = os.path.join(os.path.dirname(sys.executable), 'mpiexec')
+    mpiexec = local if os.access(local, os.X_OK) else shutil.which('mpiexec')
+    if mpiexec is None:
+        pytest.skip('no mpiexec')
+    env = dict(os.environ, OPENMDAO_REPORTS='0')
+    args = ['-m', 'voltwake.cli', 'sweep', '--targets', 'aft_fan.thrust_fraction=0.1:0.15:2']
+    serial = subprocess.run([sys.executable, *args, '--jobs', '1', '--out',
+                             str(tmp_path / 'serial')], capture_output=True, text=True,
+                            env=env, timeout=600)
+    assert serial.returncode == 0, serial.stderr
+    ranked = subprocess.run([mpiexec, '-n', '2', sys.executable, *args, '--out',
+                             str(tmp_path / 'mpi')], capture_output=True, text=True, env=env,
+                            timeout=600)
+    assert ranked.returncode == 0, ranked.stderr
+    assert (tmp_path / 'mpi' / 'targets_points.csv').read_text() == \
+        (tmp_path / 'serial' / 'targets_points.csv').read_text()
