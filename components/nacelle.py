@@ -9,7 +9,8 @@ class NacelleGeometryComp(PointwiseComponent):
     """
     Nacelle maximum diameter from the fan tip diameter.
 
-    math::
+    .. math::
+
         D_{nac} = k_D D_{fan}
 
     with k_D the configured nacelle-to-fan diameter ratio (common practice for conceptual

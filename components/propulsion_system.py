@@ -9,7 +9,8 @@ class PropulsionSystemComp(PointwiseComponent):
     """
     Aircraft fuel flow and per-engine shaft-power extraction.
 
-    math::
+    .. math::
+
         \\dot m_{f,total} = N \\dot m_{f,engine}
 
         P_{ext,engine} = P_{ext,total} / N
@@ -75,7 +76,8 @@ class InstalledThrustComp(PointwiseComponent):
     """
     Installed rated (sea-level static) thrust of all propulsors.
 
-    math::
+    .. math::
+
         T_{inst} = N T_{rated,engine} + r T_{aft,cruise}
 
     The aft fan is taken to offer the same rated-to-cruise thrust ratio r as the turbofans

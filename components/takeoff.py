@@ -9,7 +9,7 @@ from voltwake.components.base import PointwiseComponent
 _FOOT = 0.3048  # m
 _LBF_PER_FT2 = 4.4482216152605 / _FOOT ** 2  # Pa, = 47.880259 Pa
 # Field length per unit take-off parameter: 37.5 ft per lbf/ft**2, expressed in m per Pa.
-TOFL_PER_TOP = 37.5 * _FOOT / _LBF_PER_FT2  # = 0.238722 m/Pa
+TOFL_PER_TOP = 37.5 * _FOOT / _LBF_PER_FT2  # = 0.238721 m/Pa
 
 
 class TakeoffFieldLengthComp(PointwiseComponent):
@@ -30,7 +30,7 @@ class TakeoffFieldLengthComp(PointwiseComponent):
 
     .. math::
 
-        k = 37.5 \times \frac{0.3048}{47.880259} = 0.238722 \ \mathrm{m/Pa},
+        k = 37.5 \times \frac{0.3048}{47.880259} = 0.238721 \ \mathrm{m/Pa},
 
     so :math:`s_{TOFL}` is in m when :math:`TOP` is in N/m**2.
 

@@ -381,9 +381,9 @@ class SizingLoop(om.Group):
         newton.options['atol'] = 1e-8
         newton.options['iprint'] = -1
         newton.options['err_on_non_converge'] = True
-        # No line search: the model's states stay physical along full Newton steps (the
-        # capture-height fluxes are continued oddly below the wall), and a line search would
-        # cost one more residual evaluation per iteration.
+        # No line search: every state stays defined along full Newton steps (the capture-height
+        # fluxes are continued as odd functions below the wall), and a line search would cost
+        # one more residual evaluation per iteration.
         newton.linesearch = None
         self.linear_solver = PointwiseDirectSolver(assemble_jac=True)
 

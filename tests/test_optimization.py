@@ -171,7 +171,11 @@ def test_design_variable_scaling_and_bad_specs():
     prob = build_problem(TURBO_ELECTRIC, {
         'optimization.design_variables.wing.area': {'lower': 95, 'upper': 150, 'ref': 100}})
     meta = prob.model.get_design_vars()
-    assert meta['wing_area']['total_scaler'] == pytest.approx(0.01)
+    # ref0 defaults to the lower bound: scaler 1 / (100 - 95).
+    assert meta['wing_area']['total_scaler'] == pytest.approx(0.2)
+    with pytest.raises(ConfigError, match='ref must differ from ref0'):
+        build_problem(TURBO_ELECTRIC, {'optimization.design_variables.wing.area': {
+            'lower': 95, 'upper': 150, 'ref0': 150}})
     with pytest.raises(ConfigError, match='not below upper'):
         build_problem(TURBO_ELECTRIC, {
             'optimization.design_variables.wing.area': {'lower': 150, 'upper': 95}})

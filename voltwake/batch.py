@@ -18,8 +18,9 @@ from .errors import ConfigError
 
 #: Largest relative residual of a point accepted as converged.
 RESIDUAL_TOLERANCE = 1e-7
-#: Continuation steps (fractions of the way from the base design to the point).
-CONTINUATION = (0.25, 0.5, 0.75, 1.0)
+#: First continuation step (fraction of the way from the base design to the point); a step
+#: that stalls is halved, down to FIRST_STEP / 16.
+FIRST_STEP = 0.25
 
 
 @dataclasses.dataclass
@@ -170,8 +171,9 @@ def _setup(config, targets, size):
 def _continue(config, targets, names):
     """
     Walk points that did not close from the base design to their own inputs, in steps that
-    halve where the walk stalls; a point that stalls for good is past a fold of the sizing
-    loop (its MTOW rising along the way says the weight grows without bound).
+    halve where the walk stalls; a point that stalls for good with its MTOW higher there than
+    at the configured design is past a fold of the mass balance (the weight grows without
+    bound).
     """
     size = len(next(iter(targets.values()))[2])
     prob, base = _setup(config, targets, size)
@@ -183,10 +185,10 @@ def _continue(config, targets, names):
     _solve(prob, aft)                              # every point at the base design
     first = np.real(prob.get_val('mtow')).copy()
     last = first.copy()
-    step = np.full(size, CONTINUATION[0])
+    step = np.full(size, FIRST_STEP)
     walking = every.copy()
     reasons = [None] * size
-    smallest = CONTINUATION[0] / 16.0
+    smallest = FIRST_STEP / 16.0
     while walking.any():
         trial = np.where(walking, np.minimum(fraction + step, 1.0), fraction)
         _set(prob, targets, trial, base, walking)
@@ -204,8 +206,8 @@ def _continue(config, targets, names):
                 reasons[i] = (
                     'the sizing loop did not close: no solution past '
                     f'{100 * fraction[i]:.0f}% of the way from the configured design (MTOW '
-                    f'{first[i]:,.0f} kg there, {last[i]:,.0f} kg at {100 * fraction[i]:.0f}% '
-                    'and rising): weight grows without bound')
+                    f'{first[i]:,.0f} kg there, {last[i]:,.0f} kg at {100 * fraction[i]:.0f}%): '
+                    'weight grows without bound')
         if halved.any():
             # Re-converge the stalled points at their last good inputs before the next step.
             _set(prob, targets, fraction, base, halved)

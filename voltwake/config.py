@@ -50,8 +50,8 @@ _CHECKS = {
     'at_least_one': (lambda v: v >= 1, 'a value >= 1'),
     'above_one': (lambda v: v > 1, 'a value > 1'),
     'above_two': (lambda v: v > 2, 'a value > 2'),
-    'isa_altitude': (lambda v: 0 <= v <= 20000, 'a value from 0 to 20 km (the ISA range '
-                                                 'modelled)'),
+    'isa_altitude': (lambda v: 0 <= v <= 20000,
+                     'a value from 0 to 20 km (the ISA range modelled)'),
 }
 
 
@@ -348,7 +348,7 @@ def _check_field(field, value, where):
                               f'{_MAX_INTEGER} ({field.doc})', **where)
     elif field.kind == 'choice':
         if not isinstance(value, str) or value not in field.choices:
-            hint = _suggest(str(value), field.choices)
+            hint = _suggest(value, field.choices) if isinstance(value, str) else ''
             raise ConfigError(f"got {_show(value)}; expected one of "
                               f"{', '.join(field.choices)}{hint}", **where)
     elif field.kind == 'mapping':

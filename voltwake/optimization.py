@@ -46,7 +46,8 @@ class DesignVariable:
     units : str or None
         SI units.
     ref0, ref : float or None
-        Values that the optimiser sees as 0 and 1 (default: the bounds).
+        Values that the optimiser sees as 0 and 1 (each defaults to its bound: ref0 to the
+        lower, ref to the upper).
     """
 
     path: str
@@ -146,7 +147,8 @@ def design_variables(config, model_inputs):
         if not vals['lower'] < vals['upper']:
             raise ConfigError(f"lower bound {vals['lower']:g} is not below upper bound "
                               f"{vals['upper']:g}", **where)
-        if 'ref' in vals and vals['ref'] == vals.get('ref0', 0.0):
+        if ('ref' in vals or 'ref0' in vals) and \
+                vals.get('ref', vals['upper']) == vals.get('ref0', vals['lower']):
             raise ConfigError('ref must differ from ref0', **where)
         out.append(DesignVariable(path, field.target, units=units, **vals))
     if not out:
@@ -311,11 +313,9 @@ def build_problem(config, overrides=None, recorder_path=None):
     prob = om.Problem(AircraftModel(vec_size=1, **config.model_options()), reports=False)
     prob.driver = driver
     for dv in dvs:
-        scaled = dv.ref is not None or dv.ref0 is not None
         prob.model.add_design_var(dv.target, lower=dv.lower, upper=dv.upper, units=dv.units,
-                                  ref0=(dv.ref0 or 0.0) if scaled else dv.lower,
-                                  ref=(dv.ref if dv.ref is not None else 1.0) if scaled
-                                  else dv.upper)
+                                  ref0=dv.lower if dv.ref0 is None else dv.ref0,
+                                  ref=dv.upper if dv.ref is None else dv.ref)
     for con in cons:
         scale = max(abs(b) for b in (con.lower, con.upper, con.equals) if b is not None)
         prob.model.add_constraint(con.name, lower=con.lower, upper=con.upper,

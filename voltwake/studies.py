@@ -161,7 +161,8 @@ def sample_distributions(distributions, samples, seed):
         vals = [parse_quantity(p, field.units, where) if field.units else _float(p, where)
                 for p in params]
         if vals != sorted(vals) or vals[0] == vals[-1]:
-            raise ConfigError(f'got {params!r}; expected increasing values', **where)
+            raise ConfigError(f'got {params!r}; expected lo < hi (and lo <= mode <= hi)',
+                              **where)
         out[path] = (rng.uniform(vals[0], vals[1], samples) if kind == 'uniform'
                      else rng.triangular(vals[0], vals[1], vals[2], samples))
     return out

@@ -162,8 +162,9 @@ def _build(node, loader, path, lines, budget, source, active=None):
                        '(a float reaches about 1.8e308)')
         else:
             kind = node.tag.rpartition(':')[2] or node.tag
-            problem = (f'got {_show_text(node.value)}, which is not a valid {kind}; '
-                       f'expected a {kind} (quote the value to keep it as text)')
+            problem = (f'got {_show_text(node.value)}, which YAML reads as a {kind} (!!{kind}) '
+                       f'but is not a valid one; expected a valid {kind}, or quotes around '
+                       'the value to keep it as text')
         raise ConfigError(problem, source=source, line=node.start_mark.line + 1,
                           path=key_path(path)) from None
 
@@ -178,8 +179,8 @@ def _build_collection(node, loader, path, lines, budget, source, active):
                                   line=key_node.start_mark.line + 1, path=key_path(path))
             if key_node.tag == 'tag:yaml.org,2002:merge':
                 raise ConfigError('merge keys (<<) are not supported; expected plain keys',
-                                  source=source,
-                                  line=key_node.start_mark.line + 1, path=key_path(path))
+                                  source=source, line=key_node.start_mark.line + 1,
+                                  path=key_path(path))
             key = _build(key_node, loader, path, lines, budget, source, active)
             try:
                 key = str(key)
