@@ -22,7 +22,7 @@ def machine_in_published_range(specific_power_kw_per_kg, efficiency):
     """
     Whether an electric machine lies in the range reported for near-term aircraft machines.
 
-    NASA and academic reviews of electric machines for aircraft propulsion (the 2019-2021
+    Published reviews of electric machines for aircraft propulsion (the 2019-2021
     literature on high-specific-power motors) report roughly 5-20 kW/kg specific power
     (active parts plus structure) and 0.95-0.99 efficiency; from memory.
 
