@@ -7,7 +7,8 @@ from openmdao.utils.assert_utils import assert_check_totals
 import voltwake
 from voltwake.analysis import build_model_problem, run_sizing
 from voltwake.config import demo_path, load_config
-from voltwake.derivatives import AFT_TOTALS_OF, AFT_TOTALS_WRT, TOTALS_OF, TOTALS_WRT
+from voltwake.derivatives import (AFT_TOTALS_OF, AFT_TOTALS_WRT, TOTALS_OF, TOTALS_WRT,
+                                  check_totals_cs)
 
 CONVENTIONAL = demo_path('conventional')
 TURBO_ELECTRIC = demo_path('turbo_electric')
@@ -47,8 +48,26 @@ def test_total_derivatives_of_the_converged_model(path):
     run_sizing(prob, config.has_aft_fan)
     of = TOTALS_OF + (AFT_TOTALS_OF if config.has_aft_fan else [])
     wrt = TOTALS_WRT + (AFT_TOTALS_WRT if config.has_aft_fan else [])
-    data = prob.check_totals(of=of, wrt=wrt, method='cs', out_stream=None)
+    data = check_totals_cs(prob, of, wrt)
     assert_check_totals(data, atol=1e-10, rtol=1e-7)
+
+
+def test_total_derivative_check_catches_a_wrong_partial(monkeypatch):
+    # The check must not compare the analytic totals with themselves (see check_totals_cs):
+    # a 1% error in one partial of the power saving coefficient must show.
+    from voltwake.components.power_saving import PowerSavingComp
+    right = PowerSavingComp.compute_partials
+
+    def wrong(self, inputs, partials):
+        right(self, inputs, partials)
+        partials['power_saving_coefficient', 'shaft_power'] *= 1.01
+
+    monkeypatch.setattr(PowerSavingComp, 'compute_partials', wrong)
+    prob = build_model_problem(load_config(TURBO_ELECTRIC))
+    run_sizing(prob, True)
+    data = check_totals_cs(prob, ['power_saving_coefficient'], ['aft_fan_pressure_ratio'])
+    with pytest.raises(ValueError):
+        assert_check_totals(data, atol=1e-10, rtol=1e-7)
 
 
 def test_vectorised_points_match_single_analyses():
