@@ -1,6 +1,8 @@
 """
-Cost of the demo optimisation: analytic against finite-difference total derivatives, and the
-wall time of a command-line run including interpreter start-up.
+Cost of the demo optimisation.
+
+Analytic against finite-difference total derivatives, and the wall time of a command-line
+run including interpreter start-up.
 
 Run: ``python benchmarks/bench_optimize.py``. Prints one table; numbers only, no assertions.
 """

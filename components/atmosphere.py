@@ -21,27 +21,27 @@ P_TROPOPAUSE = P0 * (T_TROPOPAUSE / T0) ** _EXPONENT  # 22632.06 Pa, continuous 
 
 
 class AtmosphereComp(PointwiseComponent):
-    """
+    r"""
     International Standard Atmosphere from geopotential altitude, 0 to 20 km.
 
     Troposphere (H < 11 km), linear temperature and hydrostatic pressure:
 
     .. math::
 
-        T = T_0 - L H, \\qquad p = p_0 (T / T_0)^{g_0 / (R L)}
+        T = T_0 - L H, \qquad p = p_0 (T / T_0)^{g_0 / (R L)}
 
     Lower stratosphere (11 km <= H <= 20 km), isothermal:
 
     .. math::
 
-        T = T_{11}, \\qquad p = p_{11} \\exp\\left(-\\frac{g_0 (H - H_{11})}{R T_{11}}\\right)
+        T = T_{11}, \qquad p = p_{11} \exp\left(-\frac{g_0 (H - H_{11})}{R T_{11}}\right)
 
     and in both layers
 
     .. math::
 
-        \\rho = \\frac{p}{R T}, \\qquad a = \\sqrt{\\gamma R T}, \\qquad
-        \\mu = \\frac{\\beta_s T^{3/2}}{T + S}
+        \rho = \frac{p}{R T}, \qquad a = \sqrt{\gamma R T}, \qquad
+        \mu = \frac{\beta_s T^{3/2}}{T + S}
 
     with T0 = 288.15 K, p0 = 101325 Pa, L = 6.5e-3 K/m, R = 287.05287 J/(kg K),
     g0 = 9.80665 m/s**2, gamma = 1.4, beta_s = 1.458e-6 kg/(m s K**0.5), S = 110.4 K
@@ -148,14 +148,14 @@ class AtmosphereComp(PointwiseComponent):
 
 
 class FlightConditionComp(PointwiseComponent):
-    """
+    r"""
     Airspeed, dynamic pressure and isentropic total (stagnation) conditions from Mach number.
 
     .. math::
 
-        V = M a, \\qquad q = \\tfrac{1}{2} \\rho V^2, \\qquad
-        T_t = T \\left(1 + \\frac{\\gamma - 1}{2} M^2\\right), \\qquad
-        p_t = p \\left(1 + \\frac{\\gamma - 1}{2} M^2\\right)^{\\gamma / (\\gamma - 1)}
+        V = M a, \qquad q = \tfrac{1}{2} \rho V^2, \qquad
+        T_t = T \left(1 + \frac{\gamma - 1}{2} M^2\right), \qquad
+        p_t = p \left(1 + \frac{\gamma - 1}{2} M^2\right)^{\gamma / (\gamma - 1)}
 
     with gamma = 1.4 (isentropic flow of a calorically perfect gas; e.g. Anderson, Modern
     Compressible Flow, ch. 3, from memory).

@@ -64,14 +64,14 @@ def _wetted_area(shape, diameter, fineness):
 
 
 class BodyDragComp(PointwiseComponent):
-    """
+    r"""
     Zero-lift drag area of one or more identical streamlined bodies.
 
     Component build-up: drag area = n cf FF Q S_wet, with body length l = f D and
 
     .. math::
 
-        Re = \\frac{\\rho V l}{\\mu}, \\qquad c_f = \\frac{0.455}{(\\log_{10} Re)^{2.58}}
+        Re = \frac{\rho V l}{\mu}, \qquad c_f = \frac{0.455}{(\log_{10} Re)^{2.58}}
 
     (Prandtl-Schlichting turbulent flat-plate skin friction, no compressibility correction).
     Form factor FF and wetted area S_wet of one body:

@@ -8,17 +8,17 @@ _DRAG_AREAS = ('fuselage_drag_area', 'nacelle_drag_area', 'aft_nacelle_drag_area
 
 
 class DragPolarComp(PointwiseComponent):
-    """
+    r"""
     Parabolic drag polar with a zero-lift term built from body drag areas.
 
     .. math::
 
-        C_{D0} = C_{D0,other} + \\frac{(C_D A)_{fus} + (C_D A)_{nac} + (C_D A)_{aft}}{S},
-        \\qquad C_{Di} = \\frac{C_L^2}{\\pi e A}, \\qquad C_D = C_{D0} + C_{Di}
+        C_{D0} = C_{D0,other} + \frac{(C_D A)_{fus} + (C_D A)_{nac} + (C_D A)_{aft}}{S},
+        \qquad C_{Di} = \frac{C_L^2}{\pi e A}, \qquad C_D = C_{D0} + C_{Di}
 
     .. math::
 
-        D = q S C_D + D_{extra}, \\qquad L/D = \\frac{C_L q S}{D}, \\qquad
+        D = q S C_D + D_{extra}, \qquad L/D = \frac{C_L q S}{D}, \qquad
         D_{fus} = q (C_D A)_{fus}
 
     (parabolic drag polar with Oswald efficiency e, e.g. Anderson, Introduction to Flight,

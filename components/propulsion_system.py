@@ -6,12 +6,12 @@ from .base import PointwiseComponent
 
 
 class PropulsionSystemComp(PointwiseComponent):
-    """
+    r"""
     Aircraft fuel flow and per-engine shaft-power extraction.
 
     .. math::
 
-        \\dot m_{f,total} = N \\dot m_{f,engine}
+        \dot m_{f,total} = N \dot m_{f,engine}
 
         P_{ext,engine} = P_{ext,total} / N
 

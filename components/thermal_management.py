@@ -49,7 +49,8 @@ class ThermalManagementComp(PointwiseComponent):
         self.add_input('drag_per_power', np.zeros(n), units='N/W',
                        desc='Drag penalty per unit heat rejected.')
 
-        self.add_output('heat_load', np.zeros(n), units='W', ref=1e6, desc='Total heat load at cruise.')
+        self.add_output('heat_load', np.zeros(n), units='W', ref=1e6,
+                        desc='Total heat load at cruise.')
         self.add_output('mass', np.zeros(n), units='kg', desc='Thermal-management system mass.')
         self.add_output('drag', np.zeros(n), units='N', desc='Drag penalty of heat rejection.')
 

@@ -9,12 +9,12 @@ G0 = 9.80665
 
 
 class WingGeometryComp(PointwiseComponent):
-    """
+    r"""
     Wing span from reference area and aspect ratio.
 
     .. math::
 
-        b = \\sqrt{A S}
+        b = \sqrt{A S}
 
     (definition of aspect ratio A = b**2 / S, common practice).
 
@@ -70,12 +70,12 @@ class WingGeometryComp(PointwiseComponent):
 
 
 class LiftCoefficientComp(PointwiseComponent):
-    """
+    r"""
     Lift coefficient for level flight, lift equal to weight.
 
     .. math::
 
-        C_L = \\frac{m g_0}{q S}
+        C_L = \frac{m g_0}{q S}
 
     (definition of the lift coefficient, common practice; g0 = 9.80665 m/s**2, the standard
     acceleration of gravity of ISO 80000-3).

@@ -1,6 +1,7 @@
 """
-Optimise the packaged turbo-electric demo, then read its driver history back from the
-OpenMDAO case file.
+Optimise the packaged turbo-electric demo, then read its history from the case file.
+
+The driver history is read back with OpenMDAO's CaseReader.
 
 Run: ``python examples/optimize_and_read_recorder.py [OUTDIR]``. The case file is written to
 OUTDIR (default: a new temporary directory). Exit code 0 when the optimiser succeeds.

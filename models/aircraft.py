@@ -12,11 +12,11 @@ import openmdao.api as om
 from voltwake.components.aft_fan_mass import AftFanMassComp
 from voltwake.components.atmosphere import AtmosphereComp, FlightConditionComp
 from voltwake.components.body_drag import BodyDragComp
-from voltwake.components.buffet import BuffetMarginComp
 from voltwake.components.boundary_layer import FuselageBoundaryLayerComp, IngestedFlowComp
+from voltwake.components.buffet import BuffetMarginComp
 from voltwake.components.cable import CableComp
-from voltwake.components.climb import ThrustLapseComp, TopOfClimbComp
 from voltwake.components.capture_height import CaptureHeightComp, initial_capture_height
+from voltwake.components.climb import ThrustLapseComp, TopOfClimbComp
 from voltwake.components.drag_polar import DragPolarComp
 from voltwake.components.ducted_fan import DuctedFanComp
 from voltwake.components.electrical_device import ElectricalDeviceComp

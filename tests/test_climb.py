@@ -14,8 +14,12 @@ P_SL, T_SL = 101325.0, 288.15  # ISA sea level, ISO 2533:1975
 
 
 def _lapse_by_hand(pressure, temperature, mach, throttle_ratio):
-    """High-bypass turbofan lapse, Mattingly, Heiser & Pratt, Aircraft Engine Design,
-    2nd ed. (2002), sect. 2.3.2 (from memory), written out in plain floats."""
+    """
+    Return the high-bypass turbofan lapse, written out in plain floats.
+
+    Mattingly, Heiser & Pratt, Aircraft Engine Design, 2nd ed. (2002), sect. 2.3.2 (from
+    memory).
+    """
     ram = 1.0 + 0.2 * mach ** 2
     delta0 = pressure / P_SL * ram ** 3.5
     theta0 = temperature / T_SL * ram

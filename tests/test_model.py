@@ -7,8 +7,13 @@ from openmdao.utils.assert_utils import assert_check_totals
 import voltwake
 from voltwake.analysis import build_model_problem, run_sizing
 from voltwake.config import demo_path, load_config
-from voltwake.derivatives import (AFT_TOTALS_OF, AFT_TOTALS_WRT, TOTALS_OF, TOTALS_WRT,
-                                  check_totals_cs)
+from voltwake.derivatives import (
+    AFT_TOTALS_OF,
+    AFT_TOTALS_WRT,
+    TOTALS_OF,
+    TOTALS_WRT,
+    check_totals_cs,
+)
 
 CONVENTIONAL = demo_path('conventional')
 TURBO_ELECTRIC = demo_path('turbo_electric')

@@ -24,6 +24,8 @@ def _conventional_with(optimization):
 
 def test_wing_area_for_least_fuel_gives_the_best_lift_coefficient():
     """
+    Check that the least-fuel wing area gives the best lift coefficient.
+
     Only the wing area varies; airframe mass depends on MTOW alone and the fuselage and
     nacelle drag areas do not scale with the wing, so fuel is least where cruise drag is
     least at the mid-cruise weight: dD/dS = q cd0_wing - W^2/(q S^2 pi e AR) = 0, i.e.

@@ -1,7 +1,6 @@
 """Designs spread over the demo's design-variable bounds: closure and optimisation success."""
 
 import numpy as np
-import pytest
 
 from voltwake.batch import analyze_points
 from voltwake.config import demo_path, field_at, load_config, parse_quantity

@@ -30,7 +30,8 @@ def test_lift_coefficient_hand_values():
     # CL = m g0 / (q S): 6e5 N / (1e4 * 120) = 0.5; 4e5 N / (8e3 * 100) = 0.5;
     # 1e5 N / (5e3 * 40) = 0.5, with the masses m = W / 9.80665.
     prob = _run(LiftCoefficientComp(vec_size=3),
-                {'mass': np.array([6.0e5, 4.0e5, 1.0e5]) / 9.80665, 'dynamic_pressure': [1.0e4, 8.0e3, 5.0e3],
+                {'mass': np.array([6.0e5, 4.0e5, 1.0e5]) / 9.80665,
+                 'dynamic_pressure': [1.0e4, 8.0e3, 5.0e3],
                  'wing_area': [120.0, 100.0, 40.0]})
     np.testing.assert_allclose(prob.get_val('lift_coefficient'), [0.5, 0.5, 0.5], rtol=1e-14)
 

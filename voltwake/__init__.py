@@ -5,8 +5,8 @@ Conceptual estimates only: not for certification, flight or operational decision
 """
 
 from .analysis import AnalysisResult, analyze, build_model_problem
-from .config import Config, load_config
 from .compare import compare
+from .config import Config, load_config
 from .errors import ConfigError, NotClosedError, OptimizationError, VoltwakeError
 from .optimization import OptimizationResult, build_problem, optimize
 

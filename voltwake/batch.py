@@ -122,8 +122,11 @@ def _reset_states(prob, bad, good, start):
 
 
 def _isolate(prob, aft_fan, targets, fraction, base, active, fallback=None):
-    """Solve; points that fail are set back (to ``fallback``, default the base design) until
-    the rest converge."""
+    """
+    Solve, setting failing points back until the rest converge.
+
+    Failing points are set back to ``fallback`` (default: the base design).
+    """
     size = len(fraction)
     start = {name: flat.copy() for name, flat in prob.model.sizing._outputs._abs_item_iter()}
     failed = np.zeros(size, dtype=bool)
@@ -170,10 +173,11 @@ def _setup(config, targets, size):
 
 def _continue(config, targets, names):
     """
-    Walk points that did not close from the base design to their own inputs, in steps that
-    halve where the walk stalls; a point that stalls for good with its MTOW higher there than
-    at the configured design is past a fold of the mass balance (the weight grows without
-    bound).
+    Walk points that did not close from the base design to their own inputs.
+
+    The steps halve where the walk stalls; a point that stalls for good with its MTOW higher
+    there than at the configured design is past a fold of the mass balance (the weight grows
+    without bound).
     """
     size = len(next(iter(targets.values()))[2])
     prob, base = _setup(config, targets, size)

@@ -1,6 +1,8 @@
 """
-Derivative checks of the assembled model: every component's partials against complex
-step, and the model's total derivatives against complex step through the Newton solve.
+Derivative checks of the assembled model.
+
+Every component's partials against complex step, and the model's total derivatives against
+complex step through fully iterated Newton solves.
 """
 
 import warnings

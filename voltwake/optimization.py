@@ -1,13 +1,14 @@
 """
-Optimisation of a configured aircraft against fuel burn (or another output) with the
-performance constraints of its ``optimization`` section, using OpenMDAO's
-ScipyOptimizeDriver and the model's analytic total derivatives.
+Optimisation of a configured aircraft against fuel burn (or another output).
+
+The performance constraints come from its ``optimization`` section; OpenMDAO's
+ScipyOptimizeDriver uses the model's analytic total derivatives.
 """
 
 import contextlib
 import dataclasses
-import io
 import difflib
+import io
 import math
 import sys
 
@@ -17,8 +18,13 @@ from openmdao.core.analysis_error import AnalysisError
 
 from voltwake.models.aircraft import AircraftModel
 
-from .analysis import (build_model_problem, closure_problem, read_fields, run_sizing,
-                       set_model_inputs)
+from .analysis import (
+    build_model_problem,
+    closure_problem,
+    read_fields,
+    run_sizing,
+    set_model_inputs,
+)
 from .config import field_at, load_config, parse_quantity
 from .errors import ConfigError, InterruptedRun, NotClosedError
 

@@ -221,10 +221,10 @@ def _map_mpi(comm, func, items, progress):
 
 
 class ProgressBar:
-    """
+    r"""
     Progress of a sweep on a text stream: points done, failed, total, elapsed and time left.
 
-    On a terminal the line is rewritten in place (``'\\r'``); otherwise one line is written
+    On a terminal the line is rewritten in place (``'\r'``); otherwise one line is written
     each time another tenth of the points is done, and at the end.
 
     Parameters

@@ -1,6 +1,8 @@
 """
-Trade studies: design-space maps and Monte Carlo over technology inputs, each evaluated as one
-vectorised model (see :mod:`voltwake.batch`), compared with the conventional reference.
+Trade studies: design-space maps and Monte Carlo over technology inputs.
+
+Each is evaluated as one vectorised model (see :mod:`voltwake.batch`) and compared with the
+conventional reference.
 """
 
 import csv

@@ -1,6 +1,7 @@
 """
-``voltwake sweep``: run the trade studies of a config's ``study`` section (or of command-line
-flags), write CSV, JSON/YAML summaries, plots and an HTML report under ``--out``.
+``voltwake sweep``: run the trade studies of a config's ``study`` section or of flags.
+
+CSV, JSON/YAML summaries, plots and an HTML report are written under ``--out``.
 """
 
 import math

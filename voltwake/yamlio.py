@@ -91,7 +91,7 @@ def _show_text(text):
 
 
 def key_path(parts):
-    """
+    r"""
     Return the dotted key path of ``parts`` as shown in error messages, or None when empty.
 
     A key that is empty, has spaces at either end or holds characters that are not printable
@@ -106,7 +106,7 @@ def key_path(parts):
     Returns
     -------
     str or None
-        E.g. ``'wing.area'`` or ``"wing.'area\\n'"``.
+        E.g. ``'wing.area'`` or ``"wing.'area\n'"``.
     """
     shown = [part if part and part.isprintable() and part.strip() == part else repr(part)
              for part in map(str, parts)]
