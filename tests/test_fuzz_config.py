@@ -34,6 +34,7 @@ import subprocess
 import sys
 import time
 import tracemalloc
+import warnings
 
 import pytest
 import yaml
@@ -690,6 +691,11 @@ def _targeted_problems(err, case, lines):
     return [f'error about {err.path!r}, expected one about {sorted(allowed)}']
 
 
+def _cut(text):
+    """Start and end of a long text, for a failure message."""
+    return text if len(text) <= 400 else f'{text[:200]} [...] {text[-200:]}'
+
+
 class Fuzzer:
     """Runs the cases and keeps the counts."""
 
@@ -705,9 +711,19 @@ class Fuzzer:
         self._last = None
 
     def cli(self, file):
+        """Run ``voltwake analyze FILE --json``; return exit code, stdout and stderr."""
         self.capfd.readouterr()
-        code = main(['analyze', file, '--json'])
+        with warnings.catch_warnings(record=True) as caught:
+            # pytest keeps warnings off stderr; a real run prints them with Python's default
+            # filters (every category but the deprecation, import and resource ones).
+            warnings.simplefilter('always')
+            for category in (DeprecationWarning, PendingDeprecationWarning, ImportWarning,
+                             ResourceWarning):
+                warnings.simplefilter('ignore', category)
+            code = main(['analyze', file, '--json'])
         out, err = self.capfd.readouterr()
+        err += ''.join(warnings.formatwarning(w.message, w.category, w.filename, w.lineno)
+                       for w in caught)
         return code, out, err
 
     def run(self, case):
@@ -765,13 +781,14 @@ class Fuzzer:
             except ValueError:
                 return 'other', [f'exit 0 but stdout is not JSON: {out[:120]!r}']
             if stderr or not isinstance(result, dict) or result.get('converged') is not True:
-                return 'other', [f'exit 0 with stderr {stderr[:120]!r}']
+                return 'other', [f'exit 0 with stderr {_cut(stderr)!r}']
             return 'exit 0', []
         lines = stderr.splitlines()
         if (code == EXIT_NOT_CLOSED and not out and len(lines) == 1
                 and lines[0].startswith('voltwake: error: ') and 'Traceback' not in stderr):
             return 'exit 3', []
-        return 'other', [f'valid config gave exit {code}, stderr {stderr[:300]!r}']
+        return 'other', [f'valid config gave exit {code} and {len(lines)} line(s) on stderr: '
+                         f'{_cut(stderr)!r}']
 
 
 def _run_subprocesses(cases):

@@ -271,7 +271,7 @@ def closure_reasons(prob, aft_fan, failed=False):
     size = prob.model.options['vec_size']
     reasons = [None] * size
     checks = _CHECKS[:2] + (_FAILED_CHECKS if failed else []) + _CHECKS[2:]
-    with np.errstate(invalid='ignore'):
+    with np.errstate(all='ignore'):
         for test, reason in checks:
             ok = np.broadcast_to(np.asarray(test(val, aft_fan)), (size,))
             for i in np.flatnonzero(~ok):
@@ -335,7 +335,7 @@ def run_sizing(prob, aft_fan):
             mtow = np.real(prob.get_val('mtow'))
             reason = (_CLOSED + 'no convergence within '
                       f"{solver.options['maxiter']} Newton iterations (MTOW "
-                      f'{np.max(mtow):,.0f} kg at the last finite iterate)')
+                      f'{np.max(mtow):,.6g} kg at the last finite iterate)')
         raise NotClosedError(reason) from None
     reason = closure_problem(prob, aft_fan)
     if reason:

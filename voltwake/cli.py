@@ -210,8 +210,11 @@ def main(argv=None):
     args = _parser().parse_args(argv)
     with warnings.catch_warnings():
         if not os.environ.get('VOLTWAKE_DEBUG'):
-            # OpenMDAO's advisory warnings (relevance, zero partials) are for developers.
+            # OpenMDAO's advisory warnings (relevance, zero partials) and numpy's floating-
+            # point warnings from designs that run away are for developers; the user gets the
+            # one-line reason.
             warnings.filterwarnings('ignore', module='openmdao')
+            warnings.filterwarnings('ignore', category=RuntimeWarning)
         return _run(args)
 
 
