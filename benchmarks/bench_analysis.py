@@ -35,8 +35,10 @@ def main(repeats=7):
             t2 = time.perf_counter()
             setups.append(t1 - t0)
             runs.append(t2 - t1)
-        print(f'{name:<16s}{1e3 * statistics.median(setups):>12.1f}'
-              f'{1e3 * statistics.median(runs):>16.1f}{its:>12d}')
+        print(
+            f'{name:<16s}{1e3 * statistics.median(setups):>12.1f}'
+            f'{1e3 * statistics.median(runs):>16.1f}{its:>12d}'
+        )
 
 
 if __name__ == '__main__':

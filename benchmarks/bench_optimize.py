@@ -70,16 +70,25 @@ def run_optimization(config, fd_totals):
     prob.run_model()
     with np.errstate(all='ignore'), contextlib.redirect_stdout(io.StringIO()):
         prob.run_driver()
-    prob.driver._run_solve_nonlinear()   # final evaluation at the optimiser's design
+    prob.driver._run_solve_nonlinear()  # final evaluation at the optimiser's design
     t3 = time.perf_counter()
 
     driver = prob.driver
-    design = [(float(prob.get_val(dv.target, units=dv.units)[0]) - dv.lower)
-              / (dv.upper - dv.lower) for dv in driver.design_variables]
-    return {'setup': t1 - t0, 'optimise': t3 - t2, 'model_evals': driver.result.model_evals,
-            'deriv_evals': driver.result.deriv_evals, 'deriv_time': driver.result.deriv_time,
-            'solves': solves[0], 'block_fuel': float(prob.get_val('block_fuel', units='kg')[0]),
-            'success': driver._scipy_optimize_result.success, 'design': np.array(design)}
+    design = [
+        (float(prob.get_val(dv.target, units=dv.units)[0]) - dv.lower) / (dv.upper - dv.lower)
+        for dv in driver.design_variables
+    ]
+    return {
+        'setup': t1 - t0,
+        'optimise': t3 - t2,
+        'model_evals': driver.result.model_evals,
+        'deriv_evals': driver.result.deriv_evals,
+        'deriv_time': driver.result.deriv_time,
+        'solves': solves[0],
+        'block_fuel': float(prob.get_val('block_fuel', units='kg')[0]),
+        'success': driver._scipy_optimize_result.success,
+        'design': np.array(design),
+    }
 
 
 def median_run(config, fd_totals, repeats):
@@ -100,8 +109,10 @@ def median_run(config, fd_totals, repeats):
     dict
         The median run of :func:`run_optimization`.
     """
-    runs = sorted((run_optimization(config, fd_totals) for _ in range(repeats)),
-                  key=lambda run: run['optimise'])
+    runs = sorted(
+        (run_optimization(config, fd_totals) for _ in range(repeats)),
+        key=lambda run: run['optimise'],
+    )
     return runs[len(runs) // 2]
 
 
@@ -122,8 +133,9 @@ def cli_command():
     if probe.returncode == 0:
         return cli + ['optimize'], ''
     code = 'import voltwake.optimization as o; o.optimize()'
-    return [sys.executable, '-c', code], (f"'voltwake optimize' is not available: timed "
-                                          f"python -c '{code}' instead")
+    return [sys.executable, '-c', code], (
+        f"'voltwake optimize' is not available: timed python -c '{code}' instead"
+    )
 
 
 def time_command(command, repeats):
@@ -146,7 +158,7 @@ def time_command(command, repeats):
     """
     env = dict(os.environ, OPENMDAO_REPORTS='0')
     times = []
-    with tempfile.TemporaryDirectory() as cwd:   # anything the command writes goes here
+    with tempfile.TemporaryDirectory() as cwd:  # anything the command writes goes here
         for _ in range(repeats):
             t0 = time.perf_counter()
             proc = subprocess.run(command, cwd=cwd, env=env, capture_output=True, check=False)
@@ -169,33 +181,48 @@ def main(repeats=3):
     command, note = cli_command()
     cli_time, cli_rc = time_command(command, repeats)
 
-    head = (f"{'case':<22s}{'setup [s]':>10s}{'optimise [s]':>13s}{'derivs [s]':>11s}"
-            f"{'model evals':>12s}{'deriv evals':>12s}{'model solves':>13s}"
-            f"{'block fuel [kg]':>16s}")
+    head = (
+        f"{'case':<22s}{'setup [s]':>10s}{'optimise [s]':>13s}{'derivs [s]':>11s}"
+        f"{'model evals':>12s}{'deriv evals':>12s}{'model solves':>13s}"
+        f"{'block fuel [kg]':>16s}"
+    )
     print(f'demo optimisation, median of {repeats} runs')
     print(head)
     print('-' * len(head))
     for name, run in (('analytic totals', exact), ('FD totals', fd)):
-        print(f"{name:<22s}{run['setup']:10.2f}{run['optimise']:13.2f}{run['deriv_time']:11.2f}"
-              f"{run['model_evals']:12d}{run['deriv_evals']:12d}{run['solves']:13d}"
-              f"{run['block_fuel']:16.2f}")
-    ratio = {key: fd[key] / exact[key] for key in
-             ('setup', 'optimise', 'deriv_time', 'model_evals', 'deriv_evals', 'solves')}
-    print(f"{'FD / analytic':<22s}{ratio['setup']:10.2f}{ratio['optimise']:13.2f}"
-          f"{ratio['deriv_time']:11.2f}{ratio['model_evals']:12.2f}{ratio['deriv_evals']:12.2f}"
-          f"{ratio['solves']:13.2f}{fd['block_fuel'] / exact['block_fuel']:16.6f}")
+        print(
+            f"{name:<22s}{run['setup']:10.2f}{run['optimise']:13.2f}{run['deriv_time']:11.2f}"
+            f"{run['model_evals']:12d}{run['deriv_evals']:12d}{run['solves']:13d}"
+            f"{run['block_fuel']:16.2f}"
+        )
+    ratio = {
+        key: fd[key] / exact[key]
+        for key in ('setup', 'optimise', 'deriv_time', 'model_evals', 'deriv_evals', 'solves')
+    }
+    print(
+        f"{'FD / analytic':<22s}{ratio['setup']:10.2f}{ratio['optimise']:13.2f}"
+        f"{ratio['deriv_time']:11.2f}{ratio['model_evals']:12.2f}{ratio['deriv_evals']:12.2f}"
+        f"{ratio['solves']:13.2f}{fd['block_fuel'] / exact['block_fuel']:16.6f}"
+    )
     label = 'CLI optimize' if not note else 'CLI stand-in'
-    print(f"{label:<22s}{'':>10s}{cli_time:13.2f}   wall time, start-up included "
-          f'(exit code {cli_rc})')
+    print(
+        f"{label:<22s}{'':>10s}{cli_time:13.2f}   wall time, start-up included (exit code {cli_rc})"
+    )
     print('-' * len(head))
-    print(f"optimiser success: analytic {exact['success']}, FD {fd['success']}; "
-          f"block fuel differs by {abs(fd['block_fuel'] / exact['block_fuel'] - 1):.1e} "
-          f"(relative); largest design difference "
-          f"{np.max(np.abs(fd['design'] - exact['design'])):.1e} of the bound range")
-    print('setup: build_problem (and the second setup for FD); optimise: run_model, '
-          'run_driver and the final evaluation; derivs: time in total derivatives')
-    print('model evals: driver evaluations; model solves: all solves of the model, '
-          'finite-difference steps included')
+    print(
+        f"optimiser success: analytic {exact['success']}, FD {fd['success']}; "
+        f"block fuel differs by {abs(fd['block_fuel'] / exact['block_fuel'] - 1):.1e} "
+        f"(relative); largest design difference "
+        f"{np.max(np.abs(fd['design'] - exact['design'])):.1e} of the bound range"
+    )
+    print(
+        'setup: build_problem (and the second setup for FD); optimise: run_model, '
+        'run_driver and the final evaluation; derivs: time in total derivatives'
+    )
+    print(
+        'model evals: driver evaluations; model solves: all solves of the model, '
+        'finite-difference steps included'
+    )
     if note:
         print(note)
 

@@ -30,26 +30,49 @@ class AftFanMassComp(PointwiseComponent):
         Add inputs and outputs.
         """
         n = self.options['vec_size']
-        self.add_input('fan_diameter', 2.0 * np.ones(n), units='m',
-                       desc='Fan tip diameter.')
-        self.add_input('fan_areal_mass', 150.0 * np.ones(n), units='kg/m**2',
-                       desc='Fan, casing and drive shaft mass per fan face area pi D^2/4.')
-        self.add_input('nacelle_wetted_area', 15.0 * np.ones(n), units='m**2',
-                       desc='Wetted area of the aft-fan nacelle.')
-        self.add_input('nacelle_areal_mass', 15.0 * np.ones(n), units='kg/m**2',
-                       desc='Nacelle mass per wetted area.')
-        self.add_input('structure_fraction', 0.2 * np.ones(n), units=None,
-                       desc='Extra tail-cone structure mass / (fan + nacelle mass).')
-        self.add_output('mass', 800.0 * np.ones(n), units='kg',
-                        desc='Mass of the aft fan installation.')
+        self.add_input('fan_diameter', 2.0 * np.ones(n), units='m', desc='Fan tip diameter.')
+        self.add_input(
+            'fan_areal_mass',
+            150.0 * np.ones(n),
+            units='kg/m**2',
+            desc='Fan, casing and drive shaft mass per fan face area pi D^2/4.',
+        )
+        self.add_input(
+            'nacelle_wetted_area',
+            15.0 * np.ones(n),
+            units='m**2',
+            desc='Wetted area of the aft-fan nacelle.',
+        )
+        self.add_input(
+            'nacelle_areal_mass',
+            15.0 * np.ones(n),
+            units='kg/m**2',
+            desc='Nacelle mass per wetted area.',
+        )
+        self.add_input(
+            'structure_fraction',
+            0.2 * np.ones(n),
+            units=None,
+            desc='Extra tail-cone structure mass / (fan + nacelle mass).',
+        )
+        self.add_output(
+            'mass', 800.0 * np.ones(n), units='kg', desc='Mass of the aft fan installation.'
+        )
 
     def setup_partials(self):
         """
         Declare the sparse (diagonal) partials.
         """
-        self.declare_diagonal_partials('mass', ['fan_diameter', 'fan_areal_mass',
-                                                'nacelle_wetted_area', 'nacelle_areal_mass',
-                                                'structure_fraction'])
+        self.declare_diagonal_partials(
+            'mass',
+            [
+                'fan_diameter',
+                'fan_areal_mass',
+                'nacelle_wetted_area',
+                'nacelle_areal_mass',
+                'structure_fraction',
+            ],
+        )
 
     def compute(self, inputs, outputs):
         """
@@ -63,8 +86,10 @@ class AftFanMassComp(PointwiseComponent):
             Unscaled, dimensional output variables read via outputs[key].
         """
         face_area = 0.25 * np.pi * inputs['fan_diameter'] ** 2
-        bare = (inputs['fan_areal_mass'] * face_area
-                + inputs['nacelle_areal_mass'] * inputs['nacelle_wetted_area'])
+        bare = (
+            inputs['fan_areal_mass'] * face_area
+            + inputs['nacelle_areal_mass'] * inputs['nacelle_wetted_area']
+        )
         outputs['mass'] = (1.0 + inputs['structure_fraction']) * bare
 
     def compute_partials(self, inputs, partials):
@@ -80,9 +105,11 @@ class AftFanMassComp(PointwiseComponent):
         """
         diam = inputs['fan_diameter']
         factor = 1.0 + inputs['structure_fraction']
-        face_area = 0.25 * np.pi * diam ** 2
-        bare = (inputs['fan_areal_mass'] * face_area
-                + inputs['nacelle_areal_mass'] * inputs['nacelle_wetted_area'])
+        face_area = 0.25 * np.pi * diam**2
+        bare = (
+            inputs['fan_areal_mass'] * face_area
+            + inputs['nacelle_areal_mass'] * inputs['nacelle_wetted_area']
+        )
         partials['mass', 'fan_diameter'] = factor * inputs['fan_areal_mass'] * 0.5 * np.pi * diam
         partials['mass', 'fan_areal_mass'] = factor * face_area
         partials['mass', 'nacelle_wetted_area'] = factor * inputs['nacelle_areal_mass']

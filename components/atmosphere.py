@@ -61,23 +61,22 @@ class AtmosphereComp(PointwiseComponent):
         Add the altitude input and the atmospheric state outputs.
         """
         n = self.options['vec_size']
-        self.add_input('altitude', np.full(n, 10668.0), units='m',
-                       desc='Geopotential altitude')
-        self.add_output('temperature', np.full(n, T0), units='K',
-                        desc='Static air temperature')
+        self.add_input('altitude', np.full(n, 10668.0), units='m', desc='Geopotential altitude')
+        self.add_output('temperature', np.full(n, T0), units='K', desc='Static air temperature')
         self.add_output('pressure', np.full(n, P0), units='Pa', desc='Static air pressure')
         self.add_output('density', np.full(n, 1.225), units='kg/m**3', desc='Air density')
-        self.add_output('speed_of_sound', np.full(n, 340.0), units='m/s',
-                        desc='Speed of sound')
-        self.add_output('viscosity', np.full(n, 1.8e-5), units='Pa*s',
-                        desc='Dynamic viscosity of air')
+        self.add_output('speed_of_sound', np.full(n, 340.0), units='m/s', desc='Speed of sound')
+        self.add_output(
+            'viscosity', np.full(n, 1.8e-5), units='Pa*s', desc='Dynamic viscosity of air'
+        )
 
     def setup_partials(self):
         """
         Declare the diagonal partials.
         """
         self.declare_diagonal_partials(
-            ['temperature', 'pressure', 'density', 'speed_of_sound', 'viscosity'], 'altitude')
+            ['temperature', 'pressure', 'density', 'speed_of_sound', 'viscosity'], 'altitude'
+        )
 
     def _temperature_pressure(self, altitude):
         """
@@ -99,7 +98,8 @@ class AtmosphereComp(PointwiseComponent):
         pressure = np.empty_like(altitude)
         pressure[low] = P0 * (temperature[low] / T0) ** _EXPONENT
         pressure[~low] = P_TROPOPAUSE * np.exp(
-            -G0 * (altitude[~low] - H_TROPOPAUSE) / (R_AIR * T_TROPOPAUSE))
+            -G0 * (altitude[~low] - H_TROPOPAUSE) / (R_AIR * T_TROPOPAUSE)
+        )
         return temperature, pressure, dT_dh
 
     def compute(self, inputs, outputs):
@@ -118,7 +118,7 @@ class AtmosphereComp(PointwiseComponent):
         outputs['pressure'] = pressure
         outputs['density'] = pressure / (R_AIR * temperature)
         outputs['speed_of_sound'] = np.sqrt(GAMMA * R_AIR * temperature)
-        outputs['viscosity'] = BETA_S * temperature ** 1.5 / (temperature + S_SUTHERLAND)
+        outputs['viscosity'] = BETA_S * temperature**1.5 / (temperature + S_SUTHERLAND)
 
     def compute_partials(self, inputs, partials):
         """
@@ -136,14 +136,14 @@ class AtmosphereComp(PointwiseComponent):
         # Hydrostatic equation holds in both layers: dp/dH = -rho g0.
         dp_dh = -density * G0
         sutherland = temperature + S_SUTHERLAND
-        dmu_dT = BETA_S * (1.5 * np.sqrt(temperature) * sutherland
-                           - temperature ** 1.5) / sutherland ** 2
+        dmu_dT = (
+            BETA_S * (1.5 * np.sqrt(temperature) * sutherland - temperature**1.5) / sutherland**2
+        )
 
         partials['temperature', 'altitude'] = dT_dh
         partials['pressure', 'altitude'] = dp_dh
         partials['density', 'altitude'] = (dp_dh - density * R_AIR * dT_dh) / (R_AIR * temperature)
-        partials['speed_of_sound', 'altitude'] = (
-            0.5 * np.sqrt(GAMMA * R_AIR / temperature) * dT_dh)
+        partials['speed_of_sound', 'altitude'] = 0.5 * np.sqrt(GAMMA * R_AIR / temperature) * dT_dh
         partials['viscosity', 'altitude'] = dmu_dT * dT_dh
 
 
@@ -172,19 +172,20 @@ class FlightConditionComp(PointwiseComponent):
         """
         n = self.options['vec_size']
         self.add_input('mach', np.full(n, 0.78), units=None, desc='Flight Mach number')
-        self.add_input('temperature', np.full(n, 218.8), units='K',
-                       desc='Static air temperature')
+        self.add_input('temperature', np.full(n, 218.8), units='K', desc='Static air temperature')
         self.add_input('pressure', np.full(n, 23842.0), units='Pa', desc='Static air pressure')
         self.add_input('density', np.full(n, 0.3796), units='kg/m**3', desc='Air density')
-        self.add_input('speed_of_sound', np.full(n, 296.5), units='m/s',
-                       desc='Speed of sound')
+        self.add_input('speed_of_sound', np.full(n, 296.5), units='m/s', desc='Speed of sound')
         self.add_output('true_airspeed', np.full(n, 230.0), units='m/s', desc='True airspeed')
-        self.add_output('dynamic_pressure', np.full(n, 1.0e4), units='Pa',
-                        desc='Dynamic pressure 0.5 rho V**2')
-        self.add_output('total_temperature', np.full(n, 245.0), units='K',
-                        desc='Isentropic total temperature')
-        self.add_output('total_pressure', np.full(n, 3.7e4), units='Pa',
-                        desc='Isentropic total pressure')
+        self.add_output(
+            'dynamic_pressure', np.full(n, 1.0e4), units='Pa', desc='Dynamic pressure 0.5 rho V**2'
+        )
+        self.add_output(
+            'total_temperature', np.full(n, 245.0), units='K', desc='Isentropic total temperature'
+        )
+        self.add_output(
+            'total_pressure', np.full(n, 3.7e4), units='Pa', desc='Isentropic total pressure'
+        )
 
     def setup_partials(self):
         """
@@ -208,9 +209,9 @@ class FlightConditionComp(PointwiseComponent):
         """
         mach = inputs['mach']
         speed = mach * inputs['speed_of_sound']
-        ratio = 1.0 + 0.5 * (GAMMA - 1.0) * mach ** 2
+        ratio = 1.0 + 0.5 * (GAMMA - 1.0) * mach**2
         outputs['true_airspeed'] = speed
-        outputs['dynamic_pressure'] = 0.5 * inputs['density'] * speed ** 2
+        outputs['dynamic_pressure'] = 0.5 * inputs['density'] * speed**2
         outputs['total_temperature'] = inputs['temperature'] * ratio
         outputs['total_pressure'] = inputs['pressure'] * ratio ** (GAMMA / (GAMMA - 1.0))
 
@@ -229,7 +230,7 @@ class FlightConditionComp(PointwiseComponent):
         sound = inputs['speed_of_sound']
         density = inputs['density']
         speed = mach * sound
-        ratio = 1.0 + 0.5 * (GAMMA - 1.0) * mach ** 2
+        ratio = 1.0 + 0.5 * (GAMMA - 1.0) * mach**2
         dratio_dmach = (GAMMA - 1.0) * mach
         exponent = GAMMA / (GAMMA - 1.0)
 
@@ -237,9 +238,10 @@ class FlightConditionComp(PointwiseComponent):
         partials['true_airspeed', 'speed_of_sound'] = mach
         partials['dynamic_pressure', 'mach'] = density * speed * sound
         partials['dynamic_pressure', 'speed_of_sound'] = density * speed * mach
-        partials['dynamic_pressure', 'density'] = 0.5 * speed ** 2
+        partials['dynamic_pressure', 'density'] = 0.5 * speed**2
         partials['total_temperature', 'mach'] = inputs['temperature'] * dratio_dmach
         partials['total_temperature', 'temperature'] = ratio
         partials['total_pressure', 'mach'] = (
-            inputs['pressure'] * exponent * ratio ** (exponent - 1.0) * dratio_dmach)
-        partials['total_pressure', 'pressure'] = ratio ** exponent
+            inputs['pressure'] * exponent * ratio ** (exponent - 1.0) * dratio_dmach
+        )
+        partials['total_pressure', 'pressure'] = ratio**exponent

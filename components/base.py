@@ -21,8 +21,13 @@ class PointwiseComponent(om.ExplicitComponent):
         """
         Declare options.
         """
-        self.options.declare('vec_size', types=int, default=1, lower=1,
-                             desc='Number of independent design points evaluated at once.')
+        self.options.declare(
+            'vec_size',
+            types=int,
+            default=1,
+            lower=1,
+            desc='Number of independent design points evaluated at once.',
+        )
 
     def declare_diagonal_partials(self, of, wrt):
         """

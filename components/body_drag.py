@@ -24,9 +24,8 @@ def _form_factor(shape, fineness):
         Form factor and d(form factor)/d(fineness).
     """
     if shape == 'fuselage':
-        return (1.0 + 60.0 / fineness ** 3 + fineness / 400.0,
-                -180.0 / fineness ** 4 + 1.0 / 400.0)
-    return 1.0 + 0.35 / fineness, -0.35 / fineness ** 2
+        return (1.0 + 60.0 / fineness**3 + fineness / 400.0, -180.0 / fineness**4 + 1.0 / 400.0)
+    return 1.0 + 0.35 / fineness, -0.35 / fineness**2
 
 
 def _wetted_area(shape, diameter, fineness):
@@ -50,16 +49,18 @@ def _wetted_area(shape, diameter, fineness):
     # pi D L = pi D**2 f, times a shape correction g(f).
     if shape == 'fuselage':
         taper = 1.0 - 2.0 / fineness
-        ends = 1.0 + 1.0 / fineness ** 2
+        ends = 1.0 + 1.0 / fineness**2
         shape_factor = taper ** (2.0 / 3.0) * ends
-        dshape_df = (2.0 / 3.0 * taper ** (-1.0 / 3.0) * 2.0 / fineness ** 2 * ends
-                     - taper ** (2.0 / 3.0) * 2.0 / fineness ** 3)
+        dshape_df = (
+            2.0 / 3.0 * taper ** (-1.0 / 3.0) * 2.0 / fineness**2 * ends
+            - taper ** (2.0 / 3.0) * 2.0 / fineness**3
+        )
     else:
         shape_factor = np.ones_like(fineness)
         dshape_df = np.zeros_like(fineness)
-    area = np.pi * diameter ** 2 * fineness * shape_factor
+    area = np.pi * diameter**2 * fineness * shape_factor
     darea_dd = 2.0 * area / diameter
-    darea_df = np.pi * diameter ** 2 * (shape_factor + fineness * dshape_df)
+    darea_df = np.pi * diameter**2 * (shape_factor + fineness * dshape_df)
     return area, darea_dd, darea_df
 
 
@@ -96,10 +97,15 @@ class BodyDragComp(PointwiseComponent):
         Declare options.
         """
         super().initialize()
-        self.options.declare('shape', default='fuselage', values=('fuselage', 'nacelle'),
-                             desc='Body type, selects the form factor and wetted-area model.')
-        self.options.declare('count', types=int, default=1, lower=1,
-                             desc='Number of identical bodies.')
+        self.options.declare(
+            'shape',
+            default='fuselage',
+            values=('fuselage', 'nacelle'),
+            desc='Body type, selects the form factor and wetted-area model.',
+        )
+        self.options.declare(
+            'count', types=int, default=1, lower=1, desc='Number of identical bodies.'
+        )
 
     def setup(self):
         """
@@ -107,26 +113,52 @@ class BodyDragComp(PointwiseComponent):
         """
         n = self.options['vec_size']
         fuselage = self.options['shape'] == 'fuselage'
-        self.add_input('diameter', np.full(n, 4.0 if fuselage else 2.0), units='m',
-                       desc='Maximum body diameter')
-        self.add_input('fineness_ratio', np.full(n, 10.0 if fuselage else 2.5), units=None,
-                       desc='Body length divided by maximum diameter')
+        self.add_input(
+            'diameter',
+            np.full(n, 4.0 if fuselage else 2.0),
+            units='m',
+            desc='Maximum body diameter',
+        )
+        self.add_input(
+            'fineness_ratio',
+            np.full(n, 10.0 if fuselage else 2.5),
+            units=None,
+            desc='Body length divided by maximum diameter',
+        )
         self.add_input('true_airspeed', np.full(n, 230.0), units='m/s', desc='True airspeed')
         self.add_input('density', np.full(n, 0.38), units='kg/m**3', desc='Air density')
-        self.add_input('viscosity', np.full(n, 1.43e-5), units='Pa*s',
-                       desc='Dynamic viscosity of air')
-        self.add_input('interference_factor', np.ones(n), units=None,
-                       desc='Interference factor Q on the body drag')
+        self.add_input(
+            'viscosity', np.full(n, 1.43e-5), units='Pa*s', desc='Dynamic viscosity of air'
+        )
+        self.add_input(
+            'interference_factor',
+            np.ones(n),
+            units=None,
+            desc='Interference factor Q on the body drag',
+        )
         self.add_output('length', np.full(n, 40.0), units='m', desc='Body length')
-        self.add_output('reynolds_number', np.full(n, 2.0e8), units=None,
-                        desc='Reynolds number on body length')
-        self.add_output('skin_friction_coefficient', np.full(n, 0.002), units=None,
-                        desc='Turbulent flat-plate skin friction coefficient')
+        self.add_output(
+            'reynolds_number', np.full(n, 2.0e8), units=None, desc='Reynolds number on body length'
+        )
+        self.add_output(
+            'skin_friction_coefficient',
+            np.full(n, 0.002),
+            units=None,
+            desc='Turbulent flat-plate skin friction coefficient',
+        )
         self.add_output('form_factor', np.full(n, 1.1), units=None, desc='Form factor')
-        self.add_output('wetted_area', np.full(n, 400.0), units='m**2',
-                        desc='Wetted area of all bodies together')
-        self.add_output('drag_area', np.full(n, 1.0), units='m**2',
-                        desc='Zero-lift drag area D/q of all bodies together')
+        self.add_output(
+            'wetted_area',
+            np.full(n, 400.0),
+            units='m**2',
+            desc='Wetted area of all bodies together',
+        )
+        self.add_output(
+            'drag_area',
+            np.full(n, 1.0),
+            units='m**2',
+            desc='Zero-lift drag area D/q of all bodies together',
+        )
 
     def setup_partials(self):
         """
@@ -135,8 +167,9 @@ class BodyDragComp(PointwiseComponent):
         flow = ['true_airspeed', 'density', 'viscosity']
         geometry = ['diameter', 'fineness_ratio']
         self.declare_diagonal_partials('length', geometry)
-        self.declare_diagonal_partials(['reynolds_number', 'skin_friction_coefficient'],
-                                       geometry + flow)
+        self.declare_diagonal_partials(
+            ['reynolds_number', 'skin_friction_coefficient'], geometry + flow
+        )
         self.declare_diagonal_partials('form_factor', 'fineness_ratio')
         self.declare_diagonal_partials('wetted_area', geometry)
         self.declare_diagonal_partials('drag_area', geometry + flow + ['interference_factor'])
@@ -167,8 +200,7 @@ class BodyDragComp(PointwiseComponent):
         outputs['skin_friction_coefficient'] = friction
         outputs['form_factor'] = form_factor
         outputs['wetted_area'] = count * area
-        outputs['drag_area'] = (count * friction * form_factor * inputs['interference_factor']
-                                * area)
+        outputs['drag_area'] = count * friction * form_factor * inputs['interference_factor'] * area
 
     def compute_partials(self, inputs, partials):
         """
@@ -193,7 +225,7 @@ class BodyDragComp(PointwiseComponent):
         length = fineness * diameter
         reynolds = density * speed * length / viscosity
         log_re = np.log10(reynolds)
-        friction = 0.455 / log_re ** 2.58
+        friction = 0.455 / log_re**2.58
         # d cf / d ln(Re); d ln(Re)/d x is 1/x for rho, V, D, f and -1/mu.
         dcf_dlnre = -2.58 * friction / (log_re * _LN10)
         form_factor, dff_df = _form_factor(shape, fineness)
@@ -202,9 +234,13 @@ class BodyDragComp(PointwiseComponent):
         partials['length', 'diameter'] = fineness
         partials['length', 'fineness_ratio'] = diameter
 
-        for name, value in [('diameter', diameter), ('fineness_ratio', fineness),
-                            ('true_airspeed', speed), ('density', density),
-                            ('viscosity', -viscosity)]:
+        for name, value in [
+            ('diameter', diameter),
+            ('fineness_ratio', fineness),
+            ('true_airspeed', speed),
+            ('density', density),
+            ('viscosity', -viscosity),
+        ]:
             partials['reynolds_number', name] = reynolds / value
             partials['skin_friction_coefficient', name] = dcf_dlnre / value
 
@@ -213,12 +249,18 @@ class BodyDragComp(PointwiseComponent):
         partials['wetted_area', 'fineness_ratio'] = count * darea_df
 
         scale = count * interference
-        for name, value in [('true_airspeed', speed), ('density', density),
-                            ('viscosity', -viscosity)]:
+        for name, value in [
+            ('true_airspeed', speed),
+            ('density', density),
+            ('viscosity', -viscosity),
+        ]:
             partials['drag_area', name] = scale * form_factor * area * dcf_dlnre / value
-        partials['drag_area', 'diameter'] = scale * form_factor * (
-            dcf_dlnre / diameter * area + friction * darea_dd)
+        partials['drag_area', 'diameter'] = (
+            scale * form_factor * (dcf_dlnre / diameter * area + friction * darea_dd)
+        )
         partials['drag_area', 'fineness_ratio'] = scale * (
-            dcf_dlnre / fineness * form_factor * area + friction * dff_df * area
-            + friction * form_factor * darea_df)
+            dcf_dlnre / fineness * form_factor * area
+            + friction * dff_df * area
+            + friction * form_factor * darea_df
+        )
         partials['drag_area', 'interference_factor'] = count * friction * form_factor * area

@@ -15,8 +15,13 @@ def _declare_profile_exponent(options):
     options : OptionsDictionary
         The component options.
     """
-    options.declare('profile_exponent', types=(int, float), default=7.0, lower=1.0,
-                    desc='Exponent n of the power-law velocity profile u/V = (y/delta)^(1/n).')
+    options.declare(
+        'profile_exponent',
+        types=(int, float),
+        default=7.0,
+        lower=1.0,
+        desc='Exponent n of the power-law velocity profile u/V = (y/delta)^(1/n).',
+    )
 
 
 def layer_flux_shapes(height, thickness, n):
@@ -66,11 +71,11 @@ def layer_flux_shapes(height, thickness, n):
         c_k = k / (n + k)
         b_k = (n + k) / n
         eta_in = np.where(inner, eta_s, 1.0)
-        f_in = sign * thickness * (n / (n + k)) * eta_in ** b_k
+        f_in = sign * thickness * (n / (n + k)) * eta_in**b_k
         f_out = height - c_k * thickness
         f.append(np.where(inner, f_in, f_out))
         df_dh.append(np.where(inner, eta_in ** (k / n), 1.0))
-        df_dthick.append(np.where(inner, -sign * c_k * eta_in ** b_k, -c_k))
+        df_dthick.append(np.where(inner, -sign * c_k * eta_in**b_k, -c_k))
     return f, df_dh, df_dthick
 
 
@@ -111,33 +116,60 @@ class FuselageBoundaryLayerComp(PointwiseComponent):
         Add inputs and outputs.
         """
         n = self.options['vec_size']
-        self.add_input('fuselage_drag', 8.0e3 * np.ones(n), units='N',
-                       desc='Drag of the fuselage whose boundary layer reaches the fan.')
-        self.add_input('density', 0.38 * np.ones(n), units='kg/m**3',
-                       desc='Free-stream density.')
-        self.add_input('true_airspeed', 230.0 * np.ones(n), units='m/s',
-                       desc='Free-stream velocity relative to the aircraft.')
-        self.add_input('fuselage_diameter', 4.0 * np.ones(n), units='m',
-                       desc='Maximum fuselage diameter.')
-        self.add_input('station_diameter_ratio', 0.6 * np.ones(n), units=None,
-                       desc='Fuselage diameter at the fan station / maximum fuselage diameter.')
+        self.add_input(
+            'fuselage_drag',
+            8.0e3 * np.ones(n),
+            units='N',
+            desc='Drag of the fuselage whose boundary layer reaches the fan.',
+        )
+        self.add_input('density', 0.38 * np.ones(n), units='kg/m**3', desc='Free-stream density.')
+        self.add_input(
+            'true_airspeed',
+            230.0 * np.ones(n),
+            units='m/s',
+            desc='Free-stream velocity relative to the aircraft.',
+        )
+        self.add_input(
+            'fuselage_diameter', 4.0 * np.ones(n), units='m', desc='Maximum fuselage diameter.'
+        )
+        self.add_input(
+            'station_diameter_ratio',
+            0.6 * np.ones(n),
+            units=None,
+            desc='Fuselage diameter at the fan station / maximum fuselage diameter.',
+        )
 
-        self.add_output('perimeter', 7.5 * np.ones(n), units='m',
-                        desc='Fuselage perimeter at the fan station.')
-        self.add_output('momentum_thickness', 0.05 * np.ones(n), units='m',
-                        desc='Momentum thickness of the boundary layer at the fan station.')
-        self.add_output('boundary_layer_thickness', 0.5 * np.ones(n), units='m',
-                        desc='Boundary layer thickness delta at the fan station.')
+        self.add_output(
+            'perimeter', 7.5 * np.ones(n), units='m', desc='Fuselage perimeter at the fan station.'
+        )
+        self.add_output(
+            'momentum_thickness',
+            0.05 * np.ones(n),
+            units='m',
+            desc='Momentum thickness of the boundary layer at the fan station.',
+        )
+        self.add_output(
+            'boundary_layer_thickness',
+            0.5 * np.ones(n),
+            units='m',
+            desc='Boundary layer thickness delta at the fan station.',
+        )
 
     def setup_partials(self):
         """
         Declare the sparse (diagonal) partials.
         """
-        self.declare_diagonal_partials('perimeter',
-                                       ['fuselage_diameter', 'station_diameter_ratio'])
-        self.declare_diagonal_partials(['momentum_thickness', 'boundary_layer_thickness'],
-                                       ['fuselage_drag', 'density', 'true_airspeed',
-                                        'fuselage_diameter', 'station_diameter_ratio'])
+        self.declare_diagonal_partials('perimeter', ['fuselage_diameter', 'station_diameter_ratio'])
+        self.declare_diagonal_partials(
+            ['momentum_thickness', 'boundary_layer_thickness'],
+            [
+                'fuselage_drag',
+                'density',
+                'true_airspeed',
+                'fuselage_diameter',
+                'station_diameter_ratio',
+            ],
+        )
 
     def _thickness_ratio(self):
         """
@@ -164,7 +196,8 @@ class FuselageBoundaryLayerComp(PointwiseComponent):
         """
         perimeter = np.pi * inputs['station_diameter_ratio'] * inputs['fuselage_diameter']
         theta = inputs['fuselage_drag'] / (
-            inputs['density'] * inputs['true_airspeed'] ** 2 * perimeter)
+            inputs['density'] * inputs['true_airspeed'] ** 2 * perimeter
+        )
         outputs['perimeter'] = perimeter
         outputs['momentum_thickness'] = theta
         outputs['boundary_layer_thickness'] = self._thickness_ratio() * theta
@@ -185,7 +218,7 @@ class FuselageBoundaryLayerComp(PointwiseComponent):
         speed = inputs['true_airspeed']
         diam = inputs['fuselage_diameter']
         ratio = inputs['station_diameter_ratio']
-        theta = drag / (rho * speed ** 2 * np.pi * ratio * diam)
+        theta = drag / (rho * speed**2 * np.pi * ratio * diam)
 
         partials['perimeter', 'fuselage_diameter'] = np.pi * ratio
         partials['perimeter', 'station_diameter_ratio'] = np.pi * diam
@@ -254,33 +287,75 @@ class IngestedFlowComp(PointwiseComponent):
         Add inputs and outputs.
         """
         n = self.options['vec_size']
-        self.add_input('capture_height', 0.3 * np.ones(n), units='m',
-                       desc='Height above the fuselage wall up to which the fan captures flow.')
-        self.add_input('boundary_layer_thickness', 0.5 * np.ones(n), units='m',
-                       desc='Boundary layer thickness delta at the fan station.')
-        self.add_input('perimeter', 7.5 * np.ones(n), units='m',
-                       desc='Fuselage perimeter at the fan station.')
-        self.add_input('density', 0.38 * np.ones(n), units='kg/m**3',
-                       desc='Free-stream density.')
-        self.add_input('true_airspeed', 230.0 * np.ones(n), units='m/s',
-                       desc='Free-stream velocity relative to the aircraft.')
-        self.add_input('static_pressure', 2.4e4 * np.ones(n), units='Pa',
-                       desc='Free-stream static pressure.')
-        self.add_input('total_temperature', 245.0 * np.ones(n), units='K',
-                       desc='Free-stream total temperature.')
+        self.add_input(
+            'capture_height',
+            0.3 * np.ones(n),
+            units='m',
+            desc='Height above the fuselage wall up to which the fan captures flow.',
+        )
+        self.add_input(
+            'boundary_layer_thickness',
+            0.5 * np.ones(n),
+            units='m',
+            desc='Boundary layer thickness delta at the fan station.',
+        )
+        self.add_input(
+            'perimeter', 7.5 * np.ones(n), units='m', desc='Fuselage perimeter at the fan station.'
+        )
+        self.add_input('density', 0.38 * np.ones(n), units='kg/m**3', desc='Free-stream density.')
+        self.add_input(
+            'true_airspeed',
+            230.0 * np.ones(n),
+            units='m/s',
+            desc='Free-stream velocity relative to the aircraft.',
+        )
+        self.add_input(
+            'static_pressure', 2.4e4 * np.ones(n), units='Pa', desc='Free-stream static pressure.'
+        )
+        self.add_input(
+            'total_temperature',
+            245.0 * np.ones(n),
+            units='K',
+            desc='Free-stream total temperature.',
+        )
 
-        self.add_output('captured_mass_flow', 100.0 * np.ones(n), units='kg/s',
-                        desc='Mass flow captured from the wall up to the capture height.')
-        self.add_output('ingested_momentum_flow', 2.0e4 * np.ones(n), units='N',
-                        desc='Momentum flow of the captured stream.')
-        self.add_output('ingested_kinetic_energy_flow', 2.0e6 * np.ones(n), units='W', ref=1e6,
-                        desc='Kinetic energy flow of the captured stream.')
-        self.add_output('ram_velocity', 200.0 * np.ones(n), units='m/s',
-                        desc='Momentum-averaged inflow velocity (sets the ram drag).')
-        self.add_output('energy_velocity', 200.0 * np.ones(n), units='m/s',
-                        desc='Kinetic-energy-averaged inflow velocity.')
-        self.add_output('inflow_total_pressure', 3.5e4 * np.ones(n), units='Pa',
-                        desc='Mixed-out total pressure of the captured stream.')
+        self.add_output(
+            'captured_mass_flow',
+            100.0 * np.ones(n),
+            units='kg/s',
+            desc='Mass flow captured from the wall up to the capture height.',
+        )
+        self.add_output(
+            'ingested_momentum_flow',
+            2.0e4 * np.ones(n),
+            units='N',
+            desc='Momentum flow of the captured stream.',
+        )
+        self.add_output(
+            'ingested_kinetic_energy_flow',
+            2.0e6 * np.ones(n),
+            units='W',
+            ref=1e6,
+            desc='Kinetic energy flow of the captured stream.',
+        )
+        self.add_output(
+            'ram_velocity',
+            200.0 * np.ones(n),
+            units='m/s',
+            desc='Momentum-averaged inflow velocity (sets the ram drag).',
+        )
+        self.add_output(
+            'energy_velocity',
+            200.0 * np.ones(n),
+            units='m/s',
+            desc='Kinetic-energy-averaged inflow velocity.',
+        )
+        self.add_output(
+            'inflow_total_pressure',
+            3.5e4 * np.ones(n),
+            units='Pa',
+            desc='Mixed-out total pressure of the captured stream.',
+        )
 
     def setup_partials(self):
         """
@@ -289,12 +364,15 @@ class IngestedFlowComp(PointwiseComponent):
         geometry = ['capture_height', 'boundary_layer_thickness']
         self.declare_diagonal_partials(
             ['captured_mass_flow', 'ingested_momentum_flow', 'ingested_kinetic_energy_flow'],
-            geometry + ['perimeter', 'density', 'true_airspeed'])
-        self.declare_diagonal_partials(['ram_velocity', 'energy_velocity'],
-                                       geometry + ['true_airspeed'])
-        self.declare_diagonal_partials('inflow_total_pressure',
-                                       geometry + ['true_airspeed', 'static_pressure',
-                                                   'total_temperature'])
+            geometry + ['perimeter', 'density', 'true_airspeed'],
+        )
+        self.declare_diagonal_partials(
+            ['ram_velocity', 'energy_velocity'], geometry + ['true_airspeed']
+        )
+        self.declare_diagonal_partials(
+            'inflow_total_pressure',
+            geometry + ['true_airspeed', 'static_pressure', 'total_temperature'],
+        )
 
     def compute(self, inputs, outputs):
         """
@@ -307,22 +385,25 @@ class IngestedFlowComp(PointwiseComponent):
         outputs : Vector
             Unscaled, dimensional output variables read via outputs[key].
         """
-        (f1, f2, f3), _, _ = layer_flux_shapes(inputs['capture_height'],
-                                               inputs['boundary_layer_thickness'],
-                                               self.options['profile_exponent'])
+        (f1, f2, f3), _, _ = layer_flux_shapes(
+            inputs['capture_height'],
+            inputs['boundary_layer_thickness'],
+            self.options['profile_exponent'],
+        )
         speed = inputs['true_airspeed']
         flux = inputs['perimeter'] * inputs['density'] * speed
         tt = inputs['total_temperature']
         ratio_e = f3 / f1
-        dyn_temp = speed ** 2 * ratio_e / (2.0 * CP_AIR)
+        dyn_temp = speed**2 * ratio_e / (2.0 * CP_AIR)
 
         outputs['captured_mass_flow'] = flux * f1
         outputs['ingested_momentum_flow'] = flux * speed * f2
-        outputs['ingested_kinetic_energy_flow'] = 0.5 * flux * speed ** 2 * f3
+        outputs['ingested_kinetic_energy_flow'] = 0.5 * flux * speed**2 * f3
         outputs['ram_velocity'] = speed * f2 / f1
         outputs['energy_velocity'] = speed * np.sqrt(ratio_e)
-        outputs['inflow_total_pressure'] = inputs['static_pressure'] * (
-            tt / (tt - dyn_temp)) ** (GAMMA / (GAMMA - 1.0))
+        outputs['inflow_total_pressure'] = inputs['static_pressure'] * (tt / (tt - dyn_temp)) ** (
+            GAMMA / (GAMMA - 1.0)
+        )
 
     def compute_partials(self, inputs, partials):
         """
@@ -335,9 +416,11 @@ class IngestedFlowComp(PointwiseComponent):
         partials : Jacobian
             Sub-jac components written to partials[output_name, input_name].
         """
-        (f1, f2, f3), df_dh, df_dd = layer_flux_shapes(inputs['capture_height'],
-                                                       inputs['boundary_layer_thickness'],
-                                                       self.options['profile_exponent'])
+        (f1, f2, f3), df_dh, df_dd = layer_flux_shapes(
+            inputs['capture_height'],
+            inputs['boundary_layer_thickness'],
+            self.options['profile_exponent'],
+        )
         perim = inputs['perimeter']
         rho = inputs['density']
         speed = inputs['true_airspeed']
@@ -348,16 +431,18 @@ class IngestedFlowComp(PointwiseComponent):
 
         ratio_e = f3 / f1
         sqrt_e = np.sqrt(ratio_e)
-        dyn_temp = speed ** 2 * ratio_e / (2.0 * CP_AIR)
+        dyn_temp = speed**2 * ratio_e / (2.0 * CP_AIR)
         t_static = tt - dyn_temp
         x_ratio = tt / t_static
         dpt_dx = p_static * expo * x_ratio ** (expo - 1.0)
-        dx_dq = tt / t_static ** 2
-        dq_dratio = speed ** 2 / (2.0 * CP_AIR)
+        dx_dq = tt / t_static**2
+        dq_dratio = speed**2 / (2.0 * CP_AIR)
 
-        flows = (('captured_mass_flow', 1.0, f1, 1),
-                 ('ingested_momentum_flow', 1.0, f2, 2),
-                 ('ingested_kinetic_energy_flow', 0.5, f3, 3))
+        flows = (
+            ('captured_mass_flow', 1.0, f1, 1),
+            ('ingested_momentum_flow', 1.0, f2, 2),
+            ('ingested_kinetic_energy_flow', 0.5, f3, 3),
+        )
         for name, coef, f_k, k in flows:
             scale = coef * flux * speed ** (k - 1)
             partials[name, 'capture_height'] = scale * df_dh[k - 1]
@@ -369,15 +454,15 @@ class IngestedFlowComp(PointwiseComponent):
         partials['ram_velocity', 'true_airspeed'] = f2 / f1
         partials['energy_velocity', 'true_airspeed'] = sqrt_e
         partials['inflow_total_pressure', 'true_airspeed'] = (
-            dpt_dx * dx_dq * speed * ratio_e / CP_AIR)
-        partials['inflow_total_pressure', 'static_pressure'] = x_ratio ** expo
-        partials['inflow_total_pressure', 'total_temperature'] = (
-            -dpt_dx * dyn_temp / t_static ** 2)
+            dpt_dx * dx_dq * speed * ratio_e / CP_AIR
+        )
+        partials['inflow_total_pressure', 'static_pressure'] = x_ratio**expo
+        partials['inflow_total_pressure', 'total_temperature'] = -dpt_dx * dyn_temp / t_static**2
 
         geometry = (('capture_height', df_dh), ('boundary_layer_thickness', df_dd))
         for name, d_f in geometry:
-            d_ratio_m = (d_f[1] * f1 - f2 * d_f[0]) / f1 ** 2
-            d_ratio_e = (d_f[2] * f1 - f3 * d_f[0]) / f1 ** 2
+            d_ratio_m = (d_f[1] * f1 - f2 * d_f[0]) / f1**2
+            d_ratio_e = (d_f[2] * f1 - f3 * d_f[0]) / f1**2
             partials['ram_velocity', name] = speed * d_ratio_m
             partials['energy_velocity', name] = speed * d_ratio_e / (2.0 * sqrt_e)
             partials['inflow_total_pressure', name] = dpt_dx * dx_dq * dq_dratio * d_ratio_e

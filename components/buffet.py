@@ -31,22 +31,34 @@ class BuffetMarginComp(PointwiseComponent):
         """
         n = self.options['vec_size']
         ones = np.ones(n)
-        self.add_input('lift_coefficient', 0.5 * ones, units=None,
-                       desc='Cruise lift coefficient')
-        self.add_input('buffet_lift_coefficient', 0.7 * ones, units=None,
-                       desc='Buffet-onset lift coefficient at the cruise Mach number')
-        self.add_input('buffet_margin_load_factor', 1.3 * ones, units=None,
-                       desc='Load factor to be reached before buffet onset')
-        self.add_output('buffet_margin', 0.0 * ones, units=None,
-                        desc='CL_buffet / (n CL) - 1 (>= 0 is feasible)')
+        self.add_input('lift_coefficient', 0.5 * ones, units=None, desc='Cruise lift coefficient')
+        self.add_input(
+            'buffet_lift_coefficient',
+            0.7 * ones,
+            units=None,
+            desc='Buffet-onset lift coefficient at the cruise Mach number',
+        )
+        self.add_input(
+            'buffet_margin_load_factor',
+            1.3 * ones,
+            units=None,
+            desc='Load factor to be reached before buffet onset',
+        )
+        self.add_output(
+            'buffet_margin',
+            0.0 * ones,
+            units=None,
+            desc='CL_buffet / (n CL) - 1 (>= 0 is feasible)',
+        )
 
     def setup_partials(self):
         """
         Declare the diagonal partials.
         """
-        self.declare_diagonal_partials('buffet_margin',
-                                       ['lift_coefficient', 'buffet_lift_coefficient',
-                                        'buffet_margin_load_factor'])
+        self.declare_diagonal_partials(
+            'buffet_margin',
+            ['lift_coefficient', 'buffet_lift_coefficient', 'buffet_margin_load_factor'],
+        )
 
     def compute(self, inputs, outputs):
         """
@@ -59,9 +71,11 @@ class BuffetMarginComp(PointwiseComponent):
         outputs : Vector
             Unscaled, dimensional output variables read via outputs[key].
         """
-        outputs['buffet_margin'] = (inputs['buffet_lift_coefficient']
-                                    / (inputs['buffet_margin_load_factor']
-                                       * inputs['lift_coefficient']) - 1.0)
+        outputs['buffet_margin'] = (
+            inputs['buffet_lift_coefficient']
+            / (inputs['buffet_margin_load_factor'] * inputs['lift_coefficient'])
+            - 1.0
+        )
 
     def compute_partials(self, inputs, partials):
         """

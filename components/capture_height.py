@@ -4,8 +4,9 @@ import numpy as np
 import openmdao.api as om
 
 
-def initial_capture_height(required_mass_flow, density, true_airspeed, perimeter,
-                           boundary_layer_thickness, n=7.0):
+def initial_capture_height(
+    required_mass_flow, density, true_airspeed, perimeter, boundary_layer_thickness, n=7.0
+):
     r"""
     Return the capture height that passes a given mass flow, by inverting the mass-flux formula.
 
@@ -95,31 +96,54 @@ class CaptureHeightComp(om.ImplicitComponent):
         """
         Declare options.
         """
-        self.options.declare('vec_size', types=int, default=1, lower=1,
-                             desc='Number of independent design points evaluated at once.')
-        self.options.declare('mass_flow_ref', types=(int, float), default=100.0,
-                             check_valid=_check_positive,
-                             desc='Reference mass flow (kg/s) that scales the residual.')
+        self.options.declare(
+            'vec_size',
+            types=int,
+            default=1,
+            lower=1,
+            desc='Number of independent design points evaluated at once.',
+        )
+        self.options.declare(
+            'mass_flow_ref',
+            types=(int, float),
+            default=100.0,
+            check_valid=_check_positive,
+            desc='Reference mass flow (kg/s) that scales the residual.',
+        )
 
     def setup(self):
         """
         Add inputs and outputs.
         """
         n = self.options['vec_size']
-        self.add_input('captured_mass_flow', 100.0 * np.ones(n), units='kg/s',
-                       desc='Mass flow captured from the boundary layer up to the height.')
-        self.add_input('required_mass_flow', 100.0 * np.ones(n), units='kg/s',
-                       desc='Mass flow the aft fan requires.')
-        self.add_output('capture_height', 0.3 * np.ones(n), units='m', lower=0.0,
-                        desc='Height above the fuselage wall up to which the fan captures flow.')
+        self.add_input(
+            'captured_mass_flow',
+            100.0 * np.ones(n),
+            units='kg/s',
+            desc='Mass flow captured from the boundary layer up to the height.',
+        )
+        self.add_input(
+            'required_mass_flow',
+            100.0 * np.ones(n),
+            units='kg/s',
+            desc='Mass flow the aft fan requires.',
+        )
+        self.add_output(
+            'capture_height',
+            0.3 * np.ones(n),
+            units='m',
+            lower=0.0,
+            desc='Height above the fuselage wall up to which the fan captures flow.',
+        )
 
     def setup_partials(self):
         """
         Declare the sparse (diagonal) partials.
         """
         idx = np.arange(self.options['vec_size'])
-        self.declare_partials('capture_height', ['captured_mass_flow', 'required_mass_flow'],
-                              rows=idx, cols=idx)
+        self.declare_partials(
+            'capture_height', ['captured_mass_flow', 'required_mass_flow'], rows=idx, cols=idx
+        )
 
     def apply_nonlinear(self, inputs, outputs, residuals):
         """

@@ -58,17 +58,26 @@ class ThrustLapseComp(PointwiseComponent):
         self.add_input('pressure', 23842.0 * ones, units='Pa', desc='Static air pressure')
         self.add_input('temperature', 218.8 * ones, units='K', desc='Static air temperature')
         self.add_input('mach', 0.78 * ones, units=None, desc='Flight Mach number')
-        self.add_input('throttle_ratio', ones, units=None,
-                       desc='Engine throttle ratio (theta_0 at the control break)')
-        self.add_output('thrust_lapse', 0.2 * ones, units=None,
-                        desc='Available thrust / sea-level static rated thrust')
+        self.add_input(
+            'throttle_ratio',
+            ones,
+            units=None,
+            desc='Engine throttle ratio (theta_0 at the control break)',
+        )
+        self.add_output(
+            'thrust_lapse',
+            0.2 * ones,
+            units=None,
+            desc='Available thrust / sea-level static rated thrust',
+        )
 
     def setup_partials(self):
         """
         Declare the diagonal partials.
         """
-        self.declare_diagonal_partials('thrust_lapse',
-                                       ['pressure', 'temperature', 'mach', 'throttle_ratio'])
+        self.declare_diagonal_partials(
+            'thrust_lapse', ['pressure', 'temperature', 'mach', 'throttle_ratio']
+        )
 
     def _terms(self, inputs):
         """
@@ -85,12 +94,13 @@ class ThrustLapseComp(PointwiseComponent):
             Ram factor 1 + 0.2 M**2, delta_0, theta_0, hot-branch mask, bracket term.
         """
         mach = inputs['mach']
-        ram = 1.0 + _HALF_GAMMA_MINUS_ONE * mach ** 2
-        delta0 = inputs['pressure'] / P0 * ram ** _GAMMA_EXPONENT
+        ram = 1.0 + _HALF_GAMMA_MINUS_ONE * mach**2
+        delta0 = inputs['pressure'] / P0 * ram**_GAMMA_EXPONENT
         theta0 = inputs['temperature'] / T0 * ram
         hot = theta0.real > inputs['throttle_ratio'].real
-        hot_term = np.where(hot, _HOT_COEFF * (theta0 - inputs['throttle_ratio'])
-                            / (_HOT_MACH_OFFSET + mach), 0.0)
+        hot_term = np.where(
+            hot, _HOT_COEFF * (theta0 - inputs['throttle_ratio']) / (_HOT_MACH_OFFSET + mach), 0.0
+        )
         bracket = 1.0 - _MACH_ROOT_COEFF * np.sqrt(mach) - hot_term
         return ram, delta0, theta0, hot, bracket
 
@@ -126,19 +136,22 @@ class ThrustLapseComp(PointwiseComponent):
         denom = _HOT_MACH_OFFSET + mach
 
         d_ram_d_mach = 2.0 * _HALF_GAMMA_MINUS_ONE * mach
-        d_delta0_d_mach = (pressure / P0 * _GAMMA_EXPONENT * ram ** (_GAMMA_EXPONENT - 1.0)
-                           * d_ram_d_mach)
+        d_delta0_d_mach = (
+            pressure / P0 * _GAMMA_EXPONENT * ram ** (_GAMMA_EXPONENT - 1.0) * d_ram_d_mach
+        )
         d_theta0_d_mach = temperature / T0 * d_ram_d_mach
         d_hot_d_mach = np.where(
-            hot, _HOT_COEFF * (d_theta0_d_mach * denom - (theta0 - inputs['throttle_ratio']))
-            / denom ** 2, 0.0)
+            hot,
+            _HOT_COEFF * (d_theta0_d_mach * denom - (theta0 - inputs['throttle_ratio'])) / denom**2,
+            0.0,
+        )
         d_bracket_d_mach = -0.5 * _MACH_ROOT_COEFF / np.sqrt(mach) - d_hot_d_mach
 
-        partials['thrust_lapse', 'pressure'] = ram ** _GAMMA_EXPONENT / P0 * bracket
+        partials['thrust_lapse', 'pressure'] = ram**_GAMMA_EXPONENT / P0 * bracket
         partials['thrust_lapse', 'temperature'] = np.where(
-            hot, -delta0 * _HOT_COEFF * ram / (T0 * denom), 0.0)
-        partials['thrust_lapse', 'throttle_ratio'] = np.where(
-            hot, delta0 * _HOT_COEFF / denom, 0.0)
+            hot, -delta0 * _HOT_COEFF * ram / (T0 * denom), 0.0
+        )
+        partials['thrust_lapse', 'throttle_ratio'] = np.where(hot, delta0 * _HOT_COEFF / denom, 0.0)
         partials['thrust_lapse', 'mach'] = d_delta0_d_mach * bracket + delta0 * d_bracket_d_mach
 
 
@@ -170,23 +183,49 @@ class TopOfClimbComp(PointwiseComponent):
         """
         n = self.options['vec_size']
         ones = np.ones(n)
-        self.add_input('rated_thrust', 170000.0 * ones, units='N',
-                       desc='Total installed sea-level static rated thrust')
-        self.add_input('thrust_lapse', 0.2 * ones, units=None,
-                       desc='Available thrust / sea-level static rated thrust at top of climb')
+        self.add_input(
+            'rated_thrust',
+            170000.0 * ones,
+            units='N',
+            desc='Total installed sea-level static rated thrust',
+        )
+        self.add_input(
+            'thrust_lapse',
+            0.2 * ones,
+            units=None,
+            desc='Available thrust / sea-level static rated thrust at top of climb',
+        )
         self.add_input('mass', 65000.0 * ones, units='kg', desc='Aircraft mass at top of climb')
-        self.add_input('lift_to_drag', 17.0 * ones, units=None,
-                       desc='Lift-to-drag ratio at top of climb')
-        self.add_input('true_airspeed', 230.0 * ones, units='m/s',
-                       desc='True airspeed at top of climb')
-        self.add_input('residual_climb_rate', 1.524 * ones, units='m/s',
-                       desc='Required rate of climb at top of climb')
-        self.add_output('available_thrust', 34000.0 * ones, units='N',
-                        desc='Total available thrust at top of climb')
-        self.add_output('required_thrust', 40000.0 * ones, units='N',
-                        desc='Thrust for steady climb at the residual rate of climb')
-        self.add_output('thrust_margin', 0.0 * ones, units=None,
-                        desc='Available / required thrust - 1 (>= 0 is feasible)')
+        self.add_input(
+            'lift_to_drag', 17.0 * ones, units=None, desc='Lift-to-drag ratio at top of climb'
+        )
+        self.add_input(
+            'true_airspeed', 230.0 * ones, units='m/s', desc='True airspeed at top of climb'
+        )
+        self.add_input(
+            'residual_climb_rate',
+            1.524 * ones,
+            units='m/s',
+            desc='Required rate of climb at top of climb',
+        )
+        self.add_output(
+            'available_thrust',
+            34000.0 * ones,
+            units='N',
+            desc='Total available thrust at top of climb',
+        )
+        self.add_output(
+            'required_thrust',
+            40000.0 * ones,
+            units='N',
+            desc='Thrust for steady climb at the residual rate of climb',
+        )
+        self.add_output(
+            'thrust_margin',
+            0.0 * ones,
+            units=None,
+            desc='Available / required thrust - 1 (>= 0 is feasible)',
+        )
 
     def setup_partials(self):
         """
@@ -195,8 +234,7 @@ class TopOfClimbComp(PointwiseComponent):
         self.declare_diagonal_partials('available_thrust', ['rated_thrust', 'thrust_lapse'])
         required = ['mass', 'lift_to_drag', 'true_airspeed', 'residual_climb_rate']
         self.declare_diagonal_partials('required_thrust', required)
-        self.declare_diagonal_partials('thrust_margin',
-                                       ['rated_thrust', 'thrust_lapse'] + required)
+        self.declare_diagonal_partials('thrust_margin', ['rated_thrust', 'thrust_lapse'] + required)
 
     def compute(self, inputs, outputs):
         """
@@ -211,8 +249,9 @@ class TopOfClimbComp(PointwiseComponent):
         """
         available = inputs['thrust_lapse'] * inputs['rated_thrust']
         weight = inputs['mass'] * G0
-        required = weight * (1.0 / inputs['lift_to_drag']
-                             + inputs['residual_climb_rate'] / inputs['true_airspeed'])
+        required = weight * (
+            1.0 / inputs['lift_to_drag'] + inputs['residual_climb_rate'] / inputs['true_airspeed']
+        )
         outputs['available_thrust'] = available
         outputs['required_thrust'] = required
         outputs['thrust_margin'] = available / required - 1.0
@@ -245,10 +284,10 @@ class TopOfClimbComp(PointwiseComponent):
 
         d_required = {
             'mass': required / mass,
-            'lift_to_drag': -weight / l_over_d ** 2,
-            'true_airspeed': -weight * climb_rate / speed ** 2,
+            'lift_to_drag': -weight / l_over_d**2,
+            'true_airspeed': -weight * climb_rate / speed**2,
             'residual_climb_rate': weight / speed,
         }
         for name, value in d_required.items():
             partials['required_thrust', name] = value
-            partials['thrust_margin', name] = -available / required ** 2 * value
+            partials['thrust_margin', name] = -available / required**2 * value

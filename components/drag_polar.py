@@ -36,37 +36,78 @@ class DragPolarComp(PointwiseComponent):
         Add inputs and outputs.
         """
         n = self.options['vec_size']
-        self.add_input('lift_coefficient', np.full(n, 0.5), units=None,
-                       desc='Lift coefficient on wing reference area')
+        self.add_input(
+            'lift_coefficient',
+            np.full(n, 0.5),
+            units=None,
+            desc='Lift coefficient on wing reference area',
+        )
         self.add_input('aspect_ratio', np.full(n, 9.5), units=None, desc='Wing aspect ratio')
-        self.add_input('oswald_efficiency', np.full(n, 0.8), units=None,
-                       desc='Oswald span efficiency factor')
-        self.add_input('wing_area', np.full(n, 120.0), units='m**2',
-                       desc='Wing reference area')
-        self.add_input('dynamic_pressure', np.full(n, 1.0e4), units='Pa',
-                       desc='Flight dynamic pressure')
-        self.add_input('cd0_other', np.full(n, 0.012), units=None,
-                       desc='Zero-lift drag coefficient of everything not given as a drag area')
-        self.add_input('fuselage_drag_area', np.full(n, 0.8), units='m**2',
-                       desc='Zero-lift drag area of the fuselage')
-        self.add_input('nacelle_drag_area', np.full(n, 0.2), units='m**2',
-                       desc='Zero-lift drag area of the under-wing nacelles')
-        self.add_input('aft_nacelle_drag_area', np.zeros(n), units='m**2',
-                       desc='Zero-lift drag area of the aft-fan nacelle')
-        self.add_input('extra_drag', np.zeros(n), units='N',
-                       desc='Drag force added outside the polar (e.g. heat exchangers)')
-        self.add_output('zero_lift_drag_coefficient', np.full(n, 0.02), units=None,
-                        desc='Zero-lift drag coefficient CD0')
-        self.add_output('induced_drag_coefficient', np.full(n, 0.01), units=None,
-                        desc='Induced (lift-dependent) drag coefficient')
-        self.add_output('drag_coefficient', np.full(n, 0.03), units=None,
-                        desc='Total drag coefficient of the polar')
-        self.add_output('drag', np.full(n, 3.6e4), units='N',
-                        desc='Total drag force including extra_drag')
-        self.add_output('lift_to_drag', np.full(n, 17.0), units=None,
-                        desc='Lift-to-drag ratio')
-        self.add_output('fuselage_drag', np.full(n, 8.0e3), units='N',
-                        desc='Zero-lift drag force of the fuselage')
+        self.add_input(
+            'oswald_efficiency', np.full(n, 0.8), units=None, desc='Oswald span efficiency factor'
+        )
+        self.add_input('wing_area', np.full(n, 120.0), units='m**2', desc='Wing reference area')
+        self.add_input(
+            'dynamic_pressure', np.full(n, 1.0e4), units='Pa', desc='Flight dynamic pressure'
+        )
+        self.add_input(
+            'cd0_other',
+            np.full(n, 0.012),
+            units=None,
+            desc='Zero-lift drag coefficient of everything not given as a drag area',
+        )
+        self.add_input(
+            'fuselage_drag_area',
+            np.full(n, 0.8),
+            units='m**2',
+            desc='Zero-lift drag area of the fuselage',
+        )
+        self.add_input(
+            'nacelle_drag_area',
+            np.full(n, 0.2),
+            units='m**2',
+            desc='Zero-lift drag area of the under-wing nacelles',
+        )
+        self.add_input(
+            'aft_nacelle_drag_area',
+            np.zeros(n),
+            units='m**2',
+            desc='Zero-lift drag area of the aft-fan nacelle',
+        )
+        self.add_input(
+            'extra_drag',
+            np.zeros(n),
+            units='N',
+            desc='Drag force added outside the polar (e.g. heat exchangers)',
+        )
+        self.add_output(
+            'zero_lift_drag_coefficient',
+            np.full(n, 0.02),
+            units=None,
+            desc='Zero-lift drag coefficient CD0',
+        )
+        self.add_output(
+            'induced_drag_coefficient',
+            np.full(n, 0.01),
+            units=None,
+            desc='Induced (lift-dependent) drag coefficient',
+        )
+        self.add_output(
+            'drag_coefficient',
+            np.full(n, 0.03),
+            units=None,
+            desc='Total drag coefficient of the polar',
+        )
+        self.add_output(
+            'drag', np.full(n, 3.6e4), units='N', desc='Total drag force including extra_drag'
+        )
+        self.add_output('lift_to_drag', np.full(n, 17.0), units=None, desc='Lift-to-drag ratio')
+        self.add_output(
+            'fuselage_drag',
+            np.full(n, 8.0e3),
+            units='N',
+            desc='Zero-lift drag force of the fuselage',
+        )
 
     def setup_partials(self):
         """
@@ -77,10 +118,10 @@ class DragPolarComp(PointwiseComponent):
         self.declare_diagonal_partials('zero_lift_drag_coefficient', zero_lift)
         self.declare_diagonal_partials('induced_drag_coefficient', induced)
         self.declare_diagonal_partials('drag_coefficient', zero_lift + induced)
-        self.declare_diagonal_partials(['drag', 'lift_to_drag'],
-                                       zero_lift + induced + ['dynamic_pressure', 'extra_drag'])
-        self.declare_diagonal_partials('fuselage_drag', ['dynamic_pressure',
-                                                         'fuselage_drag_area'])
+        self.declare_diagonal_partials(
+            ['drag', 'lift_to_drag'], zero_lift + induced + ['dynamic_pressure', 'extra_drag']
+        )
+        self.declare_diagonal_partials('fuselage_drag', ['dynamic_pressure', 'fuselage_drag_area'])
 
     def compute(self, inputs, outputs):
         """
@@ -98,8 +139,7 @@ class DragPolarComp(PointwiseComponent):
         lift_coefficient = inputs['lift_coefficient']
         body_area = sum(inputs[name] for name in _DRAG_AREAS)
         cd0 = inputs['cd0_other'] + body_area / area
-        cdi = lift_coefficient ** 2 / (np.pi * inputs['oswald_efficiency']
-                                       * inputs['aspect_ratio'])
+        cdi = lift_coefficient**2 / (np.pi * inputs['oswald_efficiency'] * inputs['aspect_ratio'])
         drag = q * area * (cd0 + cdi) + inputs['extra_drag']
 
         outputs['zero_lift_drag_coefficient'] = cd0
@@ -127,14 +167,14 @@ class DragPolarComp(PointwiseComponent):
         aspect_ratio = inputs['aspect_ratio']
         body_area = sum(inputs[name] for name in _DRAG_AREAS)
         cd0 = inputs['cd0_other'] + body_area / area
-        cdi = lift_coefficient ** 2 / (np.pi * efficiency * aspect_ratio)
+        cdi = lift_coefficient**2 / (np.pi * efficiency * aspect_ratio)
         drag = q * area * (cd0 + cdi) + inputs['extra_drag']
         lift = lift_coefficient * q * area
 
         # Partials of the drag coefficient (zero-lift plus induced parts).
         dcd = {
             'cd0_other': np.ones_like(area),
-            'wing_area': -body_area / area ** 2,
+            'wing_area': -body_area / area**2,
             'lift_coefficient': 2.0 * lift_coefficient / (np.pi * efficiency * aspect_ratio),
             'oswald_efficiency': -cdi / efficiency,
             'aspect_ratio': -cdi / aspect_ratio,
@@ -151,14 +191,16 @@ class DragPolarComp(PointwiseComponent):
         ddrag['wing_area'] = ddrag['wing_area'] + q * (cd0 + cdi)
         ddrag['dynamic_pressure'] = area * (cd0 + cdi)
         ddrag['extra_drag'] = np.ones_like(area)
-        dlift = {'lift_coefficient': q * area, 'dynamic_pressure': lift_coefficient * area,
-                 'wing_area': lift_coefficient * q}
+        dlift = {
+            'lift_coefficient': q * area,
+            'dynamic_pressure': lift_coefficient * area,
+            'wing_area': lift_coefficient * q,
+        }
         for name, value in ddrag.items():
             if name in dcd:
                 partials['drag_coefficient', name] = dcd[name]
             partials['drag', name] = value
-            partials['lift_to_drag', name] = (dlift.get(name, 0.0) * drag
-                                              - lift * value) / drag ** 2
+            partials['lift_to_drag', name] = (dlift.get(name, 0.0) * drag - lift * value) / drag**2
 
         partials['fuselage_drag', 'dynamic_pressure'] = inputs['fuselage_drag_area']
         partials['fuselage_drag', 'fuselage_drag_area'] = q

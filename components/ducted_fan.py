@@ -70,40 +70,63 @@ class DuctedFanComp(PointwiseComponent):
         n = self.options['vec_size']
         ones = np.ones(n)
 
-        self.add_input('net_thrust', 18000.0 * ones, units='N',
-                       desc='Net thrust of this fan')
-        self.add_input('inflow_total_temperature', 245.4 * ones, units='K',
-                       desc='Total temperature of the stream entering the fan')
-        self.add_input('inflow_total_pressure', 35600.0 * ones, units='Pa',
-                       desc='Total pressure of the stream entering the fan')
-        self.add_input('ram_velocity', 231.0 * ones, units='m/s',
-                       desc='Momentum-averaged inflow velocity (free-stream speed for a podded '
-                            'fan)')
-        self.add_input('ambient_pressure', 23842.0 * ones, units='Pa',
-                       desc='Static pressure to which the nozzle expands')
-        self.add_input('fan_pressure_ratio', 1.5 * ones, units=None,
-                       desc='Fan total pressure ratio')
-        self.add_input('fan_efficiency', 0.92 * ones, units=None,
-                       desc='Fan isentropic efficiency')
-        self.add_input('fan_face_mach', 0.65 * ones, units=None,
-                       desc='Axial Mach number at the fan face')
-        self.add_input('hub_to_tip_ratio', 0.3 * ones, units=None,
-                       desc='Fan hub-to-tip diameter ratio')
+        self.add_input('net_thrust', 18000.0 * ones, units='N', desc='Net thrust of this fan')
+        self.add_input(
+            'inflow_total_temperature',
+            245.4 * ones,
+            units='K',
+            desc='Total temperature of the stream entering the fan',
+        )
+        self.add_input(
+            'inflow_total_pressure',
+            35600.0 * ones,
+            units='Pa',
+            desc='Total pressure of the stream entering the fan',
+        )
+        self.add_input(
+            'ram_velocity',
+            231.0 * ones,
+            units='m/s',
+            desc='Momentum-averaged inflow velocity (free-stream speed for a podded fan)',
+        )
+        self.add_input(
+            'ambient_pressure',
+            23842.0 * ones,
+            units='Pa',
+            desc='Static pressure to which the nozzle expands',
+        )
+        self.add_input(
+            'fan_pressure_ratio', 1.5 * ones, units=None, desc='Fan total pressure ratio'
+        )
+        self.add_input('fan_efficiency', 0.92 * ones, units=None, desc='Fan isentropic efficiency')
+        self.add_input(
+            'fan_face_mach', 0.65 * ones, units=None, desc='Axial Mach number at the fan face'
+        )
+        self.add_input(
+            'hub_to_tip_ratio', 0.3 * ones, units=None, desc='Fan hub-to-tip diameter ratio'
+        )
 
-        self.add_output('jet_velocity', 340.0 * ones, units='m/s',
-                        desc='Velocity of the fully expanded jet')
-        self.add_output('specific_thrust', 110.0 * ones, units='m/s',
-                        desc='Net thrust per unit mass flow, V_jet - V_ram')
-        self.add_output('mass_flow', 160.0 * ones, units='kg/s',
-                        desc='Fan mass flow')
-        self.add_output('shaft_power', 5.0e6 * ones, units='W', ref=1e6,
-                        desc='Shaft power absorbed by the fan')
-        self.add_output('fan_diameter', 1.7 * ones, units='m',
-                        desc='Fan tip diameter')
-        self.add_output('fan_face_area', 2.0 * ones, units='m**2',
-                        desc='Fan-face annulus area')
-        self.add_output('fan_exit_total_temperature', 275.0 * ones, units='K',
-                        desc='Total temperature behind the fan')
+        self.add_output(
+            'jet_velocity', 340.0 * ones, units='m/s', desc='Velocity of the fully expanded jet'
+        )
+        self.add_output(
+            'specific_thrust',
+            110.0 * ones,
+            units='m/s',
+            desc='Net thrust per unit mass flow, V_jet - V_ram',
+        )
+        self.add_output('mass_flow', 160.0 * ones, units='kg/s', desc='Fan mass flow')
+        self.add_output(
+            'shaft_power', 5.0e6 * ones, units='W', ref=1e6, desc='Shaft power absorbed by the fan'
+        )
+        self.add_output('fan_diameter', 1.7 * ones, units='m', desc='Fan tip diameter')
+        self.add_output('fan_face_area', 2.0 * ones, units='m**2', desc='Fan-face annulus area')
+        self.add_output(
+            'fan_exit_total_temperature',
+            275.0 * ones,
+            units='K',
+            desc='Total temperature behind the fan',
+        )
 
     def setup_partials(self):
         """
@@ -117,8 +140,7 @@ class DuctedFanComp(PointwiseComponent):
         flow = jet + ['ram_velocity', 'net_thrust']
         self.declare_diagonal_partials(['mass_flow', 'shaft_power'], flow)
         self.declare_diagonal_partials('fan_face_area', flow + ['fan_face_mach'])
-        self.declare_diagonal_partials('fan_diameter',
-                                       flow + ['fan_face_mach', 'hub_to_tip_ratio'])
+        self.declare_diagonal_partials('fan_diameter', flow + ['fan_face_mach', 'hub_to_tip_ratio'])
 
     def _states(self, inputs):
         """
@@ -140,7 +162,7 @@ class DuctedFanComp(PointwiseComponent):
         fpr = inputs['fan_pressure_ratio']
         mach = inputs['fan_face_mach']
 
-        s['tau_s'] = fpr ** _K
+        s['tau_s'] = fpr**_K
         s['dt'] = tt_in * (s['tau_s'] - 1.0) / inputs['fan_efficiency']
         s['tt2'] = tt_in + s['dt']
         s['x'] = (inputs['ambient_pressure'] / (fpr * pt_in)) ** _K
@@ -148,8 +170,7 @@ class DuctedFanComp(PointwiseComponent):
         s['st'] = s['vj'] - inputs['ram_velocity']
         s['mdot'] = inputs['net_thrust'] / s['st']
         s['power'] = s['mdot'] * CP_AIR * s['dt']
-        s['mfp'] = (np.sqrt(GAMMA / R_AIR) * mach
-                    * (1.0 + 0.5 * (GAMMA - 1.0) * mach ** 2) ** (-_E))
+        s['mfp'] = np.sqrt(GAMMA / R_AIR) * mach * (1.0 + 0.5 * (GAMMA - 1.0) * mach**2) ** (-_E)
         s['area'] = s['mdot'] * np.sqrt(tt_in) / (pt_in * s['mfp'])
         s['diam'] = np.sqrt(4.0 * s['area'] / (np.pi * (1.0 - inputs['hub_to_tip_ratio'] ** 2)))
         return s
@@ -215,8 +236,13 @@ class DuctedFanComp(PointwiseComponent):
         a_tt2 = CP_AIR * (1.0 - s['x']) / s['vj']
         a_x = -CP_AIR * s['tt2'] / s['vj']
         d_vj = {}
-        for name in ('inflow_total_temperature', 'fan_pressure_ratio', 'fan_efficiency',
-                     'inflow_total_pressure', 'ambient_pressure'):
+        for name in (
+            'inflow_total_temperature',
+            'fan_pressure_ratio',
+            'fan_efficiency',
+            'inflow_total_pressure',
+            'ambient_pressure',
+        ):
             d_vj[name] = a_tt2 * d_tt2.get(name, zero) + a_x * d_x.get(name, zero)
 
         # Specific thrust, mass flow and shaft power.
@@ -224,22 +250,30 @@ class DuctedFanComp(PointwiseComponent):
         d_st['ram_velocity'] = -np.ones_like(tt_in)
         d_mdot = {name: -s['mdot'] / s['st'] * val for name, val in d_st.items()}
         d_mdot['net_thrust'] = 1.0 / s['st']
-        d_power = {name: CP_AIR * (s['dt'] * val + s['mdot'] * d_dt.get(name, zero))
-                   for name, val in d_mdot.items()}
+        d_power = {
+            name: CP_AIR * (s['dt'] * val + s['mdot'] * d_dt.get(name, zero))
+            for name, val in d_mdot.items()
+        }
 
         # Fan-face area A = mdot sqrt(Tt_in) / (pt_in mfp) and tip diameter.
         d_area = {name: s['area'] / s['mdot'] * val for name, val in d_mdot.items()}
         d_area['inflow_total_temperature'] += 0.5 * s['area'] / tt_in
         d_area['inflow_total_pressure'] -= s['area'] / pt_in
         dlnmfp_dmach = 1.0 / mach - _E * (GAMMA - 1.0) * mach / (
-            1.0 + 0.5 * (GAMMA - 1.0) * mach ** 2)
+            1.0 + 0.5 * (GAMMA - 1.0) * mach**2
+        )
         d_area['fan_face_mach'] = -s['area'] * dlnmfp_dmach
         d_diam = {name: 0.5 * s['diam'] / s['area'] * val for name, val in d_area.items()}
-        d_diam['hub_to_tip_ratio'] = s['diam'] * htr / (1.0 - htr ** 2)
+        d_diam['hub_to_tip_ratio'] = s['diam'] * htr / (1.0 - htr**2)
 
-        for out, derivs in (('fan_exit_total_temperature', d_tt2), ('jet_velocity', d_vj),
-                            ('specific_thrust', d_st), ('mass_flow', d_mdot),
-                            ('shaft_power', d_power), ('fan_face_area', d_area),
-                            ('fan_diameter', d_diam)):
+        for out, derivs in (
+            ('fan_exit_total_temperature', d_tt2),
+            ('jet_velocity', d_vj),
+            ('specific_thrust', d_st),
+            ('mass_flow', d_mdot),
+            ('shaft_power', d_power),
+            ('fan_face_area', d_area),
+            ('fan_diameter', d_diam),
+        ):
             for name, val in derivs.items():
                 partials[out, name] = val

@@ -36,21 +36,52 @@ class ElectricalDeviceComp(PointwiseComponent):
         Add inputs and outputs.
         """
         n = self.options['vec_size']
-        self.add_input('output_power', 1.0e6 * np.ones(n), units='W',
-                       desc='Power delivered by the device at cruise.')
-        self.add_input('efficiency', 0.98 * np.ones(n), units=None,
-                       desc='Device efficiency, output power / input power.')
-        self.add_input('specific_power', 10.0e3 * np.ones(n), units='W/kg',
-                       desc='Rated (delivered) power per unit device mass.')
-        self.add_input('sizing_factor', np.ones(n), units=None,
-                       desc='Rated power / cruise output power (>= 1).')
+        self.add_input(
+            'output_power',
+            1.0e6 * np.ones(n),
+            units='W',
+            desc='Power delivered by the device at cruise.',
+        )
+        self.add_input(
+            'efficiency',
+            0.98 * np.ones(n),
+            units=None,
+            desc='Device efficiency, output power / input power.',
+        )
+        self.add_input(
+            'specific_power',
+            10.0e3 * np.ones(n),
+            units='W/kg',
+            desc='Rated (delivered) power per unit device mass.',
+        )
+        self.add_input(
+            'sizing_factor',
+            np.ones(n),
+            units=None,
+            desc='Rated power / cruise output power (>= 1).',
+        )
 
-        self.add_output('input_power', 1.0e6 * np.ones(n), units='W', ref=1e6,
-                        desc='Power the device receives at cruise.')
-        self.add_output('loss', 1.0e4 * np.ones(n), units='W', ref=1e6,
-                        desc='Power dissipated as heat at cruise.')
-        self.add_output('rated_power', 1.0e6 * np.ones(n), units='W', ref=1e6,
-                        desc='Rated power the device delivers (shaft or electrical).')
+        self.add_output(
+            'input_power',
+            1.0e6 * np.ones(n),
+            units='W',
+            ref=1e6,
+            desc='Power the device receives at cruise.',
+        )
+        self.add_output(
+            'loss',
+            1.0e4 * np.ones(n),
+            units='W',
+            ref=1e6,
+            desc='Power dissipated as heat at cruise.',
+        )
+        self.add_output(
+            'rated_power',
+            1.0e6 * np.ones(n),
+            units='W',
+            ref=1e6,
+            desc='Rated power the device delivers (shaft or electrical).',
+        )
         self.add_output('mass', 100.0 * np.ones(n), units='kg', desc='Device mass.')
 
     def setup_partials(self):
@@ -59,8 +90,7 @@ class ElectricalDeviceComp(PointwiseComponent):
         """
         self.declare_diagonal_partials(['input_power', 'loss'], ['output_power', 'efficiency'])
         self.declare_diagonal_partials('rated_power', ['output_power', 'sizing_factor'])
-        self.declare_diagonal_partials('mass', ['output_power', 'sizing_factor',
-                                                'specific_power'])
+        self.declare_diagonal_partials('mass', ['output_power', 'sizing_factor', 'specific_power'])
 
     def compute(self, inputs, outputs):
         """
@@ -99,11 +129,11 @@ class ElectricalDeviceComp(PointwiseComponent):
         p_spec = inputs['specific_power']
 
         partials['input_power', 'output_power'] = 1.0 / eta
-        partials['input_power', 'efficiency'] = -p_out / eta ** 2
+        partials['input_power', 'efficiency'] = -p_out / eta**2
         partials['loss', 'output_power'] = 1.0 / eta - 1.0
-        partials['loss', 'efficiency'] = -p_out / eta ** 2
+        partials['loss', 'efficiency'] = -p_out / eta**2
         partials['rated_power', 'output_power'] = k_size
         partials['rated_power', 'sizing_factor'] = p_out
         partials['mass', 'output_power'] = k_size / p_spec
         partials['mass', 'sizing_factor'] = p_out / p_spec
-        partials['mass', 'specific_power'] = -k_size * p_out / p_spec ** 2
+        partials['mass', 'specific_power'] = -k_size * p_out / p_spec**2

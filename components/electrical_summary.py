@@ -30,10 +30,12 @@ class ElectricalSummaryComp(PointwiseComponent):
         Declare options.
         """
         super().initialize()
-        self.options.declare('devices', types=list,
-                             default=['generator', 'rectifier', 'cable', 'inverter', 'motor',
-                                      'thermal'],
-                             desc='Names of the mass items; each adds an input <device>_mass.')
+        self.options.declare(
+            'devices',
+            types=list,
+            default=['generator', 'rectifier', 'cable', 'inverter', 'motor', 'thermal'],
+            desc='Names of the mass items; each adds an input <device>_mass.',
+        )
 
     def setup(self):
         """
@@ -41,17 +43,32 @@ class ElectricalSummaryComp(PointwiseComponent):
         """
         n = self.options['vec_size']
         for device in self.options['devices']:
-            self.add_input(f'{device}_mass', np.zeros(n), units='kg',
-                           desc=f'Mass of the {device}.')
-        self.add_input('shaft_power_extracted', 1.0e6 * np.ones(n), units='W',
-                       desc='Shaft power taken from the turbofans (generator input power).')
-        self.add_input('aft_fan_shaft_power', 0.9e6 * np.ones(n), units='W',
-                       desc='Shaft power delivered to the aft fan (motor output power).')
+            self.add_input(f'{device}_mass', np.zeros(n), units='kg', desc=f'Mass of the {device}.')
+        self.add_input(
+            'shaft_power_extracted',
+            1.0e6 * np.ones(n),
+            units='W',
+            desc='Shaft power taken from the turbofans (generator input power).',
+        )
+        self.add_input(
+            'aft_fan_shaft_power',
+            0.9e6 * np.ones(n),
+            units='W',
+            desc='Shaft power delivered to the aft fan (motor output power).',
+        )
 
-        self.add_output('electrical_mass', np.zeros(n), units='kg',
-                        desc='Total mass of the electrical power chain.')
-        self.add_output('chain_efficiency', 0.9 * np.ones(n), units=None,
-                        desc='Aft-fan shaft power / extracted shaft power.')
+        self.add_output(
+            'electrical_mass',
+            np.zeros(n),
+            units='kg',
+            desc='Total mass of the electrical power chain.',
+        )
+        self.add_output(
+            'chain_efficiency',
+            0.9 * np.ones(n),
+            units=None,
+            desc='Aft-fan shaft power / extracted shaft power.',
+        )
 
     def setup_partials(self):
         """
@@ -59,10 +76,10 @@ class ElectricalSummaryComp(PointwiseComponent):
         """
         idx = np.arange(self.options['vec_size'])
         for device in self.options['devices']:
-            self.declare_partials('electrical_mass', f'{device}_mass', rows=idx, cols=idx,
-                                  val=1.0)
-        self.declare_diagonal_partials('chain_efficiency',
-                                       ['shaft_power_extracted', 'aft_fan_shaft_power'])
+            self.declare_partials('electrical_mass', f'{device}_mass', rows=idx, cols=idx, val=1.0)
+        self.declare_diagonal_partials(
+            'chain_efficiency', ['shaft_power_extracted', 'aft_fan_shaft_power']
+        )
 
     def compute(self, inputs, outputs):
         """
@@ -79,8 +96,9 @@ class ElectricalSummaryComp(PointwiseComponent):
         for device in self.options['devices']:
             total = total + inputs[f'{device}_mass']
         outputs['electrical_mass'] = total
-        outputs['chain_efficiency'] = (inputs['aft_fan_shaft_power']
-                                       / inputs['shaft_power_extracted'])
+        outputs['chain_efficiency'] = (
+            inputs['aft_fan_shaft_power'] / inputs['shaft_power_extracted']
+        )
 
     def compute_partials(self, inputs, partials):
         """
@@ -96,4 +114,5 @@ class ElectricalSummaryComp(PointwiseComponent):
         p_ext = inputs['shaft_power_extracted']
         partials['chain_efficiency', 'aft_fan_shaft_power'] = 1.0 / p_ext
         partials['chain_efficiency', 'shaft_power_extracted'] = (
-            -inputs['aft_fan_shaft_power'] / p_ext ** 2)
+            -inputs['aft_fan_shaft_power'] / p_ext**2
+        )

@@ -13,7 +13,7 @@ APPROACH_SPEED_FACTOR = 1.23
 _FOOT = 0.3048  # m
 _KNOT = 1852.0 / 3600.0  # m/s
 # Field length per squared approach speed: 0.3 ft per kt**2, expressed in m per (m/s)**2.
-LFL_PER_VAPP2 = 0.3 * _FOOT / _KNOT ** 2  # = 0.345509 s**2/m
+LFL_PER_VAPP2 = 0.3 * _FOOT / _KNOT**2  # = 0.345509 s**2/m
 
 
 class LandingComp(PointwiseComponent):
@@ -56,15 +56,25 @@ class LandingComp(PointwiseComponent):
         ones = np.ones(n)
         self.add_input('landing_mass', 60000.0 * ones, units='kg', desc='Landing mass')
         self.add_input('wing_area', 122.0 * ones, units='m**2', desc='Wing reference area')
-        self.add_input('max_lift_coefficient_landing', 2.7 * ones, units=None,
-                       desc='Maximum lift coefficient in landing configuration')
+        self.add_input(
+            'max_lift_coefficient_landing',
+            2.7 * ones,
+            units=None,
+            desc='Maximum lift coefficient in landing configuration',
+        )
         self.add_input('density', 1.225 * ones, units='kg/m**3', desc='Airfield air density')
-        self.add_output('stall_speed', 55.0 * ones, units='m/s',
-                        desc='1-g stall speed in landing configuration')
-        self.add_output('approach_speed', 68.0 * ones, units='m/s',
-                        desc='Reference landing (approach) speed, 1.23 V_stall')
-        self.add_output('landing_field_length', 1600.0 * ones, units='m',
-                        desc='FAR/CS-25 landing field length')
+        self.add_output(
+            'stall_speed', 55.0 * ones, units='m/s', desc='1-g stall speed in landing configuration'
+        )
+        self.add_output(
+            'approach_speed',
+            68.0 * ones,
+            units='m/s',
+            desc='Reference landing (approach) speed, 1.23 V_stall',
+        )
+        self.add_output(
+            'landing_field_length', 1600.0 * ones, units='m', desc='FAR/CS-25 landing field length'
+        )
 
     def setup_partials(self):
         """
@@ -72,7 +82,8 @@ class LandingComp(PointwiseComponent):
         """
         self.declare_diagonal_partials(
             ['stall_speed', 'approach_speed', 'landing_field_length'],
-            ['landing_mass', 'wing_area', 'max_lift_coefficient_landing', 'density'])
+            ['landing_mass', 'wing_area', 'max_lift_coefficient_landing', 'density'],
+        )
 
     def compute(self, inputs, outputs):
         """
@@ -85,13 +96,16 @@ class LandingComp(PointwiseComponent):
         outputs : Vector
             Unscaled, dimensional output variables read via outputs[key].
         """
-        stall_speed_sq = (2.0 * inputs['landing_mass'] * G0
-                          / (inputs['density'] * inputs['wing_area']
-                             * inputs['max_lift_coefficient_landing']))
+        stall_speed_sq = (
+            2.0
+            * inputs['landing_mass']
+            * G0
+            / (inputs['density'] * inputs['wing_area'] * inputs['max_lift_coefficient_landing'])
+        )
         approach_speed = APPROACH_SPEED_FACTOR * np.sqrt(stall_speed_sq)
         outputs['stall_speed'] = np.sqrt(stall_speed_sq)
         outputs['approach_speed'] = approach_speed
-        outputs['landing_field_length'] = LFL_PER_VAPP2 * approach_speed ** 2
+        outputs['landing_field_length'] = LFL_PER_VAPP2 * approach_speed**2
 
     def compute_partials(self, inputs, partials):
         """
@@ -110,13 +124,17 @@ class LandingComp(PointwiseComponent):
         density = inputs['density']
         stall_speed_sq = 2.0 * mass * G0 / (density * area * cl_max)
         stall_speed = np.sqrt(stall_speed_sq)
-        length = LFL_PER_VAPP2 * APPROACH_SPEED_FACTOR ** 2 * stall_speed_sq
+        length = LFL_PER_VAPP2 * APPROACH_SPEED_FACTOR**2 * stall_speed_sq
         # V_S**2 is proportional to m / (rho S CL): logarithmic derivative +1 or -1,
         # so V_S carries half of it and the field length all of it.
-        for name, value, sign in (('landing_mass', mass, 1.0), ('wing_area', area, -1.0),
-                                  ('max_lift_coefficient_landing', cl_max, -1.0),
-                                  ('density', density, -1.0)):
+        for name, value, sign in (
+            ('landing_mass', mass, 1.0),
+            ('wing_area', area, -1.0),
+            ('max_lift_coefficient_landing', cl_max, -1.0),
+            ('density', density, -1.0),
+        ):
             partials['stall_speed', name] = 0.5 * sign * stall_speed / value
-            partials['approach_speed', name] = (0.5 * sign * APPROACH_SPEED_FACTOR
-                                                * stall_speed / value)
+            partials['approach_speed', name] = (
+                0.5 * sign * APPROACH_SPEED_FACTOR * stall_speed / value
+            )
             partials['landing_field_length', name] = sign * length / value

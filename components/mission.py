@@ -6,9 +6,20 @@ from voltwake.components.base import PointwiseComponent
 
 G0 = 9.80665  # standard acceleration of gravity, m/s**2 (ISO 80000-3 / CGPM 1901)
 
-_INPUTS = ('mtow', 'range', 'lift_to_drag', 'overall_efficiency', 'fuel_heating_value',
-           'takeoff_fraction', 'climb_fraction', 'landing_fraction', 'diversion_range',
-           'hold_time', 'hold_speed', 'contingency_fraction')
+_INPUTS = (
+    'mtow',
+    'range',
+    'lift_to_drag',
+    'overall_efficiency',
+    'fuel_heating_value',
+    'takeoff_fraction',
+    'climb_fraction',
+    'landing_fraction',
+    'diversion_range',
+    'hold_time',
+    'hold_speed',
+    'contingency_fraction',
+)
 
 # inputs that the cruise fuel fraction depends on
 _CRUISE = ('range', 'lift_to_drag', 'overall_efficiency', 'fuel_heating_value')
@@ -67,12 +78,15 @@ class MissionFuelComp(PointwiseComponent):
         add_in('mtow', 70000.0, 'kg', 'Maximum take-off mass')
         add_in('range', 5.0e6, 'm', 'Design cruise range')
         add_in('lift_to_drag', 17.0, None, 'Cruise lift-to-drag ratio')
-        add_in('overall_efficiency', 0.35, None,
-               'Overall propulsive efficiency (thrust power over fuel power)')
+        add_in(
+            'overall_efficiency',
+            0.35,
+            None,
+            'Overall propulsive efficiency (thrust power over fuel power)',
+        )
         add_in('fuel_heating_value', 43.0e6, 'J/kg', 'Fuel lower heating value')
         # default fractions: transport jet values, Roskam Part I Table 2.1 (from memory)
-        add_in('takeoff_fraction', 0.975, None,
-               'Mass fraction for engine start, taxi and take-off')
+        add_in('takeoff_fraction', 0.975, None, 'Mass fraction for engine start, taxi and take-off')
         add_in('climb_fraction', 0.98, None, 'Mass fraction for climb')
         add_in('landing_fraction', 0.982, None, 'Mass fraction for descent, landing and taxi')
         add_in('diversion_range', 370400.0, 'm', 'Diversion cruise range')
@@ -80,28 +94,43 @@ class MissionFuelComp(PointwiseComponent):
         add_in('hold_speed', 130.0, 'm/s', 'True airspeed in the hold')
         add_in('contingency_fraction', 0.05, None, 'Contingency fuel as a fraction of trip fuel')
 
-        self.add_output('cruise_fuel_fraction', np.full(n, 0.9), units=None,
-                        desc='Cruise end-to-start mass ratio')
+        self.add_output(
+            'cruise_fuel_fraction',
+            np.full(n, 0.9),
+            units=None,
+            desc='Cruise end-to-start mass ratio',
+        )
         self.add_output('block_fuel', np.full(n, 10000.0), units='kg', desc='Trip fuel')
         self.add_output('reserve_fuel', np.full(n, 3000.0), units='kg', desc='Reserve fuel')
-        self.add_output('total_fuel', np.full(n, 13000.0), units='kg',
-                        desc='Trip plus reserve fuel')
-        self.add_output('mid_cruise_mass', np.full(n, 65000.0), units='kg',
-                        desc='Aircraft mass at mid-cruise')
-        self.add_output('landing_mass', np.full(n, 60000.0), units='kg',
-                        desc='Aircraft mass at landing after the trip')
-        self.add_output('block_energy', np.full(n, 4.3e11), units='J', ref=1e11,
-                        desc='Fuel energy of the trip fuel')
+        self.add_output(
+            'total_fuel', np.full(n, 13000.0), units='kg', desc='Trip plus reserve fuel'
+        )
+        self.add_output(
+            'mid_cruise_mass', np.full(n, 65000.0), units='kg', desc='Aircraft mass at mid-cruise'
+        )
+        self.add_output(
+            'landing_mass',
+            np.full(n, 60000.0),
+            units='kg',
+            desc='Aircraft mass at landing after the trip',
+        )
+        self.add_output(
+            'block_energy',
+            np.full(n, 4.3e11),
+            units='J',
+            ref=1e11,
+            desc='Fuel energy of the trip fuel',
+        )
 
     def setup_partials(self):
         """
         Declare the diagonal partials.
         """
         self.declare_diagonal_partials('cruise_fuel_fraction', list(_CRUISE))
-        self.declare_diagonal_partials(['block_fuel', 'landing_mass', 'block_energy'],
-                                       list(_TRIP))
-        self.declare_diagonal_partials('mid_cruise_mass', [name for name in _TRIP
-                                                           if name != 'landing_fraction'])
+        self.declare_diagonal_partials(['block_fuel', 'landing_mass', 'block_energy'], list(_TRIP))
+        self.declare_diagonal_partials(
+            'mid_cruise_mass', [name for name in _TRIP if name != 'landing_fraction']
+        )
         self.declare_diagonal_partials(['reserve_fuel', 'total_fuel'], list(_INPUTS))
 
     @staticmethod
@@ -119,8 +148,9 @@ class MissionFuelComp(PointwiseComponent):
         ndarray
             The exponent per metre, 1/m.
         """
-        return G0 / (inputs['overall_efficiency'] * inputs['fuel_heating_value']
-                     * inputs['lift_to_drag'])
+        return G0 / (
+            inputs['overall_efficiency'] * inputs['fuel_heating_value'] * inputs['lift_to_drag']
+        )
 
     def compute(self, inputs, outputs):
         """
@@ -141,13 +171,13 @@ class MissionFuelComp(PointwiseComponent):
 
         f_cr = np.exp(-a * inputs['range'])
         # diversion cruise times hold: exp(-a (R_div + t_h V_h))
-        f_div_hold = np.exp(-a * (inputs['diversion_range']
-                                  + inputs['hold_time'] * inputs['hold_speed']))
+        f_div_hold = np.exp(
+            -a * (inputs['diversion_range'] + inputs['hold_time'] * inputs['hold_speed'])
+        )
 
         m_land = m_to * f_to * f_cl * f_cr * f_ld
         m_trip = m_to - m_land
-        m_res = (inputs['contingency_fraction'] * m_trip
-                 + m_land * (1.0 - f_cl * f_ld * f_div_hold))
+        m_res = inputs['contingency_fraction'] * m_trip + m_land * (1.0 - f_cl * f_ld * f_div_hold)
 
         outputs['cruise_fuel_fraction'] = f_cr
         outputs['block_fuel'] = m_trip
@@ -191,30 +221,35 @@ class MissionFuelComp(PointwiseComponent):
         m_mid = m_to * f_to * f_cl * sqrt_cr
 
         # derivatives of the Breguet constant a
-        da = {'overall_efficiency': -a / eta,
-              'fuel_heating_value': -a / lhv,
-              'lift_to_drag': -a / l_d}
+        da = {
+            'overall_efficiency': -a / eta,
+            'fuel_heating_value': -a / lhv,
+            'lift_to_drag': -a / l_d,
+        }
 
         # d(f_cr)/dx and d(e_res)/dx
         d_fcr = {'range': -a * f_cr}
-        d_eres = {'diversion_range': -a * e_res,
-                  'hold_time': -a * v_h * e_res,
-                  'hold_speed': -a * t_h * e_res}
+        d_eres = {
+            'diversion_range': -a * e_res,
+            'hold_time': -a * v_h * e_res,
+            'hold_speed': -a * t_h * e_res,
+        }
         for name, da_dx in da.items():
             d_fcr[name] = -r_cr * f_cr * da_dx
             d_eres[name] = -s_res * e_res * da_dx
 
         # d(m_land)/dx
-        d_land = {'mtow': f_to * f_cl * f_cr * f_ld,
-                  'takeoff_fraction': m_to * f_cl * f_cr * f_ld,
-                  'climb_fraction': m_to * f_to * f_cr * f_ld,
-                  'landing_fraction': m_to * f_to * f_cl * f_cr}
+        d_land = {
+            'mtow': f_to * f_cl * f_cr * f_ld,
+            'takeoff_fraction': m_to * f_cl * f_cr * f_ld,
+            'climb_fraction': m_to * f_to * f_cr * f_ld,
+            'landing_fraction': m_to * f_to * f_cl * f_cr,
+        }
         for name, d in d_fcr.items():
             d_land[name] = m_to * f_to * f_cl * f_ld * d
 
         # d(q_res)/dx
-        d_q = {'climb_fraction': f_ld * e_res,
-               'landing_fraction': f_cl * e_res}
+        d_q = {'climb_fraction': f_ld * e_res, 'landing_fraction': f_cl * e_res}
         for name, d in d_eres.items():
             d_q[name] = f_cl * f_ld * d
 

@@ -28,12 +28,16 @@ class NacelleGeometryComp(PointwiseComponent):
         Add inputs and outputs.
         """
         n = self.options['vec_size']
-        self.add_input('fan_diameter', val=1.8 * np.ones(n), units='m',
-                       desc='Fan tip diameter')
-        self.add_input('diameter_ratio', val=1.25 * np.ones(n), units=None,
-                       desc='Nacelle maximum diameter / fan tip diameter')
-        self.add_output('nacelle_diameter', val=2.2 * np.ones(n), units='m',
-                        desc='Nacelle maximum diameter')
+        self.add_input('fan_diameter', val=1.8 * np.ones(n), units='m', desc='Fan tip diameter')
+        self.add_input(
+            'diameter_ratio',
+            val=1.25 * np.ones(n),
+            units=None,
+            desc='Nacelle maximum diameter / fan tip diameter',
+        )
+        self.add_output(
+            'nacelle_diameter', val=2.2 * np.ones(n), units='m', desc='Nacelle maximum diameter'
+        )
 
     def setup_partials(self):
         """

@@ -33,27 +33,37 @@ class OverallEfficiencyComp(PointwiseComponent):
         n = self.options['vec_size']
         ones = np.ones(n)
 
-        self.add_input('net_thrust', 36000.0 * ones, units='N',
-                       desc='Total net thrust of the aircraft')
-        self.add_input('true_airspeed', 231.0 * ones, units='m/s',
-                       desc='True airspeed')
-        self.add_input('fuel_flow', 0.54 * ones, units='kg/s',
-                       desc='Total fuel flow of the aircraft')
-        self.add_input('fuel_heating_value', 43.1e6 * ones, units='J/kg',
-                       desc='Lower heating value of the fuel')
+        self.add_input(
+            'net_thrust', 36000.0 * ones, units='N', desc='Total net thrust of the aircraft'
+        )
+        self.add_input('true_airspeed', 231.0 * ones, units='m/s', desc='True airspeed')
+        self.add_input(
+            'fuel_flow', 0.54 * ones, units='kg/s', desc='Total fuel flow of the aircraft'
+        )
+        self.add_input(
+            'fuel_heating_value',
+            43.1e6 * ones,
+            units='J/kg',
+            desc='Lower heating value of the fuel',
+        )
 
-        self.add_output('overall_efficiency', 0.36 * ones, units=None,
-                        desc='Thrust power / fuel power')
-        self.add_output('tsfc', 1.5e-5 * ones, units='kg/(N*s)',
-                        desc='Thrust-specific fuel consumption of the aircraft')
+        self.add_output(
+            'overall_efficiency', 0.36 * ones, units=None, desc='Thrust power / fuel power'
+        )
+        self.add_output(
+            'tsfc',
+            1.5e-5 * ones,
+            units='kg/(N*s)',
+            desc='Thrust-specific fuel consumption of the aircraft',
+        )
 
     def setup_partials(self):
         """
         Declare the diagonal partials.
         """
-        self.declare_diagonal_partials('overall_efficiency',
-                                       ['net_thrust', 'true_airspeed', 'fuel_flow',
-                                        'fuel_heating_value'])
+        self.declare_diagonal_partials(
+            'overall_efficiency', ['net_thrust', 'true_airspeed', 'fuel_flow', 'fuel_heating_value']
+        )
         self.declare_diagonal_partials('tsfc', ['net_thrust', 'fuel_flow'])
 
     def compute(self, inputs, outputs):
@@ -69,8 +79,9 @@ class OverallEfficiencyComp(PointwiseComponent):
         """
         thrust = inputs['net_thrust']
         fuel = inputs['fuel_flow']
-        outputs['overall_efficiency'] = (thrust * inputs['true_airspeed']
-                                         / (fuel * inputs['fuel_heating_value']))
+        outputs['overall_efficiency'] = (
+            thrust * inputs['true_airspeed'] / (fuel * inputs['fuel_heating_value'])
+        )
         outputs['tsfc'] = fuel / thrust
 
     def compute_partials(self, inputs, partials):
@@ -94,5 +105,5 @@ class OverallEfficiencyComp(PointwiseComponent):
         partials['overall_efficiency', 'true_airspeed'] = thrust / (fuel * lhv)
         partials['overall_efficiency', 'fuel_flow'] = -eta0 / fuel
         partials['overall_efficiency', 'fuel_heating_value'] = -eta0 / lhv
-        partials['tsfc', 'net_thrust'] = -fuel / thrust ** 2
+        partials['tsfc', 'net_thrust'] = -fuel / thrust**2
         partials['tsfc', 'fuel_flow'] = 1.0 / thrust

@@ -30,19 +30,32 @@ class PowerSavingComp(PointwiseComponent):
         Add inputs and outputs.
         """
         n = self.options['vec_size']
-        self.add_input('shaft_power', 1.8e6 * np.ones(n), units='W',
-                       desc='Shaft power of the fan with boundary-layer ingestion.')
-        self.add_input('reference_shaft_power', 2.0e6 * np.ones(n), units='W',
-                       desc='Shaft power of the same fan, same thrust, on free-stream inflow.')
-        self.add_output('power_saving_coefficient', 0.1 * np.ones(n), units=None,
-                        desc='1 - shaft power / reference shaft power.')
+        self.add_input(
+            'shaft_power',
+            1.8e6 * np.ones(n),
+            units='W',
+            desc='Shaft power of the fan with boundary-layer ingestion.',
+        )
+        self.add_input(
+            'reference_shaft_power',
+            2.0e6 * np.ones(n),
+            units='W',
+            desc='Shaft power of the same fan, same thrust, on free-stream inflow.',
+        )
+        self.add_output(
+            'power_saving_coefficient',
+            0.1 * np.ones(n),
+            units=None,
+            desc='1 - shaft power / reference shaft power.',
+        )
 
     def setup_partials(self):
         """
         Declare the sparse (diagonal) partials.
         """
-        self.declare_diagonal_partials('power_saving_coefficient',
-                                       ['shaft_power', 'reference_shaft_power'])
+        self.declare_diagonal_partials(
+            'power_saving_coefficient', ['shaft_power', 'reference_shaft_power']
+        )
 
     def compute(self, inputs, outputs):
         """
@@ -56,7 +69,8 @@ class PowerSavingComp(PointwiseComponent):
             Unscaled, dimensional output variables read via outputs[key].
         """
         outputs['power_saving_coefficient'] = (
-            1.0 - inputs['shaft_power'] / inputs['reference_shaft_power'])
+            1.0 - inputs['shaft_power'] / inputs['reference_shaft_power']
+        )
 
     def compute_partials(self, inputs, partials):
         """
@@ -72,4 +86,5 @@ class PowerSavingComp(PointwiseComponent):
         p_ref = inputs['reference_shaft_power']
         partials['power_saving_coefficient', 'shaft_power'] = -1.0 / p_ref
         partials['power_saving_coefficient', 'reference_shaft_power'] = (
-            inputs['shaft_power'] / p_ref ** 2)
+            inputs['shaft_power'] / p_ref**2
+        )

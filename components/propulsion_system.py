@@ -29,22 +29,34 @@ class PropulsionSystemComp(PointwiseComponent):
         Declare options.
         """
         super().initialize()
-        self.options.declare('num_engines', types=int, default=2, lower=1,
-                             desc='Number of under-wing turbofans')
+        self.options.declare(
+            'num_engines', types=int, default=2, lower=1, desc='Number of under-wing turbofans'
+        )
 
     def setup(self):
         """
         Add inputs and outputs.
         """
         n = self.options['vec_size']
-        self.add_input('engine_fuel_flow', val=0.3 * np.ones(n), units='kg/s',
-                       desc='Fuel flow of one turbofan')
-        self.add_input('shaft_power_extracted', val=np.zeros(n), units='W',
-                       desc='Shaft power taken off all turbofans for the generators')
-        self.add_output('fuel_flow', val=0.6 * np.ones(n), units='kg/s',
-                        desc='Fuel flow of the aircraft')
-        self.add_output('engine_power_extraction', val=np.zeros(n), units='W', ref=1e6,
-                        desc='Shaft power taken off each turbofan')
+        self.add_input(
+            'engine_fuel_flow', val=0.3 * np.ones(n), units='kg/s', desc='Fuel flow of one turbofan'
+        )
+        self.add_input(
+            'shaft_power_extracted',
+            val=np.zeros(n),
+            units='W',
+            desc='Shaft power taken off all turbofans for the generators',
+        )
+        self.add_output(
+            'fuel_flow', val=0.6 * np.ones(n), units='kg/s', desc='Fuel flow of the aircraft'
+        )
+        self.add_output(
+            'engine_power_extraction',
+            val=np.zeros(n),
+            units='W',
+            ref=1e6,
+            desc='Shaft power taken off each turbofan',
+        )
 
     def setup_partials(self):
         """
@@ -53,8 +65,9 @@ class PropulsionSystemComp(PointwiseComponent):
         idx = np.arange(self.options['vec_size'])
         count = float(self.options['num_engines'])
         self.declare_partials('fuel_flow', 'engine_fuel_flow', rows=idx, cols=idx, val=count)
-        self.declare_partials('engine_power_extraction', 'shaft_power_extracted',
-                              rows=idx, cols=idx, val=1.0 / count)
+        self.declare_partials(
+            'engine_power_extraction', 'shaft_power_extracted', rows=idx, cols=idx, val=1.0 / count
+        )
 
     def compute(self, inputs, outputs):
         """
@@ -95,32 +108,53 @@ class InstalledThrustComp(PointwiseComponent):
         Declare options.
         """
         super().initialize()
-        self.options.declare('num_engines', types=int, default=2, lower=1,
-                             desc='Number of under-wing turbofans')
+        self.options.declare(
+            'num_engines', types=int, default=2, lower=1, desc='Number of under-wing turbofans'
+        )
 
     def setup(self):
         """
         Add inputs and outputs.
         """
         n = self.options['vec_size']
-        self.add_input('turbofan_rated_thrust', val=9.0e4 * np.ones(n), units='N',
-                       desc='Rated sea-level static thrust of one turbofan')
-        self.add_input('aft_fan_thrust', val=np.zeros(n), units='N',
-                       desc='Aft-fan net thrust at cruise')
-        self.add_input('rated_to_cruise_thrust', val=5.0 * np.ones(n), units=None,
-                       desc='Rated sea-level static thrust / cruise thrust')
-        self.add_output('installed_thrust', val=1.8e5 * np.ones(n), units='N', ref=1e5,
-                        desc='Installed rated thrust of all propulsors')
+        self.add_input(
+            'turbofan_rated_thrust',
+            val=9.0e4 * np.ones(n),
+            units='N',
+            desc='Rated sea-level static thrust of one turbofan',
+        )
+        self.add_input(
+            'aft_fan_thrust', val=np.zeros(n), units='N', desc='Aft-fan net thrust at cruise'
+        )
+        self.add_input(
+            'rated_to_cruise_thrust',
+            val=5.0 * np.ones(n),
+            units=None,
+            desc='Rated sea-level static thrust / cruise thrust',
+        )
+        self.add_output(
+            'installed_thrust',
+            val=1.8e5 * np.ones(n),
+            units='N',
+            ref=1e5,
+            desc='Installed rated thrust of all propulsors',
+        )
 
     def setup_partials(self):
         """
         Declare diagonal partials.
         """
         idx = np.arange(self.options['vec_size'])
-        self.declare_partials('installed_thrust', 'turbofan_rated_thrust', rows=idx, cols=idx,
-                              val=float(self.options['num_engines']))
-        self.declare_diagonal_partials('installed_thrust',
-                                       ['aft_fan_thrust', 'rated_to_cruise_thrust'])
+        self.declare_partials(
+            'installed_thrust',
+            'turbofan_rated_thrust',
+            rows=idx,
+            cols=idx,
+            val=float(self.options['num_engines']),
+        )
+        self.declare_diagonal_partials(
+            'installed_thrust', ['aft_fan_thrust', 'rated_to_cruise_thrust']
+        )
 
     def compute(self, inputs, outputs):
         """
@@ -133,10 +167,10 @@ class InstalledThrustComp(PointwiseComponent):
         outputs : Vector
             Unscaled, dimensional output variables read via outputs[key].
         """
-        outputs['installed_thrust'] = (self.options['num_engines']
-                                       * inputs['turbofan_rated_thrust']
-                                       + inputs['rated_to_cruise_thrust']
-                                       * inputs['aft_fan_thrust'])
+        outputs['installed_thrust'] = (
+            self.options['num_engines'] * inputs['turbofan_rated_thrust']
+            + inputs['rated_to_cruise_thrust'] * inputs['aft_fan_thrust']
+        )
 
     def compute_partials(self, inputs, partials):
         """

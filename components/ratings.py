@@ -28,8 +28,12 @@ class RatingMarginComp(PointwiseComponent):
         Declare options.
         """
         super().initialize()
-        self.options.declare('units', types=(str, type(None)), default=None,
-                             desc='Units of both value and rating (None if dimensionless).')
+        self.options.declare(
+            'units',
+            types=(str, type(None)),
+            default=None,
+            desc='Units of both value and rating (None if dimensionless).',
+        )
 
     def setup(self):
         """
@@ -39,8 +43,9 @@ class RatingMarginComp(PointwiseComponent):
         units = self.options['units']
         self.add_input('value', 0.5 * np.ones(n), units=units, desc='Quantity to be limited')
         self.add_input('rating', np.ones(n), units=units, desc='Allowed (rated) value')
-        self.add_output('margin', 0.5 * np.ones(n), units=None,
-                        desc='1 - value / rating (>= 0 is feasible)')
+        self.add_output(
+            'margin', 0.5 * np.ones(n), units=None, desc='1 - value / rating (>= 0 is feasible)'
+        )
 
     def setup_partials(self):
         """
@@ -74,7 +79,7 @@ class RatingMarginComp(PointwiseComponent):
         """
         rating = inputs['rating']
         partials['margin', 'value'] = -1.0 / rating
-        partials['margin', 'rating'] = inputs['value'] / rating ** 2
+        partials['margin', 'rating'] = inputs['value'] / rating**2
 
 
 class DiameterLimitComp(PointwiseComponent):
@@ -101,20 +106,29 @@ class DiameterLimitComp(PointwiseComponent):
         n = self.options['vec_size']
         ones = np.ones(n)
         self.add_input('fan_diameter', 2.0 * ones, units='m', desc='Fan diameter')
-        self.add_input('fuselage_diameter', 4.0 * ones, units='m',
-                       desc='Fuselage (maximum) diameter')
-        self.add_input('max_diameter_ratio', ones, units=None,
-                       desc='Largest allowed fan diameter / fuselage diameter')
-        self.add_output('diameter_margin', 0.5 * ones, units=None,
-                        desc='1 - D_fan / (ratio D_fus) (>= 0 is feasible)')
+        self.add_input(
+            'fuselage_diameter', 4.0 * ones, units='m', desc='Fuselage (maximum) diameter'
+        )
+        self.add_input(
+            'max_diameter_ratio',
+            ones,
+            units=None,
+            desc='Largest allowed fan diameter / fuselage diameter',
+        )
+        self.add_output(
+            'diameter_margin',
+            0.5 * ones,
+            units=None,
+            desc='1 - D_fan / (ratio D_fus) (>= 0 is feasible)',
+        )
 
     def setup_partials(self):
         """
         Declare the diagonal partials.
         """
-        self.declare_diagonal_partials('diameter_margin',
-                                       ['fan_diameter', 'fuselage_diameter',
-                                        'max_diameter_ratio'])
+        self.declare_diagonal_partials(
+            'diameter_margin', ['fan_diameter', 'fuselage_diameter', 'max_diameter_ratio']
+        )
 
     def compute(self, inputs, outputs):
         """
@@ -128,7 +142,8 @@ class DiameterLimitComp(PointwiseComponent):
             Unscaled, dimensional output variables read via outputs[key].
         """
         outputs['diameter_margin'] = 1.0 - inputs['fan_diameter'] / (
-            inputs['max_diameter_ratio'] * inputs['fuselage_diameter'])
+            inputs['max_diameter_ratio'] * inputs['fuselage_diameter']
+        )
 
     def compute_partials(self, inputs, partials):
         """

@@ -7,7 +7,7 @@ from voltwake.components.base import PointwiseComponent
 
 # Exact unit definitions (international foot and pound-force, NIST SP 811).
 _FOOT = 0.3048  # m
-_LBF_PER_FT2 = 4.4482216152605 / _FOOT ** 2  # Pa, = 47.880259 Pa
+_LBF_PER_FT2 = 4.4482216152605 / _FOOT**2  # Pa, = 47.880259 Pa
 # Field length per unit take-off parameter: 37.5 ft per lbf/ft**2, expressed in m per Pa.
 TOFL_PER_TOP = 37.5 * _FOOT / _LBF_PER_FT2  # = 0.238721 m/Pa
 
@@ -56,28 +56,51 @@ class TakeoffFieldLengthComp(PointwiseComponent):
         ones = np.ones(n)
         self.add_input('mtow', 67000.0 * ones, units='kg', desc='Take-off mass')
         self.add_input('wing_area', 122.0 * ones, units='m**2', desc='Wing reference area')
-        self.add_input('takeoff_thrust', 170000.0 * ones, units='N',
-                       desc='Total installed sea-level static thrust at take-off')
-        self.add_input('max_lift_coefficient_takeoff', 2.2 * ones, units=None,
-                       desc='Maximum lift coefficient in take-off configuration')
-        self.add_input('density_ratio', ones, units=None,
-                       desc='Airfield air density / ISA sea-level density')
-        self.add_output('takeoff_field_length', 2000.0 * ones, units='m',
-                        desc='FAR/CS-25 take-off field length')
-        self.add_output('takeoff_parameter', 8000.0 * ones, units='N/m**2',
-                        desc='Take-off parameter (W/S) / (sigma CLmax_TO T/W)')
-        self.add_output('wing_loading', 5400.0 * ones, units='N/m**2',
-                        desc='Take-off weight / wing area')
-        self.add_output('thrust_to_weight', 0.26 * ones, units=None,
-                        desc='Take-off thrust / take-off weight')
+        self.add_input(
+            'takeoff_thrust',
+            170000.0 * ones,
+            units='N',
+            desc='Total installed sea-level static thrust at take-off',
+        )
+        self.add_input(
+            'max_lift_coefficient_takeoff',
+            2.2 * ones,
+            units=None,
+            desc='Maximum lift coefficient in take-off configuration',
+        )
+        self.add_input(
+            'density_ratio', ones, units=None, desc='Airfield air density / ISA sea-level density'
+        )
+        self.add_output(
+            'takeoff_field_length', 2000.0 * ones, units='m', desc='FAR/CS-25 take-off field length'
+        )
+        self.add_output(
+            'takeoff_parameter',
+            8000.0 * ones,
+            units='N/m**2',
+            desc='Take-off parameter (W/S) / (sigma CLmax_TO T/W)',
+        )
+        self.add_output(
+            'wing_loading', 5400.0 * ones, units='N/m**2', desc='Take-off weight / wing area'
+        )
+        self.add_output(
+            'thrust_to_weight', 0.26 * ones, units=None, desc='Take-off thrust / take-off weight'
+        )
 
     def setup_partials(self):
         """
         Declare the diagonal partials.
         """
-        self.declare_diagonal_partials(['takeoff_field_length', 'takeoff_parameter'],
-                                       ['mtow', 'wing_area', 'takeoff_thrust',
-                                        'max_lift_coefficient_takeoff', 'density_ratio'])
+        self.declare_diagonal_partials(
+            ['takeoff_field_length', 'takeoff_parameter'],
+            [
+                'mtow',
+                'wing_area',
+                'takeoff_thrust',
+                'max_lift_coefficient_takeoff',
+                'density_ratio',
+            ],
+        )
         self.declare_diagonal_partials('wing_loading', ['mtow', 'wing_area'])
         self.declare_diagonal_partials('thrust_to_weight', ['mtow', 'takeoff_thrust'])
 
@@ -95,8 +118,9 @@ class TakeoffFieldLengthComp(PointwiseComponent):
         weight = inputs['mtow'] * G0
         wing_loading = weight / inputs['wing_area']
         thrust_to_weight = inputs['takeoff_thrust'] / weight
-        top = wing_loading / (inputs['density_ratio'] * inputs['max_lift_coefficient_takeoff']
-                              * thrust_to_weight)
+        top = wing_loading / (
+            inputs['density_ratio'] * inputs['max_lift_coefficient_takeoff'] * thrust_to_weight
+        )
         outputs['wing_loading'] = wing_loading
         outputs['thrust_to_weight'] = thrust_to_weight
         outputs['takeoff_parameter'] = top
@@ -120,7 +144,7 @@ class TakeoffFieldLengthComp(PointwiseComponent):
         sigma = inputs['density_ratio']
         weight = mass * G0
         # TOP = W**2 / (S sigma CL T): logarithmic derivatives are 2, -1, -1, -1, -1.
-        top = weight ** 2 / (area * sigma * cl_max * thrust)
+        top = weight**2 / (area * sigma * cl_max * thrust)
         d_top = {
             'mtow': 2.0 * top / mass,
             'wing_area': -top / area,
@@ -133,6 +157,6 @@ class TakeoffFieldLengthComp(PointwiseComponent):
             partials['takeoff_field_length', name] = TOFL_PER_TOP * value
 
         partials['wing_loading', 'mtow'] = G0 / area
-        partials['wing_loading', 'wing_area'] = -weight / area ** 2
+        partials['wing_loading', 'wing_area'] = -weight / area**2
         partials['thrust_to_weight', 'takeoff_thrust'] = 1.0 / weight
         partials['thrust_to_weight', 'mtow'] = -thrust / (weight * mass)

@@ -32,9 +32,12 @@ class ThermalManagementComp(PointwiseComponent):
         Declare options.
         """
         super().initialize()
-        self.options.declare('sources', types=list,
-                             default=['generator', 'rectifier', 'cable', 'inverter', 'motor'],
-                             desc='Names of the heat sources; each adds an input <source>_loss.')
+        self.options.declare(
+            'sources',
+            types=list,
+            default=['generator', 'rectifier', 'cable', 'inverter', 'motor'],
+            desc='Names of the heat sources; each adds an input <source>_loss.',
+        )
 
     def setup(self):
         """
@@ -42,15 +45,22 @@ class ThermalManagementComp(PointwiseComponent):
         """
         n = self.options['vec_size']
         for source in self.options['sources']:
-            self.add_input(f'{source}_loss', np.zeros(n), units='W',
-                           desc=f'Cruise heat loss of the {source}.')
-        self.add_input('specific_mass', 1.0e-3 * np.ones(n), units='kg/W',
-                       desc='Thermal-management mass per unit heat load.')
-        self.add_input('drag_per_power', np.zeros(n), units='N/W',
-                       desc='Drag penalty per unit heat rejected.')
+            self.add_input(
+                f'{source}_loss', np.zeros(n), units='W', desc=f'Cruise heat loss of the {source}.'
+            )
+        self.add_input(
+            'specific_mass',
+            1.0e-3 * np.ones(n),
+            units='kg/W',
+            desc='Thermal-management mass per unit heat load.',
+        )
+        self.add_input(
+            'drag_per_power', np.zeros(n), units='N/W', desc='Drag penalty per unit heat rejected.'
+        )
 
-        self.add_output('heat_load', np.zeros(n), units='W', ref=1e6,
-                        desc='Total heat load at cruise.')
+        self.add_output(
+            'heat_load', np.zeros(n), units='W', ref=1e6, desc='Total heat load at cruise.'
+        )
         self.add_output('mass', np.zeros(n), units='kg', desc='Thermal-management system mass.')
         self.add_output('drag', np.zeros(n), units='N', desc='Drag penalty of heat rejection.')
 

@@ -27,8 +27,9 @@ class ThrustSplitComp(PointwiseComponent):
         Declare options.
         """
         super().initialize()
-        self.options.declare('num_engines', types=int, default=2, lower=1,
-                             desc='Number of under-wing turbofans.')
+        self.options.declare(
+            'num_engines', types=int, default=2, lower=1, desc='Number of under-wing turbofans.'
+        )
 
     def setup(self):
         """
@@ -37,22 +38,31 @@ class ThrustSplitComp(PointwiseComponent):
         n = self.options['vec_size']
         ones = np.ones(n)
 
-        self.add_input('drag', 40000.0 * ones, units='N',
-                       desc='Total airplane drag = required cruise net thrust')
-        self.add_input('aft_thrust_fraction', np.zeros(n), units=None,
-                       desc='Share of the net thrust produced by the aft fan')
+        self.add_input(
+            'drag',
+            40000.0 * ones,
+            units='N',
+            desc='Total airplane drag = required cruise net thrust',
+        )
+        self.add_input(
+            'aft_thrust_fraction',
+            np.zeros(n),
+            units=None,
+            desc='Share of the net thrust produced by the aft fan',
+        )
 
-        self.add_output('turbofan_thrust', 20000.0 * ones, units='N',
-                        desc='Net thrust per under-wing turbofan')
-        self.add_output('aft_fan_thrust', np.zeros(n), units='N',
-                        desc='Net thrust of the aft fan')
+        self.add_output(
+            'turbofan_thrust', 20000.0 * ones, units='N', desc='Net thrust per under-wing turbofan'
+        )
+        self.add_output('aft_fan_thrust', np.zeros(n), units='N', desc='Net thrust of the aft fan')
 
     def setup_partials(self):
         """
         Declare the diagonal partials.
         """
-        self.declare_diagonal_partials(['turbofan_thrust', 'aft_fan_thrust'],
-                                       ['drag', 'aft_thrust_fraction'])
+        self.declare_diagonal_partials(
+            ['turbofan_thrust', 'aft_fan_thrust'], ['drag', 'aft_thrust_fraction']
+        )
 
     def compute(self, inputs, outputs):
         """

@@ -37,28 +37,46 @@ class TurbofanCoreComp(PointwiseComponent):
         n = self.options['vec_size']
         ones = np.ones(n)
 
-        self.add_input('fan_shaft_power', 5.5e6 * ones, units='W',
-                       desc='Shaft power absorbed by the fan of this engine')
-        self.add_input('power_extraction', np.zeros(n), units='W',
-                       desc='Shaft power taken off the core for a generator')
-        self.add_input('thermal_efficiency', 0.47 * ones, units=None,
-                       desc='Core thermal efficiency: shaft power delivered / fuel power')
-        self.add_input('fuel_heating_value', 43.1e6 * ones, units='J/kg',
-                       desc='Lower heating value of the fuel')
-        self.add_input('net_thrust', 18000.0 * ones, units='N',
-                       desc="Net thrust of this engine's fan")
+        self.add_input(
+            'fan_shaft_power',
+            5.5e6 * ones,
+            units='W',
+            desc='Shaft power absorbed by the fan of this engine',
+        )
+        self.add_input(
+            'power_extraction',
+            np.zeros(n),
+            units='W',
+            desc='Shaft power taken off the core for a generator',
+        )
+        self.add_input(
+            'thermal_efficiency',
+            0.47 * ones,
+            units=None,
+            desc='Core thermal efficiency: shaft power delivered / fuel power',
+        )
+        self.add_input(
+            'fuel_heating_value',
+            43.1e6 * ones,
+            units='J/kg',
+            desc='Lower heating value of the fuel',
+        )
+        self.add_input(
+            'net_thrust', 18000.0 * ones, units='N', desc="Net thrust of this engine's fan"
+        )
 
-        self.add_output('fuel_flow', 0.27 * ones, units='kg/s',
-                        desc='Fuel mass flow of this engine')
-        self.add_output('tsfc', 1.5e-5 * ones, units='kg/(N*s)',
-                        desc='Thrust-specific fuel consumption')
+        self.add_output(
+            'fuel_flow', 0.27 * ones, units='kg/s', desc='Fuel mass flow of this engine'
+        )
+        self.add_output(
+            'tsfc', 1.5e-5 * ones, units='kg/(N*s)', desc='Thrust-specific fuel consumption'
+        )
 
     def setup_partials(self):
         """
         Declare the diagonal partials.
         """
-        wrt = ['fan_shaft_power', 'power_extraction', 'thermal_efficiency',
-               'fuel_heating_value']
+        wrt = ['fan_shaft_power', 'power_extraction', 'thermal_efficiency', 'fuel_heating_value']
         self.declare_diagonal_partials('fuel_flow', wrt)
         self.declare_diagonal_partials('tsfc', wrt + ['net_thrust'])
 
@@ -104,7 +122,7 @@ class TurbofanCoreComp(PointwiseComponent):
         for name, val in d_fuel.items():
             partials['fuel_flow', name] = val
             partials['tsfc', name] = val / thrust
-        partials['tsfc', 'net_thrust'] = -fuel / thrust ** 2
+        partials['tsfc', 'net_thrust'] = -fuel / thrust**2
 
 
 class EngineMassComp(PointwiseComponent):
@@ -133,8 +151,7 @@ class EngineMassComp(PointwiseComponent):
         Declare options.
         """
         super().initialize()
-        self.options.declare('count', types=int, default=2, lower=1,
-                             desc='Number of engines.')
+        self.options.declare('count', types=int, default=2, lower=1, desc='Number of engines.')
 
     def setup(self):
         """
@@ -143,29 +160,42 @@ class EngineMassComp(PointwiseComponent):
         n = self.options['vec_size']
         ones = np.ones(n)
 
-        self.add_input('cruise_thrust', 18000.0 * ones, units='N',
-                       desc='Cruise net thrust per engine')
-        self.add_input('rated_to_cruise_thrust', 4.5 * ones, units=None,
-                       desc='Rated sea-level static thrust / cruise thrust')
-        self.add_input('thrust_to_weight', 5.0 * ones, units=None,
-                       desc='Installed rated thrust / installed engine weight')
+        self.add_input(
+            'cruise_thrust', 18000.0 * ones, units='N', desc='Cruise net thrust per engine'
+        )
+        self.add_input(
+            'rated_to_cruise_thrust',
+            4.5 * ones,
+            units=None,
+            desc='Rated sea-level static thrust / cruise thrust',
+        )
+        self.add_input(
+            'thrust_to_weight',
+            5.0 * ones,
+            units=None,
+            desc='Installed rated thrust / installed engine weight',
+        )
 
-        self.add_output('rated_thrust', 81000.0 * ones, units='N',
-                        desc='Rated sea-level static thrust per engine')
-        self.add_output('engine_mass', 1650.0 * ones, units='kg',
-                        desc='Installed mass per engine')
-        self.add_output('total_engine_mass', 3300.0 * ones, units='kg',
-                        desc='Installed mass of all engines')
+        self.add_output(
+            'rated_thrust',
+            81000.0 * ones,
+            units='N',
+            desc='Rated sea-level static thrust per engine',
+        )
+        self.add_output('engine_mass', 1650.0 * ones, units='kg', desc='Installed mass per engine')
+        self.add_output(
+            'total_engine_mass', 3300.0 * ones, units='kg', desc='Installed mass of all engines'
+        )
 
     def setup_partials(self):
         """
         Declare the diagonal partials.
         """
-        self.declare_diagonal_partials('rated_thrust',
-                                       ['cruise_thrust', 'rated_to_cruise_thrust'])
-        self.declare_diagonal_partials(['engine_mass', 'total_engine_mass'],
-                                       ['cruise_thrust', 'rated_to_cruise_thrust',
-                                        'thrust_to_weight'])
+        self.declare_diagonal_partials('rated_thrust', ['cruise_thrust', 'rated_to_cruise_thrust'])
+        self.declare_diagonal_partials(
+            ['engine_mass', 'total_engine_mass'],
+            ['cruise_thrust', 'rated_to_cruise_thrust', 'thrust_to_weight'],
+        )
 
     def compute(self, inputs, outputs):
         """

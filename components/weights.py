@@ -32,21 +32,30 @@ class AirframeMassComp(PointwiseComponent):
         Add inputs and outputs.
         """
         n = self.options['vec_size']
-        self.add_input('mtow', np.full(n, 70000.0), units='kg',
-                       desc='Maximum take-off mass')
-        self.add_input('airframe_mass_coefficient', np.full(n, 0.5), units=None,
-                       desc='Regression coefficient c (multiplies the mass in kg)')
-        self.add_input('airframe_mass_exponent', np.full(n, 1.0), units=None,
-                       desc='Regression exponent k')
-        self.add_output('airframe_mass', np.full(n, 35000.0), units='kg',
-                        desc='Airframe empty mass, propulsion excluded')
+        self.add_input('mtow', np.full(n, 70000.0), units='kg', desc='Maximum take-off mass')
+        self.add_input(
+            'airframe_mass_coefficient',
+            np.full(n, 0.5),
+            units=None,
+            desc='Regression coefficient c (multiplies the mass in kg)',
+        )
+        self.add_input(
+            'airframe_mass_exponent', np.full(n, 1.0), units=None, desc='Regression exponent k'
+        )
+        self.add_output(
+            'airframe_mass',
+            np.full(n, 35000.0),
+            units='kg',
+            desc='Airframe empty mass, propulsion excluded',
+        )
 
     def setup_partials(self):
         """
         Declare the diagonal partials.
         """
-        self.declare_diagonal_partials('airframe_mass', ['mtow', 'airframe_mass_coefficient',
-                                                         'airframe_mass_exponent'])
+        self.declare_diagonal_partials(
+            'airframe_mass', ['mtow', 'airframe_mass_coefficient', 'airframe_mass_exponent']
+        )
 
     def compute(self, inputs, outputs):
         """
@@ -60,8 +69,9 @@ class AirframeMassComp(PointwiseComponent):
             Unscaled, dimensional output variables read via outputs[key].
         """
         m_to = inputs['mtow']
-        outputs['airframe_mass'] = (inputs['airframe_mass_coefficient']
-                                    * m_to ** inputs['airframe_mass_exponent'])
+        outputs['airframe_mass'] = (
+            inputs['airframe_mass_coefficient'] * m_to ** inputs['airframe_mass_exponent']
+        )
 
     def compute_partials(self, inputs, partials):
         """
@@ -77,7 +87,7 @@ class AirframeMassComp(PointwiseComponent):
         m_to = inputs['mtow']
         c = inputs['airframe_mass_coefficient']
         k = inputs['airframe_mass_exponent']
-        power = m_to ** k
+        power = m_to**k
         partials['airframe_mass', 'mtow'] = c * k * m_to ** (k - 1.0)
         partials['airframe_mass', 'airframe_mass_coefficient'] = power
         partials['airframe_mass', 'airframe_mass_exponent'] = c * power * np.log(m_to)
@@ -107,9 +117,13 @@ class MassBuildUpComp(PointwiseComponent):
         Declare options.
         """
         super().initialize()
-        self.options.declare('propulsion_items', types=(list, tuple), default=['engines'],
-                             desc='Names of the propulsion mass items; each adds an input '
-                                  '"<item>_mass" (kg) summed into "propulsion_mass".')
+        self.options.declare(
+            'propulsion_items',
+            types=(list, tuple),
+            default=['engines'],
+            desc='Names of the propulsion mass items; each adds an input '
+            '"<item>_mass" (kg) summed into "propulsion_mass".',
+        )
 
     def _item_inputs(self):
         """
@@ -123,9 +137,11 @@ class MassBuildUpComp(PointwiseComponent):
         names = [f'{item}_mass' for item in self.options['propulsion_items']]
         clashes = set(names) & {'airframe_mass', 'propulsion_mass'}
         if clashes or len(set(names)) != len(names):
-            raise ValueError(f'{self.msginfo}: propulsion_items must be unique and must not '
-                             f'clash with the other variables; got '
-                             f'{list(self.options["propulsion_items"])}.')
+            raise ValueError(
+                f'{self.msginfo}: propulsion_items must be unique and must not '
+                f'clash with the other variables; got '
+                f'{list(self.options["propulsion_items"])}.'
+            )
         return names
 
     def setup(self):
@@ -133,19 +149,29 @@ class MassBuildUpComp(PointwiseComponent):
         Add inputs and outputs.
         """
         n = self.options['vec_size']
-        self.add_input('airframe_mass', np.full(n, 35000.0), units='kg',
-                       desc='Airframe empty mass, propulsion excluded')
+        self.add_input(
+            'airframe_mass',
+            np.full(n, 35000.0),
+            units='kg',
+            desc='Airframe empty mass, propulsion excluded',
+        )
         for name in self._item_inputs():
-            self.add_input(name, np.full(n, 5000.0), units='kg',
-                           desc='Mass of a propulsion item')
+            self.add_input(name, np.full(n, 5000.0), units='kg', desc='Mass of a propulsion item')
         self.add_input('payload', np.full(n, 15000.0), units='kg', desc='Payload mass')
-        self.add_input('total_fuel', np.full(n, 15000.0), units='kg',
-                       desc='Total fuel mass (trip plus reserves)')
-        self.add_output('propulsion_mass', np.full(n, 5000.0), units='kg',
-                        desc='Sum of the propulsion item masses')
+        self.add_input(
+            'total_fuel',
+            np.full(n, 15000.0),
+            units='kg',
+            desc='Total fuel mass (trip plus reserves)',
+        )
+        self.add_output(
+            'propulsion_mass',
+            np.full(n, 5000.0),
+            units='kg',
+            desc='Sum of the propulsion item masses',
+        )
         self.add_output('oew', np.full(n, 40000.0), units='kg', desc='Operating empty mass')
-        self.add_output('mtow', np.full(n, 70000.0), units='kg',
-                        desc='Maximum take-off mass')
+        self.add_output('mtow', np.full(n, 70000.0), units='kg', desc='Maximum take-off mass')
 
     def setup_partials(self):
         """

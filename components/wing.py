@@ -29,8 +29,7 @@ class WingGeometryComp(PointwiseComponent):
         Add inputs and outputs.
         """
         n = self.options['vec_size']
-        self.add_input('wing_area', np.full(n, 120.0), units='m**2',
-                       desc='Wing reference area')
+        self.add_input('wing_area', np.full(n, 120.0), units='m**2', desc='Wing reference area')
         self.add_input('aspect_ratio', np.full(n, 9.5), units=None, desc='Wing aspect ratio')
         self.add_output('wingspan', np.full(n, 33.8), units='m', desc='Wing span')
 
@@ -91,21 +90,30 @@ class LiftCoefficientComp(PointwiseComponent):
         Add inputs and outputs.
         """
         n = self.options['vec_size']
-        self.add_input('mass', np.full(n, 6.0e4), units='kg',
-                       desc='Aircraft mass (its weight is the lift to be generated)')
-        self.add_input('dynamic_pressure', np.full(n, 1.0e4), units='Pa',
-                       desc='Flight dynamic pressure')
-        self.add_input('wing_area', np.full(n, 120.0), units='m**2',
-                       desc='Wing reference area')
-        self.add_output('lift_coefficient', np.full(n, 0.5), units=None,
-                        desc='Lift coefficient on wing reference area')
+        self.add_input(
+            'mass',
+            np.full(n, 6.0e4),
+            units='kg',
+            desc='Aircraft mass (its weight is the lift to be generated)',
+        )
+        self.add_input(
+            'dynamic_pressure', np.full(n, 1.0e4), units='Pa', desc='Flight dynamic pressure'
+        )
+        self.add_input('wing_area', np.full(n, 120.0), units='m**2', desc='Wing reference area')
+        self.add_output(
+            'lift_coefficient',
+            np.full(n, 0.5),
+            units=None,
+            desc='Lift coefficient on wing reference area',
+        )
 
     def setup_partials(self):
         """
         Declare the diagonal partials.
         """
-        self.declare_diagonal_partials('lift_coefficient',
-                                       ['mass', 'dynamic_pressure', 'wing_area'])
+        self.declare_diagonal_partials(
+            'lift_coefficient', ['mass', 'dynamic_pressure', 'wing_area']
+        )
 
     def compute(self, inputs, outputs):
         """
@@ -118,8 +126,9 @@ class LiftCoefficientComp(PointwiseComponent):
         outputs : Vector
             Unscaled, dimensional output variables read via outputs[key].
         """
-        outputs['lift_coefficient'] = G0 * inputs['mass'] / (
-            inputs['dynamic_pressure'] * inputs['wing_area'])
+        outputs['lift_coefficient'] = (
+            G0 * inputs['mass'] / (inputs['dynamic_pressure'] * inputs['wing_area'])
+        )
 
     def compute_partials(self, inputs, partials):
         """

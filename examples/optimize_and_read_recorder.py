@@ -12,7 +12,7 @@ import os
 import sys
 import tempfile
 
-os.environ.setdefault('OPENMDAO_REPORTS', '0')   # no OpenMDAO report files
+os.environ.setdefault('OPENMDAO_REPORTS', '0')  # no OpenMDAO report files
 
 import openmdao.api as om
 
@@ -51,8 +51,10 @@ def main(outdir=None):
     start = result.start['block_fuel_kg']
     if result.outputs:
         end = result.outputs['block_fuel_kg']
-        print(f'block fuel: {start:.1f} kg at the start, {end:.1f} kg at the optimum '
-              f'({100.0 * (end / start - 1.0):+.2f} %)')
+        print(
+            f'block fuel: {start:.1f} kg at the start, {end:.1f} kg at the optimum '
+            f'({100.0 * (end / start - 1.0):+.2f} %)'
+        )
 
     # 2. Read the case file back: one driver case per optimiser iteration.
     reader = om.CaseReader(case_file)

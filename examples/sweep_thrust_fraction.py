@@ -14,7 +14,7 @@ import os
 import sys
 import tempfile
 
-os.environ.setdefault('OPENMDAO_REPORTS', '0')   # no OpenMDAO report files
+os.environ.setdefault('OPENMDAO_REPORTS', '0')  # no OpenMDAO report files
 
 import numpy as np
 
@@ -46,13 +46,20 @@ def sweep(fractions=FRACTIONS):
     rows, failed = [], []
     for fraction in fractions:
         try:
-            res = voltwake.analyze(None, {'aft_fan.thrust_fraction': float(fraction)},
-                                   keep_problem=False)
-        except voltwake.NotClosedError as err:   # keep the reason and go on
+            res = voltwake.analyze(
+                None, {'aft_fan.thrust_fraction': float(fraction)}, keep_problem=False
+            )
+        except voltwake.NotClosedError as err:  # keep the reason and go on
             failed.append((float(fraction), err.message))
             continue
-        rows.append((float(fraction), res.power_saving_coefficient, res.block_fuel_kg,
-                     res.electrical_mass_kg))
+        rows.append(
+            (
+                float(fraction),
+                res.power_saving_coefficient,
+                res.block_fuel_kg,
+                res.electrical_mass_kg,
+            )
+        )
     return rows, failed
 
 
@@ -74,7 +81,8 @@ def plot(rows, path):
     """
     try:
         import matplotlib
-        matplotlib.use('Agg')   # no display needed
+
+        matplotlib.use('Agg')  # no display needed
         import matplotlib.pyplot as plt
     except ImportError:
         print('matplotlib is not installed: plot skipped (pip install matplotlib)')
@@ -111,8 +119,9 @@ def main(outdir=None):
     """
     outdir = outdir or tempfile.mkdtemp(prefix='voltwake_')
     os.makedirs(outdir, exist_ok=True)
-    print(f"{'thrust fraction':>15s}{'PSC':>10s}{'block fuel [kg]':>17s}"
-          f"{'electrical mass [kg]':>22s}")
+    print(
+        f"{'thrust fraction':>15s}{'PSC':>10s}{'block fuel [kg]':>17s}{'electrical mass [kg]':>22s}"
+    )
     rows, failed = sweep()
     for fraction, psc, fuel, elec in rows:
         print(f'{fraction:15.3f}{psc:10.4f}{fuel:17.1f}{elec:22.1f}')

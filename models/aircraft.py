@@ -39,14 +39,22 @@ from voltwake.models.solvers import PointwiseDirectSolver, SizingNewtonSolver
 #: Electrical devices from the aft-fan shaft back to the turbofan shafts.
 CHAIN = ('motor', 'inverter', 'cable', 'rectifier', 'generator')
 
-_FAN_OUTPUTS = ('jet_velocity', 'specific_thrust', 'mass_flow', 'shaft_power', 'fan_diameter',
-                'fan_face_area', 'fan_exit_total_temperature')
+_FAN_OUTPUTS = (
+    'jet_velocity',
+    'specific_thrust',
+    'mass_flow',
+    'shaft_power',
+    'fan_diameter',
+    'fan_face_area',
+    'fan_exit_total_temperature',
+)
 
 
 def _add(group, name, comp, inputs=(), outputs=()):
     """Add ``comp`` promoting the listed variables; a (local, promoted) pair renames one."""
-    return group.add_subsystem(name, comp, promotes_inputs=list(inputs),
-                               promotes_outputs=list(outputs))
+    return group.add_subsystem(
+        name, comp, promotes_inputs=list(inputs), promotes_outputs=list(outputs)
+    )
 
 
 def _prefixed(prefix, names):
@@ -67,8 +75,9 @@ class FlightConditionGroup(om.Group):
         """
         Declare options.
         """
-        self.options.declare('vec_size', types=int, default=1, lower=1,
-                             desc='Number of independent design points.')
+        self.options.declare(
+            'vec_size', types=int, default=1, lower=1, desc='Number of independent design points.'
+        )
 
     def setup(self):
         """
@@ -76,10 +85,14 @@ class FlightConditionGroup(om.Group):
         """
         n = self.options['vec_size']
         atmos = ['temperature', 'pressure', 'density', 'speed_of_sound']
-        _add(self, 'atmosphere', AtmosphereComp(vec_size=n), ['altitude'],
-             atmos + ['viscosity'])
-        _add(self, 'condition', FlightConditionComp(vec_size=n), ['mach'] + atmos,
-             ['true_airspeed', 'dynamic_pressure', 'total_temperature', 'total_pressure'])
+        _add(self, 'atmosphere', AtmosphereComp(vec_size=n), ['altitude'], atmos + ['viscosity'])
+        _add(
+            self,
+            'condition',
+            FlightConditionComp(vec_size=n),
+            ['mach'] + atmos,
+            ['true_airspeed', 'dynamic_pressure', 'total_temperature', 'total_pressure'],
+        )
 
 
 class AerodynamicsGroup(om.Group):
@@ -96,24 +109,47 @@ class AerodynamicsGroup(om.Group):
         """
         Declare options.
         """
-        self.options.declare('vec_size', types=int, default=1, lower=1,
-                             desc='Number of independent design points.')
+        self.options.declare(
+            'vec_size', types=int, default=1, lower=1, desc='Number of independent design points.'
+        )
 
     def setup(self):
         """
         Add the lift and drag components.
         """
         n = self.options['vec_size']
-        _add(self, 'lift', LiftCoefficientComp(vec_size=n),
-             [('mass', 'mid_cruise_mass'), 'dynamic_pressure', 'wing_area'],
-             ['lift_coefficient'])
-        _add(self, 'polar', DragPolarComp(vec_size=n),
-             ['lift_coefficient', 'aspect_ratio', 'oswald_efficiency', 'wing_area',
-              'dynamic_pressure', 'cd0_other', 'fuselage_drag_area',
-              ('nacelle_drag_area', 'turbofan_nacelle_drag_area'), 'aft_nacelle_drag_area',
-              ('extra_drag', 'thermal_drag')],
-             ['zero_lift_drag_coefficient', 'induced_drag_coefficient', 'drag_coefficient',
-              'drag', 'lift_to_drag', 'fuselage_drag'])
+        _add(
+            self,
+            'lift',
+            LiftCoefficientComp(vec_size=n),
+            [('mass', 'mid_cruise_mass'), 'dynamic_pressure', 'wing_area'],
+            ['lift_coefficient'],
+        )
+        _add(
+            self,
+            'polar',
+            DragPolarComp(vec_size=n),
+            [
+                'lift_coefficient',
+                'aspect_ratio',
+                'oswald_efficiency',
+                'wing_area',
+                'dynamic_pressure',
+                'cd0_other',
+                'fuselage_drag_area',
+                ('nacelle_drag_area', 'turbofan_nacelle_drag_area'),
+                'aft_nacelle_drag_area',
+                ('extra_drag', 'thermal_drag'),
+            ],
+            [
+                'zero_lift_drag_coefficient',
+                'induced_drag_coefficient',
+                'drag_coefficient',
+                'drag',
+                'lift_to_drag',
+                'fuselage_drag',
+            ],
+        )
 
 
 class TurbofanGroup(om.Group):
@@ -130,49 +166,100 @@ class TurbofanGroup(om.Group):
         """
         Declare options.
         """
-        self.options.declare('vec_size', types=int, default=1, lower=1,
-                             desc='Number of independent design points.')
-        self.options.declare('num_engines', types=int, default=2, lower=1,
-                             desc='Number of under-wing turbofans.')
+        self.options.declare(
+            'vec_size', types=int, default=1, lower=1, desc='Number of independent design points.'
+        )
+        self.options.declare(
+            'num_engines', types=int, default=2, lower=1, desc='Number of under-wing turbofans.'
+        )
 
     def setup(self):
         """
         Add the turbofan components.
         """
         n, count = self.options['vec_size'], self.options['num_engines']
-        _add(self, 'split', ThrustSplitComp(vec_size=n, num_engines=count),
-             ['drag', 'aft_thrust_fraction'], ['turbofan_thrust', 'aft_fan_thrust'])
-        _add(self, 'fan', DuctedFanComp(vec_size=n),
-             [('net_thrust', 'turbofan_thrust'),
-              ('inflow_total_temperature', 'total_temperature'),
-              ('inflow_total_pressure', 'total_pressure'), ('ram_velocity', 'true_airspeed'),
-              ('ambient_pressure', 'pressure')]
-             + _prefixed('turbofan', ['fan_pressure_ratio', 'fan_efficiency', 'fan_face_mach',
-                                      'hub_to_tip_ratio']),
-             _prefixed('turbofan', _FAN_OUTPUTS))
-        _add(self, 'nacelle', NacelleGeometryComp(vec_size=n),
-             [('fan_diameter', 'turbofan_fan_diameter'),
-              ('diameter_ratio', 'turbofan_nacelle_diameter_ratio')],
-             [('nacelle_diameter', 'turbofan_nacelle_diameter')])
-        _add(self, 'nacelle_drag', BodyDragComp(vec_size=n, shape='nacelle', count=count),
-             [('diameter', 'turbofan_nacelle_diameter'),
-              ('fineness_ratio', 'turbofan_nacelle_fineness_ratio'),
-              ('interference_factor', 'turbofan_nacelle_interference_factor'),
-              'true_airspeed', 'density', 'viscosity'],
-             _prefixed('turbofan_nacelle', ['length', 'reynolds_number',
-                                            'skin_friction_coefficient', 'form_factor',
-                                            'wetted_area', 'drag_area']))
-        _add(self, 'core', TurbofanCoreComp(vec_size=n),
-             [('fan_shaft_power', 'turbofan_shaft_power'),
-              ('power_extraction', 'engine_power_extraction'),
-              ('thermal_efficiency', 'core_thermal_efficiency'), 'fuel_heating_value',
-              ('net_thrust', 'turbofan_thrust')],
-             [('fuel_flow', 'engine_fuel_flow'), ('tsfc', 'turbofan_tsfc')])
-        _add(self, 'mass', EngineMassComp(vec_size=n, count=count),
-             [('cruise_thrust', 'turbofan_thrust'), 'rated_to_cruise_thrust',
-              'thrust_to_weight'],
-             [('rated_thrust', 'turbofan_rated_thrust'),
-              ('engine_mass', 'turbofan_engine_mass'), ('total_engine_mass', 'engines_mass')])
+        _add(
+            self,
+            'split',
+            ThrustSplitComp(vec_size=n, num_engines=count),
+            ['drag', 'aft_thrust_fraction'],
+            ['turbofan_thrust', 'aft_fan_thrust'],
+        )
+        _add(
+            self,
+            'fan',
+            DuctedFanComp(vec_size=n),
+            [
+                ('net_thrust', 'turbofan_thrust'),
+                ('inflow_total_temperature', 'total_temperature'),
+                ('inflow_total_pressure', 'total_pressure'),
+                ('ram_velocity', 'true_airspeed'),
+                ('ambient_pressure', 'pressure'),
+            ]
+            + _prefixed(
+                'turbofan',
+                ['fan_pressure_ratio', 'fan_efficiency', 'fan_face_mach', 'hub_to_tip_ratio'],
+            ),
+            _prefixed('turbofan', _FAN_OUTPUTS),
+        )
+        _add(
+            self,
+            'nacelle',
+            NacelleGeometryComp(vec_size=n),
+            [
+                ('fan_diameter', 'turbofan_fan_diameter'),
+                ('diameter_ratio', 'turbofan_nacelle_diameter_ratio'),
+            ],
+            [('nacelle_diameter', 'turbofan_nacelle_diameter')],
+        )
+        _add(
+            self,
+            'nacelle_drag',
+            BodyDragComp(vec_size=n, shape='nacelle', count=count),
+            [
+                ('diameter', 'turbofan_nacelle_diameter'),
+                ('fineness_ratio', 'turbofan_nacelle_fineness_ratio'),
+                ('interference_factor', 'turbofan_nacelle_interference_factor'),
+                'true_airspeed',
+                'density',
+                'viscosity',
+            ],
+            _prefixed(
+                'turbofan_nacelle',
+                [
+                    'length',
+                    'reynolds_number',
+                    'skin_friction_coefficient',
+                    'form_factor',
+                    'wetted_area',
+                    'drag_area',
+                ],
+            ),
+        )
+        _add(
+            self,
+            'core',
+            TurbofanCoreComp(vec_size=n),
+            [
+                ('fan_shaft_power', 'turbofan_shaft_power'),
+                ('power_extraction', 'engine_power_extraction'),
+                ('thermal_efficiency', 'core_thermal_efficiency'),
+                'fuel_heating_value',
+                ('net_thrust', 'turbofan_thrust'),
+            ],
+            [('fuel_flow', 'engine_fuel_flow'), ('tsfc', 'turbofan_tsfc')],
+        )
+        _add(
+            self,
+            'mass',
+            EngineMassComp(vec_size=n, count=count),
+            [('cruise_thrust', 'turbofan_thrust'), 'rated_to_cruise_thrust', 'thrust_to_weight'],
+            [
+                ('rated_thrust', 'turbofan_rated_thrust'),
+                ('engine_mass', 'turbofan_engine_mass'),
+                ('total_engine_mass', 'engines_mass'),
+            ],
+        )
 
 
 class AftFanGroup(om.Group):
@@ -189,10 +276,15 @@ class AftFanGroup(om.Group):
         """
         Declare options.
         """
-        self.options.declare('vec_size', types=int, default=1, lower=1,
-                             desc='Number of independent design points.')
-        self.options.declare('profile_exponent', types=(int, float), default=7.0,
-                             desc='Exponent n of the power-law boundary-layer profile.')
+        self.options.declare(
+            'vec_size', types=int, default=1, lower=1, desc='Number of independent design points.'
+        )
+        self.options.declare(
+            'profile_exponent',
+            types=(int, float),
+            default=7.0,
+            desc='Exponent n of the power-law boundary-layer profile.',
+        )
 
     def setup(self):
         """
@@ -200,57 +292,135 @@ class AftFanGroup(om.Group):
         """
         n, expo = self.options['vec_size'], self.options['profile_exponent']
         fan_settings = _prefixed('aft', ['fan_pressure_ratio']) + [
-            ('fan_efficiency', 'aft_fan_efficiency'), ('fan_face_mach', 'aft_fan_face_mach'),
-            ('hub_to_tip_ratio', 'aft_fan_hub_to_tip_ratio')]
-        _add(self, 'boundary_layer', FuselageBoundaryLayerComp(vec_size=n, profile_exponent=expo),
-             ['fuselage_drag', 'density', 'true_airspeed', 'fuselage_diameter',
-              'station_diameter_ratio'],
-             [('perimeter', 'fan_station_perimeter'), 'momentum_thickness',
-              'boundary_layer_thickness'])
-        _add(self, 'ingested', IngestedFlowComp(vec_size=n, profile_exponent=expo),
-             ['capture_height', 'boundary_layer_thickness', ('perimeter', 'fan_station_perimeter'),
-              'density', 'true_airspeed', ('static_pressure', 'pressure'), 'total_temperature'],
-             ['captured_mass_flow', 'ingested_momentum_flow', 'ingested_kinetic_energy_flow']
-             + _prefixed('aft_fan', ['ram_velocity', 'energy_velocity',
-                                     'inflow_total_pressure']))
-        _add(self, 'fan', DuctedFanComp(vec_size=n),
-             [('net_thrust', 'aft_fan_thrust'),
-              ('inflow_total_temperature', 'total_temperature'),
-              ('inflow_total_pressure', 'aft_fan_inflow_total_pressure'),
-              ('ram_velocity', 'aft_fan_ram_velocity'), ('ambient_pressure', 'pressure')]
-             + fan_settings,
-             _prefixed('aft', _FAN_OUTPUTS))
-        _add(self, 'capture', CaptureHeightComp(vec_size=n),
-             ['captured_mass_flow', ('required_mass_flow', 'aft_mass_flow')],
-             ['capture_height'])
-        _add(self, 'reference_fan', DuctedFanComp(vec_size=n),
-             [('net_thrust', 'aft_fan_thrust'),
-              ('inflow_total_temperature', 'total_temperature'),
-              ('inflow_total_pressure', 'total_pressure'), ('ram_velocity', 'true_airspeed'),
-              ('ambient_pressure', 'pressure')] + fan_settings,
-             _prefixed('aft_reference', _FAN_OUTPUTS))
-        _add(self, 'power_saving', PowerSavingComp(vec_size=n),
-             [('shaft_power', 'aft_shaft_power'),
-              ('reference_shaft_power', 'aft_reference_shaft_power')],
-             ['power_saving_coefficient'])
-        _add(self, 'nacelle', NacelleGeometryComp(vec_size=n),
-             [('fan_diameter', 'aft_fan_diameter'),
-              ('diameter_ratio', 'aft_nacelle_diameter_ratio')],
-             [('nacelle_diameter', 'aft_nacelle_diameter')])
-        _add(self, 'nacelle_drag', BodyDragComp(vec_size=n, shape='nacelle', count=1),
-             [('diameter', 'aft_nacelle_diameter'),
-              ('fineness_ratio', 'aft_nacelle_fineness_ratio'),
-              ('interference_factor', 'aft_nacelle_interference_factor'),
-              'true_airspeed', 'density', 'viscosity'],
-             _prefixed('aft_nacelle', ['length', 'reynolds_number',
-                                       'skin_friction_coefficient', 'form_factor',
-                                       'wetted_area', 'drag_area']))
-        _add(self, 'mass', AftFanMassComp(vec_size=n),
-             [('fan_diameter', 'aft_fan_diameter'), ('fan_areal_mass', 'aft_fan_areal_mass'),
-              ('nacelle_wetted_area', 'aft_nacelle_wetted_area'),
-              ('nacelle_areal_mass', 'aft_nacelle_areal_mass'),
-              ('structure_fraction', 'aft_structure_fraction')],
-             [('mass', 'aft_fan_mass')])
+            ('fan_efficiency', 'aft_fan_efficiency'),
+            ('fan_face_mach', 'aft_fan_face_mach'),
+            ('hub_to_tip_ratio', 'aft_fan_hub_to_tip_ratio'),
+        ]
+        _add(
+            self,
+            'boundary_layer',
+            FuselageBoundaryLayerComp(vec_size=n, profile_exponent=expo),
+            [
+                'fuselage_drag',
+                'density',
+                'true_airspeed',
+                'fuselage_diameter',
+                'station_diameter_ratio',
+            ],
+            [
+                ('perimeter', 'fan_station_perimeter'),
+                'momentum_thickness',
+                'boundary_layer_thickness',
+            ],
+        )
+        _add(
+            self,
+            'ingested',
+            IngestedFlowComp(vec_size=n, profile_exponent=expo),
+            [
+                'capture_height',
+                'boundary_layer_thickness',
+                ('perimeter', 'fan_station_perimeter'),
+                'density',
+                'true_airspeed',
+                ('static_pressure', 'pressure'),
+                'total_temperature',
+            ],
+            ['captured_mass_flow', 'ingested_momentum_flow', 'ingested_kinetic_energy_flow']
+            + _prefixed('aft_fan', ['ram_velocity', 'energy_velocity', 'inflow_total_pressure']),
+        )
+        _add(
+            self,
+            'fan',
+            DuctedFanComp(vec_size=n),
+            [
+                ('net_thrust', 'aft_fan_thrust'),
+                ('inflow_total_temperature', 'total_temperature'),
+                ('inflow_total_pressure', 'aft_fan_inflow_total_pressure'),
+                ('ram_velocity', 'aft_fan_ram_velocity'),
+                ('ambient_pressure', 'pressure'),
+            ]
+            + fan_settings,
+            _prefixed('aft', _FAN_OUTPUTS),
+        )
+        _add(
+            self,
+            'capture',
+            CaptureHeightComp(vec_size=n),
+            ['captured_mass_flow', ('required_mass_flow', 'aft_mass_flow')],
+            ['capture_height'],
+        )
+        _add(
+            self,
+            'reference_fan',
+            DuctedFanComp(vec_size=n),
+            [
+                ('net_thrust', 'aft_fan_thrust'),
+                ('inflow_total_temperature', 'total_temperature'),
+                ('inflow_total_pressure', 'total_pressure'),
+                ('ram_velocity', 'true_airspeed'),
+                ('ambient_pressure', 'pressure'),
+            ]
+            + fan_settings,
+            _prefixed('aft_reference', _FAN_OUTPUTS),
+        )
+        _add(
+            self,
+            'power_saving',
+            PowerSavingComp(vec_size=n),
+            [
+                ('shaft_power', 'aft_shaft_power'),
+                ('reference_shaft_power', 'aft_reference_shaft_power'),
+            ],
+            ['power_saving_coefficient'],
+        )
+        _add(
+            self,
+            'nacelle',
+            NacelleGeometryComp(vec_size=n),
+            [
+                ('fan_diameter', 'aft_fan_diameter'),
+                ('diameter_ratio', 'aft_nacelle_diameter_ratio'),
+            ],
+            [('nacelle_diameter', 'aft_nacelle_diameter')],
+        )
+        _add(
+            self,
+            'nacelle_drag',
+            BodyDragComp(vec_size=n, shape='nacelle', count=1),
+            [
+                ('diameter', 'aft_nacelle_diameter'),
+                ('fineness_ratio', 'aft_nacelle_fineness_ratio'),
+                ('interference_factor', 'aft_nacelle_interference_factor'),
+                'true_airspeed',
+                'density',
+                'viscosity',
+            ],
+            _prefixed(
+                'aft_nacelle',
+                [
+                    'length',
+                    'reynolds_number',
+                    'skin_friction_coefficient',
+                    'form_factor',
+                    'wetted_area',
+                    'drag_area',
+                ],
+            ),
+        )
+        _add(
+            self,
+            'mass',
+            AftFanMassComp(vec_size=n),
+            [
+                ('fan_diameter', 'aft_fan_diameter'),
+                ('fan_areal_mass', 'aft_fan_areal_mass'),
+                ('nacelle_wetted_area', 'aft_nacelle_wetted_area'),
+                ('nacelle_areal_mass', 'aft_nacelle_areal_mass'),
+                ('structure_fraction', 'aft_structure_fraction'),
+            ],
+            [('mass', 'aft_fan_mass')],
+        )
 
 
 class ElectricalChainGroup(om.Group):
@@ -270,8 +440,9 @@ class ElectricalChainGroup(om.Group):
         """
         Declare options.
         """
-        self.options.declare('vec_size', types=int, default=1, lower=1,
-                             desc='Number of independent design points.')
+        self.options.declare(
+            'vec_size', types=int, default=1, lower=1, desc='Number of independent design points.'
+        )
 
     def setup(self):
         """
@@ -283,32 +454,61 @@ class ElectricalChainGroup(om.Group):
             outputs = _prefixed(device, ['input_power', 'loss', 'mass'])
             if device == 'cable':
                 comp = CableComp(vec_size=n)
-                inputs = [('output_power', delivered),
-                          ('sizing_factor', 'electrical_sizing_factor')] + _prefixed(
-                    'cable', ['voltage', 'length', 'current_density_limit', 'resistivity',
-                              'conductor_density', 'mass_factor'])
-                outputs += _prefixed('cable', ['efficiency', 'current', 'rated_current',
-                                               'cross_section_area', 'resistance',
-                                               'current_density', 'voltage_drop'])
+                inputs = [
+                    ('output_power', delivered),
+                    ('sizing_factor', 'electrical_sizing_factor'),
+                ] + _prefixed(
+                    'cable',
+                    [
+                        'voltage',
+                        'length',
+                        'current_density_limit',
+                        'resistivity',
+                        'conductor_density',
+                        'mass_factor',
+                    ],
+                )
+                outputs += _prefixed(
+                    'cable',
+                    [
+                        'efficiency',
+                        'current',
+                        'rated_current',
+                        'cross_section_area',
+                        'resistance',
+                        'current_density',
+                        'voltage_drop',
+                    ],
+                )
             else:
                 comp = ElectricalDeviceComp(vec_size=n)
-                inputs = [('output_power', delivered),
-                          ('sizing_factor', 'electrical_sizing_factor')] + _prefixed(
-                    device, ['efficiency', 'specific_power'])
+                inputs = [
+                    ('output_power', delivered),
+                    ('sizing_factor', 'electrical_sizing_factor'),
+                ] + _prefixed(device, ['efficiency', 'specific_power'])
                 outputs += _prefixed(device, ['rated_power'])
             _add(self, device, comp, inputs, outputs)
             delivered = f'{device}_input_power'
-        _add(self, 'thermal', ThermalManagementComp(vec_size=n, sources=list(CHAIN)),
-             [f'{device}_loss' for device in CHAIN]
-             + _prefixed('thermal', ['specific_mass', 'drag_per_power']),
-             [('heat_load', 'thermal_load'), ('mass', 'thermal_mass'),
-              ('drag', 'thermal_drag')])
-        _add(self, 'summary',
-             ElectricalSummaryComp(vec_size=n, devices=list(CHAIN) + ['thermal']),
-             [f'{device}_mass' for device in CHAIN] + ['thermal_mass',
-              ('shaft_power_extracted', 'generator_input_power'),
-              ('aft_fan_shaft_power', 'aft_shaft_power')],
-             ['electrical_mass', ('chain_efficiency', 'electrical_chain_efficiency')])
+        _add(
+            self,
+            'thermal',
+            ThermalManagementComp(vec_size=n, sources=list(CHAIN)),
+            [f'{device}_loss' for device in CHAIN]
+            + _prefixed('thermal', ['specific_mass', 'drag_per_power']),
+            [('heat_load', 'thermal_load'), ('mass', 'thermal_mass'), ('drag', 'thermal_drag')],
+        )
+        _add(
+            self,
+            'summary',
+            ElectricalSummaryComp(vec_size=n, devices=list(CHAIN) + ['thermal']),
+            [f'{device}_mass' for device in CHAIN]
+            + [
+                'thermal_mass',
+                ('shaft_power_extracted', 'generator_input_power'),
+                ('aft_fan_shaft_power', 'aft_shaft_power'),
+            ],
+            ['electrical_mass', ('chain_efficiency', 'electrical_chain_efficiency')],
+        )
 
 
 class SizingLoop(om.Group):
@@ -325,18 +525,33 @@ class SizingLoop(om.Group):
         """
         Declare options.
         """
-        self.options.declare('vec_size', types=int, default=1, lower=1,
-                             desc='Number of independent design points.')
-        self.options.declare('num_engines', types=int, default=2, lower=1,
-                             desc='Number of under-wing turbofans.')
-        self.options.declare('aft_fan', types=bool, default=False,
-                             desc='Include the wake-ingesting aft fan and its electrical chain.')
-        self.options.declare('profile_exponent', types=(int, float), default=7.0,
-                             desc='Exponent n of the power-law boundary-layer profile.')
-        self.options.declare('max_iterations', types=int, default=30,
-                             desc='Newton iteration limit.')
-        self.options.declare('tolerance', types=float, default=1e-10,
-                             desc='Relative residual tolerance of the Newton solve.')
+        self.options.declare(
+            'vec_size', types=int, default=1, lower=1, desc='Number of independent design points.'
+        )
+        self.options.declare(
+            'num_engines', types=int, default=2, lower=1, desc='Number of under-wing turbofans.'
+        )
+        self.options.declare(
+            'aft_fan',
+            types=bool,
+            default=False,
+            desc='Include the wake-ingesting aft fan and its electrical chain.',
+        )
+        self.options.declare(
+            'profile_exponent',
+            types=(int, float),
+            default=7.0,
+            desc='Exponent n of the power-law boundary-layer profile.',
+        )
+        self.options.declare(
+            'max_iterations', types=int, default=30, desc='Newton iteration limit.'
+        )
+        self.options.declare(
+            'tolerance',
+            types=float,
+            default=1e-10,
+            desc='Relative residual tolerance of the Newton solve.',
+        )
 
     def setup(self):
         """
@@ -345,37 +560,85 @@ class SizingLoop(om.Group):
         opt = self.options
         n = opt['vec_size']
         _add(self, 'aerodynamics', AerodynamicsGroup(vec_size=n), ['*'], ['*'])
-        _add(self, 'turbofans', TurbofanGroup(vec_size=n, num_engines=opt['num_engines']),
-             ['*'], ['*'])
+        _add(
+            self,
+            'turbofans',
+            TurbofanGroup(vec_size=n, num_engines=opt['num_engines']),
+            ['*'],
+            ['*'],
+        )
         items = ['engines']
         if opt['aft_fan']:
-            _add(self, 'aft_fan', AftFanGroup(vec_size=n, profile_exponent=opt['profile_exponent']),
-                 ['*'], ['*'])
+            _add(
+                self,
+                'aft_fan',
+                AftFanGroup(vec_size=n, profile_exponent=opt['profile_exponent']),
+                ['*'],
+                ['*'],
+            )
             _add(self, 'electrical', ElectricalChainGroup(vec_size=n), ['*'], ['*'])
             items += ['aft_fan', 'electrical']
             extracted = [('shaft_power_extracted', 'generator_input_power')]
         else:
             extracted = []
-        _add(self, 'propulsion', PropulsionSystemComp(vec_size=n, num_engines=opt['num_engines']),
-             ['engine_fuel_flow'] + extracted, ['fuel_flow', 'engine_power_extraction'])
-        _add(self, 'efficiency', OverallEfficiencyComp(vec_size=n),
-             [('net_thrust', 'drag'), 'true_airspeed', 'fuel_flow', 'fuel_heating_value'],
-             ['overall_efficiency', 'tsfc'])
-        _add(self, 'airframe', AirframeMassComp(vec_size=n),
-             ['mtow', 'airframe_mass_coefficient', 'airframe_mass_exponent'],
-             ['airframe_mass'])
-        _add(self, 'masses', MassBuildUpComp(vec_size=n, propulsion_items=items),
-             ['airframe_mass', 'payload', 'total_fuel'] + [f'{item}_mass' for item in items],
-             ['propulsion_mass', 'oew', 'mtow'])
-        _add(self, 'mission', MissionFuelComp(vec_size=n),
-             ['mtow', 'range', 'lift_to_drag', 'overall_efficiency', 'fuel_heating_value',
-              'takeoff_fraction', 'climb_fraction', 'landing_fraction', 'diversion_range',
-              'hold_time', 'hold_speed', 'contingency_fraction'],
-             ['cruise_fuel_fraction', 'block_fuel', 'reserve_fuel', 'total_fuel',
-              'mid_cruise_mass', 'landing_mass', 'block_energy'])
+        _add(
+            self,
+            'propulsion',
+            PropulsionSystemComp(vec_size=n, num_engines=opt['num_engines']),
+            ['engine_fuel_flow'] + extracted,
+            ['fuel_flow', 'engine_power_extraction'],
+        )
+        _add(
+            self,
+            'efficiency',
+            OverallEfficiencyComp(vec_size=n),
+            [('net_thrust', 'drag'), 'true_airspeed', 'fuel_flow', 'fuel_heating_value'],
+            ['overall_efficiency', 'tsfc'],
+        )
+        _add(
+            self,
+            'airframe',
+            AirframeMassComp(vec_size=n),
+            ['mtow', 'airframe_mass_coefficient', 'airframe_mass_exponent'],
+            ['airframe_mass'],
+        )
+        _add(
+            self,
+            'masses',
+            MassBuildUpComp(vec_size=n, propulsion_items=items),
+            ['airframe_mass', 'payload', 'total_fuel'] + [f'{item}_mass' for item in items],
+            ['propulsion_mass', 'oew', 'mtow'],
+        )
+        _add(
+            self,
+            'mission',
+            MissionFuelComp(vec_size=n),
+            [
+                'mtow',
+                'range',
+                'lift_to_drag',
+                'overall_efficiency',
+                'fuel_heating_value',
+                'takeoff_fraction',
+                'climb_fraction',
+                'landing_fraction',
+                'diversion_range',
+                'hold_time',
+                'hold_speed',
+                'contingency_fraction',
+            ],
+            [
+                'cruise_fuel_fraction',
+                'block_fuel',
+                'reserve_fuel',
+                'total_fuel',
+                'mid_cruise_mass',
+                'landing_mass',
+                'block_energy',
+            ],
+        )
 
-        newton = self.nonlinear_solver = SizingNewtonSolver(solve_subsystems=True,
-                                                            max_sub_solves=2)
+        newton = self.nonlinear_solver = SizingNewtonSolver(solve_subsystems=True, max_sub_solves=2)
         newton.options['maxiter'] = opt['max_iterations']
         newton.options['rtol'] = opt['tolerance']
         newton.options['atol'] = 1e-8
@@ -405,10 +668,13 @@ class SizingLoop(om.Group):
         need = outputs['aft_mass_flow']
         if np.all(need > 0) and np.all(outputs['boundary_layer_thickness'] > 0):
             outputs['capture_height'] = initial_capture_height(
-                need, inputs['aft_fan.boundary_layer.density'],
+                need,
+                inputs['aft_fan.boundary_layer.density'],
                 inputs['aft_fan.boundary_layer.true_airspeed'],
-                outputs['fan_station_perimeter'], outputs['boundary_layer_thickness'],
-                self.options['profile_exponent'])
+                outputs['fan_station_perimeter'],
+                outputs['boundary_layer_thickness'],
+                self.options['profile_exponent'],
+            )
 
 
 class PerformanceGroup(om.Group):
@@ -429,53 +695,115 @@ class PerformanceGroup(om.Group):
         """
         Declare options.
         """
-        self.options.declare('vec_size', types=int, default=1, lower=1,
-                             desc='Number of independent design points.')
-        self.options.declare('num_engines', types=int, default=2, lower=1,
-                             desc='Number of under-wing turbofans.')
-        self.options.declare('aft_fan', types=bool, default=False,
-                             desc='Include the aft-fan and electrical ratings.')
+        self.options.declare(
+            'vec_size', types=int, default=1, lower=1, desc='Number of independent design points.'
+        )
+        self.options.declare(
+            'num_engines', types=int, default=2, lower=1, desc='Number of under-wing turbofans.'
+        )
+        self.options.declare(
+            'aft_fan', types=bool, default=False, desc='Include the aft-fan and electrical ratings.'
+        )
 
     def setup(self):
         """
         Add the constraint components.
         """
         n, count = self.options['vec_size'], self.options['num_engines']
-        _add(self, 'installed', InstalledThrustComp(vec_size=n, num_engines=count),
-             ['turbofan_rated_thrust', 'aft_fan_thrust', 'rated_to_cruise_thrust'],
-             ['installed_thrust'])
-        _add(self, 'takeoff', TakeoffFieldLengthComp(vec_size=n),
-             ['mtow', 'wing_area', ('takeoff_thrust', 'installed_thrust'),
-              ('max_lift_coefficient_takeoff', 'takeoff_max_lift_coefficient')],
-             ['takeoff_field_length', 'takeoff_parameter', 'wing_loading',
-              ('thrust_to_weight', 'takeoff_thrust_to_weight')])
-        _add(self, 'landing', LandingComp(vec_size=n),
-             ['landing_mass', 'wing_area',
-              ('max_lift_coefficient_landing', 'landing_max_lift_coefficient')],
-             ['stall_speed', 'approach_speed', 'landing_field_length'])
-        _add(self, 'lapse', ThrustLapseComp(vec_size=n),
-             ['pressure', 'temperature', 'mach', 'throttle_ratio'], ['thrust_lapse'])
-        _add(self, 'climb', TopOfClimbComp(vec_size=n),
-             [('rated_thrust', 'installed_thrust'), 'thrust_lapse', ('mass', 'mtow'),
-              'lift_to_drag', 'true_airspeed', 'residual_climb_rate'],
-             [('available_thrust', 'climb_available_thrust'),
-              ('required_thrust', 'climb_required_thrust'),
-              ('thrust_margin', 'climb_thrust_margin')])
-        _add(self, 'buffet', BuffetMarginComp(vec_size=n),
-             ['lift_coefficient', 'buffet_lift_coefficient', 'buffet_margin_load_factor'],
-             ['buffet_margin'])
+        _add(
+            self,
+            'installed',
+            InstalledThrustComp(vec_size=n, num_engines=count),
+            ['turbofan_rated_thrust', 'aft_fan_thrust', 'rated_to_cruise_thrust'],
+            ['installed_thrust'],
+        )
+        _add(
+            self,
+            'takeoff',
+            TakeoffFieldLengthComp(vec_size=n),
+            [
+                'mtow',
+                'wing_area',
+                ('takeoff_thrust', 'installed_thrust'),
+                ('max_lift_coefficient_takeoff', 'takeoff_max_lift_coefficient'),
+            ],
+            [
+                'takeoff_field_length',
+                'takeoff_parameter',
+                'wing_loading',
+                ('thrust_to_weight', 'takeoff_thrust_to_weight'),
+            ],
+        )
+        _add(
+            self,
+            'landing',
+            LandingComp(vec_size=n),
+            [
+                'landing_mass',
+                'wing_area',
+                ('max_lift_coefficient_landing', 'landing_max_lift_coefficient'),
+            ],
+            ['stall_speed', 'approach_speed', 'landing_field_length'],
+        )
+        _add(
+            self,
+            'lapse',
+            ThrustLapseComp(vec_size=n),
+            ['pressure', 'temperature', 'mach', 'throttle_ratio'],
+            ['thrust_lapse'],
+        )
+        _add(
+            self,
+            'climb',
+            TopOfClimbComp(vec_size=n),
+            [
+                ('rated_thrust', 'installed_thrust'),
+                'thrust_lapse',
+                ('mass', 'mtow'),
+                'lift_to_drag',
+                'true_airspeed',
+                'residual_climb_rate',
+            ],
+            [
+                ('available_thrust', 'climb_available_thrust'),
+                ('required_thrust', 'climb_required_thrust'),
+                ('thrust_margin', 'climb_thrust_margin'),
+            ],
+        )
+        _add(
+            self,
+            'buffet',
+            BuffetMarginComp(vec_size=n),
+            ['lift_coefficient', 'buffet_lift_coefficient', 'buffet_margin_load_factor'],
+            ['buffet_margin'],
+        )
         if not self.options['aft_fan']:
             return
-        _add(self, 'aft_fan_size', DiameterLimitComp(vec_size=n),
-             [('fan_diameter', 'aft_fan_diameter'), 'fuselage_diameter',
-              ('max_diameter_ratio', 'aft_fan_max_diameter_ratio')],
-             [('diameter_margin', 'aft_fan_diameter_margin')])
-        _add(self, 'motor_rating', RatingMarginComp(vec_size=n, units='W'),
-             [('value', 'motor_rated_power'), ('rating', 'motor_power_limit')],
-             [('margin', 'motor_power_margin')])
-        _add(self, 'cable_rating', RatingMarginComp(vec_size=n, units='A/m**2'),
-             [('value', 'cable_current_density'), ('rating', 'cable_current_density_limit')],
-             [('margin', 'cable_current_density_margin')])
+        _add(
+            self,
+            'aft_fan_size',
+            DiameterLimitComp(vec_size=n),
+            [
+                ('fan_diameter', 'aft_fan_diameter'),
+                'fuselage_diameter',
+                ('max_diameter_ratio', 'aft_fan_max_diameter_ratio'),
+            ],
+            [('diameter_margin', 'aft_fan_diameter_margin')],
+        )
+        _add(
+            self,
+            'motor_rating',
+            RatingMarginComp(vec_size=n, units='W'),
+            [('value', 'motor_rated_power'), ('rating', 'motor_power_limit')],
+            [('margin', 'motor_power_margin')],
+        )
+        _add(
+            self,
+            'cable_rating',
+            RatingMarginComp(vec_size=n, units='A/m**2'),
+            [('value', 'cable_current_density'), ('rating', 'cable_current_density_limit')],
+            [('margin', 'cable_current_density_margin')],
+        )
 
 
 class AircraftModel(om.Group):
@@ -492,18 +820,40 @@ class AircraftModel(om.Group):
         """
         Declare options.
         """
-        self.options.declare('vec_size', types=int, default=1, lower=1,
-                             desc='Number of independent design points solved at once.')
-        self.options.declare('num_engines', types=int, default=2, lower=1,
-                             desc='Number of under-wing turbofans.')
-        self.options.declare('aft_fan', types=bool, default=False,
-                             desc='Include the wake-ingesting aft fan and its electrical chain.')
-        self.options.declare('profile_exponent', types=(int, float), default=7.0,
-                             desc='Exponent n of the power-law boundary-layer profile.')
-        self.options.declare('max_iterations', types=int, default=30,
-                             desc='Newton iteration limit of the sizing loop.')
-        self.options.declare('tolerance', types=float, default=1e-10,
-                             desc='Relative residual tolerance of the sizing loop.')
+        self.options.declare(
+            'vec_size',
+            types=int,
+            default=1,
+            lower=1,
+            desc='Number of independent design points solved at once.',
+        )
+        self.options.declare(
+            'num_engines', types=int, default=2, lower=1, desc='Number of under-wing turbofans.'
+        )
+        self.options.declare(
+            'aft_fan',
+            types=bool,
+            default=False,
+            desc='Include the wake-ingesting aft fan and its electrical chain.',
+        )
+        self.options.declare(
+            'profile_exponent',
+            types=(int, float),
+            default=7.0,
+            desc='Exponent n of the power-law boundary-layer profile.',
+        )
+        self.options.declare(
+            'max_iterations',
+            types=int,
+            default=30,
+            desc='Newton iteration limit of the sizing loop.',
+        )
+        self.options.declare(
+            'tolerance',
+            types=float,
+            default=1e-10,
+            desc='Relative residual tolerance of the sizing loop.',
+        )
 
     def setup(self):
         """
@@ -512,16 +862,49 @@ class AircraftModel(om.Group):
         opt = self.options
         n = opt['vec_size']
         _add(self, 'cruise', FlightConditionGroup(vec_size=n), ['*'], ['*'])
-        _add(self, 'wing', WingGeometryComp(vec_size=n), ['wing_area', 'aspect_ratio'],
-             ['wingspan'])
-        _add(self, 'fuselage', BodyDragComp(vec_size=n, shape='fuselage', count=1),
-             [('diameter', 'fuselage_diameter'), ('fineness_ratio', 'fuselage_fineness_ratio'),
-              ('interference_factor', 'fuselage_interference_factor'),
-              'true_airspeed', 'density', 'viscosity'],
-             _prefixed('fuselage', ['length', 'reynolds_number', 'skin_friction_coefficient',
-                                    'form_factor', 'wetted_area', 'drag_area']))
-        loop = {k: opt[k] for k in ('vec_size', 'num_engines', 'aft_fan', 'profile_exponent',
-                                     'max_iterations', 'tolerance')}
+        _add(
+            self, 'wing', WingGeometryComp(vec_size=n), ['wing_area', 'aspect_ratio'], ['wingspan']
+        )
+        _add(
+            self,
+            'fuselage',
+            BodyDragComp(vec_size=n, shape='fuselage', count=1),
+            [
+                ('diameter', 'fuselage_diameter'),
+                ('fineness_ratio', 'fuselage_fineness_ratio'),
+                ('interference_factor', 'fuselage_interference_factor'),
+                'true_airspeed',
+                'density',
+                'viscosity',
+            ],
+            _prefixed(
+                'fuselage',
+                [
+                    'length',
+                    'reynolds_number',
+                    'skin_friction_coefficient',
+                    'form_factor',
+                    'wetted_area',
+                    'drag_area',
+                ],
+            ),
+        )
+        loop = {
+            k: opt[k]
+            for k in (
+                'vec_size',
+                'num_engines',
+                'aft_fan',
+                'profile_exponent',
+                'max_iterations',
+                'tolerance',
+            )
+        }
         _add(self, 'sizing', SizingLoop(**loop), ['*'], ['*'])
-        _add(self, 'performance', PerformanceGroup(vec_size=n, num_engines=opt['num_engines'],
-                                                   aft_fan=opt['aft_fan']), ['*'], ['*'])
+        _add(
+            self,
+            'performance',
+            PerformanceGroup(vec_size=n, num_engines=opt['num_engines'], aft_fan=opt['aft_fan']),
+            ['*'],
+            ['*'],
+        )

@@ -37,8 +37,9 @@ class SizingNewtonSolver(om.NewtonSolver):
         except RuntimeError as err:
             # A singular or non-finite Jacobian means the design has left the physical
             # region: report a failed solve, as for any other non-convergence.
-            raise AnalysisError(f"Solver '{self.SOLVER}' on system "
-                                f"'{self._system().pathname}': {err}") from None
+            raise AnalysisError(
+                f"Solver '{self.SOLVER}' on system '{self._system().pathname}': {err}"
+            ) from None
         self._keep_if_finite()
 
     def _keep_if_finite(self):
@@ -109,8 +110,13 @@ class PointwiseDirectSolver(om.DirectSolver):
         system = self._system()
         jac = system._get_assembled_jac()
         matrix = jac.get_dr_do_matrix() if jac is not None else None
-        perm = self._point_permutation(matrix.shape[0]) if matrix is not None and \
-            hasattr(matrix, 'tocsc') and not isinstance(matrix, np.ndarray) else None
+        perm = (
+            self._point_permutation(matrix.shape[0])
+            if matrix is not None
+            and hasattr(matrix, 'tocsc')
+            and not isinstance(matrix, np.ndarray)
+            else None
+        )
         if perm is None:
             super()._linearize()
             return

@@ -33,8 +33,14 @@ def main(out, targets):
     except ValueError as exc:
         error = str(exc)
     comm = mpi_comm()
-    record = {'rank': comm.rank if comm else 0, 'size': comm.size if comm else 1,
-              'root': is_root(), 'sweep': sweep, 'progress': calls, 'error': error}
+    record = {
+        'rank': comm.rank if comm else 0,
+        'size': comm.size if comm else 1,
+        'root': is_root(),
+        'sweep': sweep,
+        'progress': calls,
+        'error': error,
+    }
     with open(f'{out}.{record["rank"]}.json', 'w') as handle:
         json.dump(record, handle)
 

@@ -40,11 +40,21 @@ def test_aft_fan_mass_scales_with_face_area():
 def test_aft_fan_mass_partials():
     check_component_partials(
         AftFanMassComp(vec_size=3),
-        {'fan_diameter': [1.2, 2.0, 3.1], 'fan_areal_mass': [120.0, 150.0, 200.0],
-         'nacelle_wetted_area': [8.0, 15.0, 30.0], 'nacelle_areal_mass': [10.0, 15.0, 22.0],
-         'structure_fraction': [0.1, 0.2, 0.35]})
+        {
+            'fan_diameter': [1.2, 2.0, 3.1],
+            'fan_areal_mass': [120.0, 150.0, 200.0],
+            'nacelle_wetted_area': [8.0, 15.0, 30.0],
+            'nacelle_areal_mass': [10.0, 15.0, 22.0],
+            'structure_fraction': [0.1, 0.2, 0.35],
+        },
+    )
     check_component_partials(
         AftFanMassComp(vec_size=3),
-        {'fan_diameter': [0.5, 4.0, 1.8], 'fan_areal_mass': [90.0, 250.0, 140.0],
-         'nacelle_wetted_area': [3.0, 45.0, 12.0], 'nacelle_areal_mass': [8.0, 25.0, 12.0],
-         'structure_fraction': [0.0, 0.5, 0.15]})
+        {
+            'fan_diameter': [0.5, 4.0, 1.8],
+            'fan_areal_mass': [90.0, 250.0, 140.0],
+            'nacelle_wetted_area': [3.0, 45.0, 12.0],
+            'nacelle_areal_mass': [8.0, 25.0, 12.0],
+            'structure_fraction': [0.0, 0.5, 0.15],
+        },
+    )

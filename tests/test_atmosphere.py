@@ -35,11 +35,13 @@ def test_against_ambiance_on_grid():
     np.testing.assert_allclose(reference.H, geopotential, rtol=1e-12, atol=1e-6)
     # ambiance starts the isothermal layer from the rounded table value 22632.0 Pa; we
     # derive it from the troposphere (22632.04 Pa), a 2e-6 relative difference.
-    for ours, theirs in [('temperature', reference.temperature),
-                         ('pressure', reference.pressure),
-                         ('density', reference.density),
-                         ('speed_of_sound', reference.speed_of_sound),
-                         ('viscosity', reference.dynamic_viscosity)]:
+    for ours, theirs in [
+        ('temperature', reference.temperature),
+        ('pressure', reference.pressure),
+        ('density', reference.density),
+        ('speed_of_sound', reference.speed_of_sound),
+        ('viscosity', reference.dynamic_viscosity),
+    ]:
         np.testing.assert_allclose(prob.get_val(ours), theirs, rtol=1e-5, err_msg=ours)
 
 
@@ -93,39 +95,51 @@ def test_flight_condition_hand_values():
     mach = np.array([0.0, 0.78, 1.0])
     atmo = _atmosphere([0.0, 11000.0, 11000.0])
     names = ['temperature', 'pressure', 'density', 'speed_of_sound']
-    prob = _run(FlightConditionComp(vec_size=3),
-                dict({'mach': mach}, **{n: atmo.get_val(n) for n in names}))
+    prob = _run(
+        FlightConditionComp(vec_size=3), dict({'mach': mach}, **{n: atmo.get_val(n) for n in names})
+    )
     temperature = atmo.get_val('temperature')
     pressure = atmo.get_val('pressure')
     sound = atmo.get_val('speed_of_sound')
     np.testing.assert_allclose(prob.get_val('true_airspeed'), mach * sound, rtol=1e-14)
     # With a**2 = gamma p / rho, q = (gamma / 2) p M**2 (common practice).
-    np.testing.assert_allclose(prob.get_val('dynamic_pressure'), 0.7 * pressure * mach ** 2,
-                               rtol=1e-12)
+    np.testing.assert_allclose(
+        prob.get_val('dynamic_pressure'), 0.7 * pressure * mach**2, rtol=1e-12
+    )
     # At rest the total state equals the static state.
     assert prob.get_val('total_temperature')[0] == pytest.approx(temperature[0], rel=1e-14)
     assert prob.get_val('total_pressure')[0] == pytest.approx(pressure[0], rel=1e-14)
     # Isentropic flow table at M = 1 (gamma 1.4): T0/T = 1.200, p0/p = 1.893
     # (Anderson, Modern Compressible Flow, appendix A, from memory).
-    assert prob.get_val('total_temperature')[2] / temperature[2] == pytest.approx(1.200,
-                                                                                 abs=5e-4)
+    assert prob.get_val('total_temperature')[2] / temperature[2] == pytest.approx(1.200, abs=5e-4)
     assert prob.get_val('total_pressure')[2] / pressure[2] == pytest.approx(1.893, abs=5e-4)
     # Hand calculation at M = 0.78: T0/T = 1 + 0.2 * 0.78**2 = 1.12168,
     # p0/p = 1.12168**3.5 = 1.49466 (formula in the class docstring).
-    assert prob.get_val('total_temperature')[1] / temperature[1] == pytest.approx(1.12168,
-                                                                                 rel=1e-12)
-    assert prob.get_val('total_pressure')[1] / pressure[1] == pytest.approx(1.12168 ** 3.5,
-                                                                            rel=1e-12)
+    assert prob.get_val('total_temperature')[1] / temperature[1] == pytest.approx(
+        1.12168, rel=1e-12
+    )
+    assert prob.get_val('total_pressure')[1] / pressure[1] == pytest.approx(1.12168**3.5, rel=1e-12)
 
 
-@pytest.mark.parametrize('point', [
-    {'mach': [0.3, 0.78, 0.85], 'temperature': [288.15, 223.0, 216.65],
-     'pressure': [101325.0, 26500.0, 22632.0], 'density': [1.225, 0.414, 0.364],
-     'speed_of_sound': [340.3, 299.4, 295.1]},
-    {'mach': [0.1, 0.5, 1.2], 'temperature': [300.0, 250.0, 210.0],
-     'pressure': [90000.0, 50000.0, 10000.0], 'density': [1.05, 0.70, 0.166],
-     'speed_of_sound': [347.0, 317.0, 290.0]},
-])
+@pytest.mark.parametrize(
+    'point',
+    [
+        {
+            'mach': [0.3, 0.78, 0.85],
+            'temperature': [288.15, 223.0, 216.65],
+            'pressure': [101325.0, 26500.0, 22632.0],
+            'density': [1.225, 0.414, 0.364],
+            'speed_of_sound': [340.3, 299.4, 295.1],
+        },
+        {
+            'mach': [0.1, 0.5, 1.2],
+            'temperature': [300.0, 250.0, 210.0],
+            'pressure': [90000.0, 50000.0, 10000.0],
+            'density': [1.05, 0.70, 0.166],
+            'speed_of_sound': [347.0, 317.0, 290.0],
+        },
+    ],
+)
 def test_flight_condition_partials(point):
     # atol=0 so that only the relative error counts (complex step is exact to round-off).
     check_component_partials(FlightConditionComp(vec_size=3), point, atol=0.0)

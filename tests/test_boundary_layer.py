@@ -21,18 +21,19 @@ RHO = float(ATM.density[0])
 P_STATIC = float(ATM.pressure[0])
 T_STATIC = float(ATM.temperature[0])
 SPEED = 0.78 * float(ATM.speed_of_sound[0])
-T_TOTAL = T_STATIC + SPEED ** 2 / (2.0 * CP_AIR)
+T_TOTAL = T_STATIC + SPEED**2 / (2.0 * CP_AIR)
 # Free-stream total pressure, isentropic relation p_t/p = (1 + (g-1)/2 M^2)^(g/(g-1))
 # (Anderson, Modern Compressible Flow, isentropic relations; common practice).
-PT_FREE = P_STATIC * (1.0 + 0.5 * (GAMMA - 1.0) * 0.78 ** 2) ** (GAMMA / (GAMMA - 1.0))
+PT_FREE = P_STATIC * (1.0 + 0.5 * (GAMMA - 1.0) * 0.78**2) ** (GAMMA / (GAMMA - 1.0))
 
 
 def _ingested_problem(heights, delta=0.5, perimeter=7.5, n=7.0):
     """Run IngestedFlowComp at the cruise condition for an array of capture heights."""
     heights = np.atleast_1d(np.asarray(heights, dtype=float))
     prob = om.Problem(reports=False)
-    prob.model.add_subsystem('flow', IngestedFlowComp(vec_size=heights.size,
-                                                      profile_exponent=n), promotes=['*'])
+    prob.model.add_subsystem(
+        'flow', IngestedFlowComp(vec_size=heights.size, profile_exponent=n), promotes=['*']
+    )
     prob.setup()
     prob.set_val('capture_height', heights)
     prob.set_val('boundary_layer_thickness', delta)
@@ -47,8 +48,9 @@ def _ingested_problem(heights, delta=0.5, perimeter=7.5, n=7.0):
 
 def _profile_integral(height, delta, n, k):
     """Quadrature of (u/V)^k from the wall to the height for the power-law profile."""
-    inner, _ = quad(lambda y: (y / delta) ** (k / n), 0.0, min(height, delta),
-                    epsabs=1e-14, epsrel=1e-12)
+    inner, _ = quad(
+        lambda y: (y / delta) ** (k / n), 0.0, min(height, delta), epsabs=1e-14, epsrel=1e-12
+    )
     return inner + max(height - delta, 0.0)
 
 
@@ -66,11 +68,12 @@ def test_thickness_ratio_one_seventh_law():
     prob.set_val('station_diameter_ratio', 0.6)
     prob.run_model()
     perimeter = np.pi * 0.6 * 4.0
-    theta = 8000.0 / (RHO * SPEED ** 2 * perimeter)
+    theta = 8000.0 / (RHO * SPEED**2 * perimeter)
     assert prob.get_val('perimeter')[0] == pytest.approx(perimeter, rel=1e-14)
     assert prob.get_val('momentum_thickness')[0] == pytest.approx(theta, rel=1e-14)
-    assert prob.get_val('momentum_thickness')[0] / prob.get_val(
-        'boundary_layer_thickness')[0] == pytest.approx(7.0 / 72.0, rel=1e-14)
+    assert prob.get_val('momentum_thickness')[0] / prob.get_val('boundary_layer_thickness')[
+        0
+    ] == pytest.approx(7.0 / 72.0, rel=1e-14)
 
 
 @pytest.mark.parametrize('n', [5.0, 7.0, 9.0])
@@ -79,13 +82,13 @@ def test_thickness_ratio_against_quadrature(n):
     ratio, _ = quad(lambda s: s ** (1 / n) * (1.0 - s ** (1 / n)), 0.0, 1.0, epsrel=1e-12)
     comp_ratio = n / ((n + 1.0) * (n + 2.0))
     prob = om.Problem(reports=False)
-    prob.model.add_subsystem('bl', FuselageBoundaryLayerComp(profile_exponent=n),
-                             promotes=['*'])
+    prob.model.add_subsystem('bl', FuselageBoundaryLayerComp(profile_exponent=n), promotes=['*'])
     prob.setup()
     prob.run_model()
     assert comp_ratio == pytest.approx(ratio, rel=1e-10)
-    assert prob.get_val('momentum_thickness')[0] / prob.get_val(
-        'boundary_layer_thickness')[0] == pytest.approx(ratio, rel=1e-10)
+    assert prob.get_val('momentum_thickness')[0] / prob.get_val('boundary_layer_thickness')[
+        0
+    ] == pytest.approx(ratio, rel=1e-10)
 
 
 def test_fluxes_at_edge_equal_closed_form():
@@ -95,13 +98,17 @@ def test_fluxes_at_edge_equal_closed_form():
     prob = _ingested_problem([delta], delta=delta, perimeter=perimeter)
     flux = perimeter * RHO * SPEED
     assert prob.get_val('captured_mass_flow')[0] == pytest.approx(
-        flux * delta * 7.0 / 8.0, rel=1e-13)
+        flux * delta * 7.0 / 8.0, rel=1e-13
+    )
     assert prob.get_val('captured_mass_flow')[0] == pytest.approx(
-        flux * (delta - delta / 8.0), rel=1e-13)
+        flux * (delta - delta / 8.0), rel=1e-13
+    )
     assert prob.get_val('ingested_momentum_flow')[0] == pytest.approx(
-        flux * SPEED * delta * 7.0 / 9.0, rel=1e-13)
+        flux * SPEED * delta * 7.0 / 9.0, rel=1e-13
+    )
     assert prob.get_val('ingested_kinetic_energy_flow')[0] == pytest.approx(
-        0.5 * flux * SPEED ** 2 * delta * 7.0 / 10.0, rel=1e-13)
+        0.5 * flux * SPEED**2 * delta * 7.0 / 10.0, rel=1e-13
+    )
 
 
 @pytest.mark.parametrize('n', [5.0, 7.0])
@@ -112,13 +119,12 @@ def test_fluxes_against_quadrature(n, eta):
     flux = perimeter * RHO * SPEED
     q1, q2, q3 = (_profile_integral(eta * delta, delta, n, k) for k in (1, 2, 3))
     assert prob.get_val('captured_mass_flow')[0] == pytest.approx(flux * q1, rel=1e-10)
-    assert prob.get_val('ingested_momentum_flow')[0] == pytest.approx(
-        flux * SPEED * q2, rel=1e-10)
+    assert prob.get_val('ingested_momentum_flow')[0] == pytest.approx(flux * SPEED * q2, rel=1e-10)
     assert prob.get_val('ingested_kinetic_energy_flow')[0] == pytest.approx(
-        0.5 * flux * SPEED ** 2 * q3, rel=1e-10)
+        0.5 * flux * SPEED**2 * q3, rel=1e-10
+    )
     assert prob.get_val('ram_velocity')[0] == pytest.approx(SPEED * q2 / q1, rel=1e-10)
-    assert prob.get_val('energy_velocity')[0] == pytest.approx(SPEED * np.sqrt(q3 / q1),
-                                                               rel=1e-10)
+    assert prob.get_val('energy_velocity')[0] == pytest.approx(SPEED * np.sqrt(q3 / q1), rel=1e-10)
 
 
 def test_c1_continuity_at_edge():
@@ -169,9 +175,14 @@ def test_free_stream_limit():
 def test_fuselage_boundary_layer_partials():
     check_component_partials(
         FuselageBoundaryLayerComp(vec_size=3),
-        {'fuselage_drag': [3000.0, 8000.0, 15000.0], 'density': [0.38, 0.55, 1.1],
-         'true_airspeed': [230.0, 200.0, 90.0], 'fuselage_diameter': [3.0, 4.0, 6.0],
-         'station_diameter_ratio': [0.5, 0.6, 0.75]})
+        {
+            'fuselage_drag': [3000.0, 8000.0, 15000.0],
+            'density': [0.38, 0.55, 1.1],
+            'true_airspeed': [230.0, 200.0, 90.0],
+            'fuselage_diameter': [3.0, 4.0, 6.0],
+            'station_diameter_ratio': [0.5, 0.6, 0.75],
+        },
+    )
 
 
 @pytest.mark.parametrize('n', [7.0, 6.0])
@@ -179,16 +190,28 @@ def test_ingested_flow_partials_below_and_above_edge(n):
     # Points at h/delta = 0.4, 0.9 (inside the layer) and 1.8 (above it) in one vector.
     check_component_partials(
         IngestedFlowComp(vec_size=3, profile_exponent=n),
-        {'capture_height': [0.2, 0.36, 0.9], 'boundary_layer_thickness': [0.5, 0.4, 0.5],
-         'perimeter': [7.5, 6.0, 9.0], 'density': [0.38, 0.55, 1.1],
-         'true_airspeed': [230.0, 200.0, 90.0], 'static_pressure': [23900.0, 35000.0, 90000.0],
-         'total_temperature': [245.0, 250.0, 290.0]})
+        {
+            'capture_height': [0.2, 0.36, 0.9],
+            'boundary_layer_thickness': [0.5, 0.4, 0.5],
+            'perimeter': [7.5, 6.0, 9.0],
+            'density': [0.38, 0.55, 1.1],
+            'true_airspeed': [230.0, 200.0, 90.0],
+            'static_pressure': [23900.0, 35000.0, 90000.0],
+            'total_temperature': [245.0, 250.0, 290.0],
+        },
+    )
     check_component_partials(
         IngestedFlowComp(vec_size=3, profile_exponent=n),
-        {'capture_height': [1.2, 0.05, 0.49], 'boundary_layer_thickness': [0.5, 0.6, 0.5],
-         'perimeter': [7.5, 6.0, 9.0], 'density': [0.38, 0.55, 1.1],
-         'true_airspeed': [230.0, 200.0, 90.0], 'static_pressure': [23900.0, 35000.0, 90000.0],
-         'total_temperature': [245.0, 250.0, 290.0]})
+        {
+            'capture_height': [1.2, 0.05, 0.49],
+            'boundary_layer_thickness': [0.5, 0.6, 0.5],
+            'perimeter': [7.5, 6.0, 9.0],
+            'density': [0.38, 0.55, 1.1],
+            'true_airspeed': [230.0, 200.0, 90.0],
+            'static_pressure': [23900.0, 35000.0, 90000.0],
+            'total_temperature': [245.0, 250.0, 290.0],
+        },
+    )
 
 
 def test_negative_height_extension_is_odd():
@@ -204,4 +227,5 @@ def test_negative_height_extension_is_odd():
         assert dd_neg[k] == pytest.approx(-dd_pos[k], rel=1e-14)
     check_component_partials(
         IngestedFlowComp(vec_size=3),
-        {'capture_height': [-0.1, 0.2, 0.7], 'boundary_layer_thickness': [0.5, 0.5, 0.5]})
+        {'capture_height': [-0.1, 0.2, 0.7], 'boundary_layer_thickness': [0.5, 0.5, 0.5]},
+    )

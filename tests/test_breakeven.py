@@ -41,8 +41,9 @@ def test_breakeven_is_found_inside_the_interval(motor_breakeven):
     assert result['message'].endswith(' W/kg')
 
 
-def test_design_optimised_at_the_breakeven_burns_the_reference_fuel(motor_breakeven,
-                                                                      reference_fuel):
+def test_design_optimised_at_the_breakeven_burns_the_reference_fuel(
+    motor_breakeven, reference_fuel
+):
     at_value = optimize(DEMO.with_overrides({MOTOR: motor_breakeven['value']}))
     assert at_value.success, at_value.message
     difference = 100.0 * (at_value.outputs['block_fuel_kg'] - reference_fuel) / reference_fuel
@@ -84,11 +85,16 @@ def sensitivities():
 def test_default_technology_inputs():
     assert default_technology_paths(DEMO) == [
         'aft_fan.fan_efficiency',
-        'electrical.generator.efficiency', 'electrical.generator.specific_power',
-        'electrical.rectifier.efficiency', 'electrical.rectifier.specific_power',
-        'electrical.inverter.efficiency', 'electrical.inverter.specific_power',
-        'electrical.motor.efficiency', 'electrical.motor.specific_power',
-        'electrical.cable.voltage']
+        'electrical.generator.efficiency',
+        'electrical.generator.specific_power',
+        'electrical.rectifier.efficiency',
+        'electrical.rectifier.specific_power',
+        'electrical.inverter.efficiency',
+        'electrical.inverter.specific_power',
+        'electrical.motor.efficiency',
+        'electrical.motor.specific_power',
+        'electrical.cable.voltage',
+    ]
 
 
 def test_sensitivities_match_central_differences_of_the_analysis(sensitivities):

@@ -15,8 +15,14 @@ ALUMINIUM = {'resistivity': 2.65e-8, 'conductor_density': 2700.0}
 
 # Hand case: 2 MW delivered over a 30 m run at 1 kV, 5 A/mm**2 at rated current,
 # rated current 1.25 x cruise current, cable mass 1.6 x conductor mass.
-CASE = {'output_power': 2.0e6, 'voltage': 1000.0, 'length': 30.0,
-        'current_density_limit': 5.0e6, 'sizing_factor': 1.25, 'mass_factor': 1.6}
+CASE = {
+    'output_power': 2.0e6,
+    'voltage': 1000.0,
+    'length': 30.0,
+    'current_density_limit': 5.0e6,
+    'sizing_factor': 1.25,
+    'mass_factor': 1.6,
+}
 
 
 def run_cable(**inputs):
@@ -30,8 +36,16 @@ def run_cable(**inputs):
     return prob
 
 
-def hand_cable(output_power, voltage, length, current_density_limit, sizing_factor,
-               mass_factor, resistivity, conductor_density):
+def hand_cable(
+    output_power,
+    voltage,
+    length,
+    current_density_limit,
+    sizing_factor,
+    mass_factor,
+    resistivity,
+    conductor_density,
+):
     """
     Cable by hand, by a route independent of the component's closed form.
 
@@ -45,12 +59,20 @@ def hand_cable(output_power, voltage, length, current_density_limit, sizing_fact
     current = output_power / (voltage - drop)
     area = sizing_factor * current / current_density_limit
     resistance = 2.0 * resistivity * length / area
-    loss = current ** 2 * resistance
+    loss = current**2 * resistance
     mass = 2.0 * length * area * conductor_density * mass_factor
-    return {'current': current, 'rated_current': sizing_factor * current,
-            'cross_section_area': area, 'resistance': resistance, 'loss': loss,
-            'input_power': output_power + loss, 'efficiency': output_power / (output_power + loss),
-            'current_density': j_cruise, 'mass': mass, 'voltage_drop': drop}
+    return {
+        'current': current,
+        'rated_current': sizing_factor * current,
+        'cross_section_area': area,
+        'resistance': resistance,
+        'loss': loss,
+        'input_power': output_power + loss,
+        'efficiency': output_power / (output_power + loss),
+        'current_density': j_cruise,
+        'mass': mass,
+        'voltage_drop': drop,
+    }
 
 
 @pytest.mark.parametrize('material', [COPPER, ALUMINIUM], ids=['copper', 'aluminium'])
@@ -81,7 +103,8 @@ def test_loss_is_power_balance():
     p_in = prob.get_val('input_power')[0]
     assert prob.get_val('loss')[0] == pytest.approx(p_in - CASE['output_power'], rel=1e-10)
     assert prob.get_val('voltage_drop')[0] / CASE['voltage'] == pytest.approx(
-        1.0 - prob.get_val('efficiency')[0], rel=1e-12)
+        1.0 - prob.get_val('efficiency')[0], rel=1e-12
+    )
 
 
 def test_higher_voltage_is_more_efficient_and_lighter():
@@ -116,15 +139,30 @@ def test_larger_sizing_factor_lowers_loss_raises_mass():
     assert large.get_val('mass')[0] > small.get_val('mass')[0]
 
 
-@pytest.mark.parametrize('point', [
-    {'output_power': [2.0e6, 5.0e5, 4.0e6], 'voltage': [1000.0, 540.0, 3000.0],
-     'length': [30.0, 12.0, 45.0], 'current_density_limit': [5.0e6, 3.0e6, 8.0e6],
-     'sizing_factor': [1.25, 1.0, 1.6], 'resistivity': [1.68e-8, 2.65e-8, 1.68e-8],
-     'conductor_density': [8960.0, 2700.0, 8960.0], 'mass_factor': [1.6, 1.4, 2.0]},
-    {'output_power': [8.0e5, 3.0e6, 1.5e6], 'voltage': [270.0, 800.0, 2000.0],
-     'length': [50.0, 8.0, 25.0], 'current_density_limit': [10.0e6, 4.0e6, 2.0e6],
-     'sizing_factor': [1.1, 1.5, 1.3], 'resistivity': [2.65e-8, 1.68e-8, 2.0e-8],
-     'conductor_density': [2700.0, 8960.0, 5000.0], 'mass_factor': [1.8, 1.5, 1.2]},
-])
+@pytest.mark.parametrize(
+    'point',
+    [
+        {
+            'output_power': [2.0e6, 5.0e5, 4.0e6],
+            'voltage': [1000.0, 540.0, 3000.0],
+            'length': [30.0, 12.0, 45.0],
+            'current_density_limit': [5.0e6, 3.0e6, 8.0e6],
+            'sizing_factor': [1.25, 1.0, 1.6],
+            'resistivity': [1.68e-8, 2.65e-8, 1.68e-8],
+            'conductor_density': [8960.0, 2700.0, 8960.0],
+            'mass_factor': [1.6, 1.4, 2.0],
+        },
+        {
+            'output_power': [8.0e5, 3.0e6, 1.5e6],
+            'voltage': [270.0, 800.0, 2000.0],
+            'length': [50.0, 8.0, 25.0],
+            'current_density_limit': [10.0e6, 4.0e6, 2.0e6],
+            'sizing_factor': [1.1, 1.5, 1.3],
+            'resistivity': [2.65e-8, 1.68e-8, 2.0e-8],
+            'conductor_density': [2700.0, 8960.0, 5000.0],
+            'mass_factor': [1.8, 1.5, 1.2],
+        },
+    ],
+)
 def test_partials(point):
     check_component_partials(CableComp(vec_size=3), point)

@@ -19,25 +19,30 @@ RHO = float(ATM.density[0])
 P_STATIC = float(ATM.pressure[0])
 T_STATIC = float(ATM.temperature[0])
 SPEED = 0.78 * float(ATM.speed_of_sound[0])
-T_TOTAL = T_STATIC + SPEED ** 2 / (2.0 * CP_AIR)
+T_TOTAL = T_STATIC + SPEED**2 / (2.0 * CP_AIR)
 # Isentropic total pressure (Anderson, Modern Compressible Flow; common practice).
-PT_FREE = P_STATIC * (1.0 + 0.5 * (GAMMA - 1.0) * 0.78 ** 2) ** (GAMMA / (GAMMA - 1.0))
+PT_FREE = P_STATIC * (1.0 + 0.5 * (GAMMA - 1.0) * 0.78**2) ** (GAMMA / (GAMMA - 1.0))
 
 # Illustrative airliner inputs (demo values, not checks): fuselage drag, diameter and the
 # fuselage diameter ratio at the fan station.
 FUSELAGE_DRAG = 8000.0
 FUSELAGE_DIAMETER = 4.0
 STATION_RATIO = 0.6
-FAN = {'fan_pressure_ratio': 1.3, 'fan_efficiency': 0.93, 'fan_face_mach': 0.6,
-       'hub_to_tip_ratio': 0.3}
+FAN = {
+    'fan_pressure_ratio': 1.3,
+    'fan_efficiency': 0.93,
+    'fan_face_mach': 0.6,
+    'hub_to_tip_ratio': 0.3,
+}
 
 
 def _captured(height, delta, perimeter, n=7.0):
     """Mass flow captured up to the height, from IngestedFlowComp."""
     height = np.atleast_1d(np.asarray(height, dtype=float))
     prob = om.Problem(reports=False)
-    prob.model.add_subsystem('flow', IngestedFlowComp(vec_size=height.size,
-                                                      profile_exponent=n), promotes=['*'])
+    prob.model.add_subsystem(
+        'flow', IngestedFlowComp(vec_size=height.size, profile_exponent=n), promotes=['*']
+    )
     prob.setup()
     prob.set_val('capture_height', height)
     prob.set_val('boundary_layer_thickness', delta)
@@ -61,8 +66,9 @@ def test_initial_capture_height_inverts_mass_flux(n):
 
 def test_capture_height_residual():
     prob = om.Problem(reports=False)
-    prob.model.add_subsystem('bal', CaptureHeightComp(vec_size=2, mass_flow_ref=50.0),
-                             promotes=['*'])
+    prob.model.add_subsystem(
+        'bal', CaptureHeightComp(vec_size=2, mass_flow_ref=50.0), promotes=['*']
+    )
     prob.setup()
     prob.set_val('captured_mass_flow', [120.0, 80.0])
     prob.set_val('required_mass_flow', [100.0, 100.0])
@@ -77,9 +83,12 @@ def test_capture_height_partials():
     for ref in (100.0, 35.0):
         check_component_partials(
             CaptureHeightComp(vec_size=3, mass_flow_ref=ref),
-            {'captured_mass_flow': [90.0, 150.0, 400.0],
-             'required_mass_flow': [100.0, 140.0, 380.0]},
-            outputs={'capture_height': [0.2, 0.5, 1.1]})
+            {
+                'captured_mass_flow': [90.0, 150.0, 400.0],
+                'required_mass_flow': [100.0, 140.0, 380.0],
+            },
+            outputs={'capture_height': [0.2, 0.5, 1.1]},
+        )
 
 
 def _solve_aft_fan(thrust):
@@ -94,21 +103,30 @@ def _solve_aft_fan(thrust):
     n = thrust.size
     prob = om.Problem(reports=False)
     model = prob.model
-    model.add_subsystem('bl', FuselageBoundaryLayerComp(vec_size=n),
-                        promotes_inputs=['*'], promotes_outputs=['*'])
+    model.add_subsystem(
+        'bl', FuselageBoundaryLayerComp(vec_size=n), promotes_inputs=['*'], promotes_outputs=['*']
+    )
 
     coupled = model.add_subsystem('coupled', om.Group(), promotes=['*'])
-    coupled.add_subsystem('flow', IngestedFlowComp(vec_size=n),
-                          promotes_inputs=['*'],
-                          promotes_outputs=['captured_mass_flow', 'ram_velocity',
-                                            'inflow_total_pressure'])
-    coupled.add_subsystem('fan', DuctedFanComp(vec_size=n),
-                          promotes_inputs=['ram_velocity', 'inflow_total_pressure'])
+    coupled.add_subsystem(
+        'flow',
+        IngestedFlowComp(vec_size=n),
+        promotes_inputs=['*'],
+        promotes_outputs=['captured_mass_flow', 'ram_velocity', 'inflow_total_pressure'],
+    )
+    coupled.add_subsystem(
+        'fan', DuctedFanComp(vec_size=n), promotes_inputs=['ram_velocity', 'inflow_total_pressure']
+    )
     coupled.add_subsystem('bal', CaptureHeightComp(vec_size=n), promotes=['*'])
     coupled.connect('fan.mass_flow', 'required_mass_flow')
-    coupled.nonlinear_solver = om.NewtonSolver(solve_subsystems=False, maxiter=30,
-                                               atol=1e-12, rtol=1e-12, iprint=-1,
-                                               err_on_non_converge=True)
+    coupled.nonlinear_solver = om.NewtonSolver(
+        solve_subsystems=False,
+        maxiter=30,
+        atol=1e-12,
+        rtol=1e-12,
+        iprint=-1,
+        err_on_non_converge=True,
+    )
     coupled.linear_solver = om.DirectSolver()
 
     model.add_subsystem('ref_fan', DuctedFanComp(vec_size=n))
@@ -139,9 +157,13 @@ def _solve_aft_fan(thrust):
     newton.options['maxiter'] = 0
     newton.options['err_on_non_converge'] = False
     prob.run_model()
-    start = initial_capture_height(prob.get_val('ref_fan.mass_flow'), RHO, SPEED,
-                                   prob.get_val('perimeter'),
-                                   prob.get_val('boundary_layer_thickness'))
+    start = initial_capture_height(
+        prob.get_val('ref_fan.mass_flow'),
+        RHO,
+        SPEED,
+        prob.get_val('perimeter'),
+        prob.get_val('boundary_layer_thickness'),
+    )
     prob.set_val('capture_height', start)
     newton.options['maxiter'] = 30
     newton.options['err_on_non_converge'] = True
@@ -155,14 +177,15 @@ def test_coupled_solve_cruise_aft_fan():
     height = prob.get_val('capture_height')
     delta = prob.get_val('boundary_layer_thickness')
     assert prob.get_val('captured_mass_flow') == pytest.approx(
-        prob.get_val('fan.mass_flow'), rel=1e-10)
+        prob.get_val('fan.mass_flow'), rel=1e-10
+    )
     assert 0.0 < height[0] < delta[0]
     # Ingestion changes the mass flow, so Newton had to move away from the starting value.
     assert abs(height[0] - start[0]) > 1e-3 * delta[0]
     # The fan meets its thrust with the ingested inflow: F = mdot (V_j - V_m).
     assert prob.get_val('fan.mass_flow') * (
-        prob.get_val('fan.jet_velocity') - prob.get_val('ram_velocity')) == pytest.approx(
-        7000.0, rel=1e-10)
+        prob.get_val('fan.jet_velocity') - prob.get_val('ram_velocity')
+    ) == pytest.approx(7000.0, rel=1e-10)
     # Power saving of fuselage boundary-layer ingestion is of the order of a few percent to a
     # few tens of percent; roughly 8 % less power than a podded fan was measured in wind-tunnel
     # tests of a BLI propulsor (common practice).
@@ -179,7 +202,8 @@ def test_coupled_solve_below_and_above_layer_edge():
     assert height[0] < delta[0] and height[1] < delta[1]
     assert height[2] > delta[2]
     assert prob.get_val('captured_mass_flow') == pytest.approx(
-        prob.get_val('fan.mass_flow'), rel=1e-10)
+        prob.get_val('fan.mass_flow'), rel=1e-10
+    )
     psc = prob.get_val('psc.power_saving_coefficient')
     # The more of the captured stream is slow boundary-layer fluid, the larger the saving.
     assert np.all(psc > 0.0)

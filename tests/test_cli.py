@@ -24,12 +24,28 @@ from voltwake.summary import CAUTION
 TURBO = demo_path('turbo_electric')
 CONVENTIONAL = demo_path('conventional')
 
-ANALYSIS_KEYS = {'converged', 'mtow_kg', 'oew_kg', 'payload_kg', 'block_fuel_kg',
-                 'reserve_fuel_kg', 'cruise_lift_to_drag', 'cruise_cl', 'tsfc_g_per_kN_s',
-                 'overall_efficiency', 'wingspan_m'}
-AFT_FAN_KEYS = {'power_saving_coefficient', 'aft_fan_shaft_power_kW', 'aft_fan_diameter_m',
-                'turbofan_power_extraction_kW', 'electrical_chain_efficiency',
-                'electrical_mass_kg', 'thermal_load_kW'}
+ANALYSIS_KEYS = {
+    'converged',
+    'mtow_kg',
+    'oew_kg',
+    'payload_kg',
+    'block_fuel_kg',
+    'reserve_fuel_kg',
+    'cruise_lift_to_drag',
+    'cruise_cl',
+    'tsfc_g_per_kN_s',
+    'overall_efficiency',
+    'wingspan_m',
+}
+AFT_FAN_KEYS = {
+    'power_saving_coefficient',
+    'aft_fan_shaft_power_kW',
+    'aft_fan_diameter_m',
+    'turbofan_power_extraction_kW',
+    'electrical_chain_efficiency',
+    'electrical_mass_kg',
+    'thermal_load_kW',
+}
 
 
 def run(argv):
@@ -43,8 +59,15 @@ def run(argv):
 def run_subprocess(argv, cwd):
     env = dict(os.environ, OPENMDAO_REPORTS='0')
     env.pop('VOLTWAKE_DEBUG', None)
-    return subprocess.run([sys.executable, '-m', 'voltwake.cli', *argv], cwd=cwd, env=env,
-                          capture_output=True, text=True, timeout=600, check=False)
+    return subprocess.run(
+        [sys.executable, '-m', 'voltwake.cli', *argv],
+        cwd=cwd,
+        env=env,
+        capture_output=True,
+        text=True,
+        timeout=600,
+        check=False,
+    )
 
 
 def assert_one_error_line(stderr):
@@ -68,12 +91,13 @@ def analyses():
 
 # --- analyze --json ------------------------------------------------------------------------
 
+
 @pytest.mark.parametrize('name', ['turbo', 'conventional'])
 def test_analyze_json_is_one_object_with_the_fields(analyses, name):
     code, stdout, stderr = analyses[name]
     assert code == EXIT_OK
     assert stderr == ''
-    result = json.loads(stdout)              # the whole output is one JSON document
+    result = json.loads(stdout)  # the whole output is one JSON document
     assert isinstance(result, dict)
     keys = ANALYSIS_KEYS | (AFT_FAN_KEYS if name == 'turbo' else set())
     assert keys <= result.keys()
@@ -89,11 +113,16 @@ def test_analyze_json_mass_and_fuel_balance(analyses, name, path):
     # MTOW = empty (operating) mass + payload + fuel: Raymer, Aircraft Design: A Conceptual
     # Approach, 6th ed., eq. 3.1 (from memory; crew counted in the operating empty mass).
     assert result['mtow_kg'] == pytest.approx(
-        result['oew_kg'] + result['payload_kg'] + result['block_fuel_kg']
-        + result['reserve_fuel_kg'], rel=1e-9)
+        result['oew_kg']
+        + result['payload_kg']
+        + result['block_fuel_kg']
+        + result['reserve_fuel_kg'],
+        rel=1e-9,
+    )
     # Wing span from the definition of aspect ratio, AR = b**2 / S (common practice).
     assert result['wingspan_m'] == pytest.approx(
-        math.sqrt(config.value('wing.aspect_ratio') * config.value('wing.area')), rel=1e-9)
+        math.sqrt(config.value('wing.aspect_ratio') * config.value('wing.area')), rel=1e-9
+    )
 
 
 @pytest.mark.parametrize('name, path', [('turbo', TURBO), ('conventional', CONVENTIONAL)])
@@ -105,9 +134,10 @@ def test_analyze_json_overall_efficiency(analyses, name, path):
     # constructor takes geometric height; the config altitude is geopotential).
     height = Atmosphere.geop2geom_height(config.value('mission.cruise_altitude'))
     speed = config.value('mission.cruise_mach') * Atmosphere(height).speed_of_sound[0]
-    tsfc = result['tsfc_g_per_kN_s'] * 1e-6           # g/(kN s) -> kg/(N s)
+    tsfc = result['tsfc_g_per_kN_s'] * 1e-6  # g/(kN s) -> kg/(N s)
     assert result['overall_efficiency'] == pytest.approx(
-        speed / (tsfc * config.value('fuel.heating_value')), rel=1e-9)
+        speed / (tsfc * config.value('fuel.heating_value')), rel=1e-9
+    )
 
 
 def test_analyze_json_power_balance_of_the_electrical_chain(analyses):
@@ -116,9 +146,11 @@ def test_analyze_json_power_balance_of_the_electrical_chain(analyses):
     # Energy conservation (common practice): the aft-fan shaft receives the extracted power
     # times the chain efficiency, and every watt lost in the chain is heat to reject.
     assert result['aft_fan_shaft_power_kW'] == pytest.approx(
-        extracted * result['electrical_chain_efficiency'], rel=1e-9)
+        extracted * result['electrical_chain_efficiency'], rel=1e-9
+    )
     assert result['thermal_load_kW'] == pytest.approx(
-        extracted - result['aft_fan_shaft_power_kW'], rel=1e-9)
+        extracted - result['aft_fan_shaft_power_kW'], rel=1e-9
+    )
     assert 0.0 < result['power_saving_coefficient'] < 1.0
     assert 0.0 < result['electrical_chain_efficiency'] < 1.0
     assert result['aft_fan_diameter_m'] > 0.0 and result['electrical_mass_kg'] > 0.0
@@ -136,8 +168,9 @@ def test_analyze_with_override_changes_the_design(analyses):
     assert code == EXIT_OK
     result, base = json.loads(stdout), json.loads(analyses['conventional'][1])
     # Span grows as the square root of the area at fixed aspect ratio (AR = b**2 / S).
-    assert result['wingspan_m'] == pytest.approx(base['wingspan_m'] * math.sqrt(130 / 122),
-                                                 rel=1e-9)
+    assert result['wingspan_m'] == pytest.approx(
+        base['wingspan_m'] * math.sqrt(130 / 122), rel=1e-9
+    )
 
 
 def test_analyze_json_through_python_m(tmp_path):
@@ -146,10 +179,11 @@ def test_analyze_json_through_python_m(tmp_path):
     assert proc.stderr == ''
     result = json.loads(proc.stdout)
     assert ANALYSIS_KEYS <= result.keys() and result['converged'] is True
-    assert list(tmp_path.iterdir()) == []                # no report files left behind
+    assert list(tmp_path.iterdir()) == []  # no report files left behind
 
 
 # --- text output ---------------------------------------------------------------------------
+
 
 def test_analyze_text_ends_with_the_caution(capsys):
     assert main(['analyze', TURBO]) == EXIT_OK
@@ -167,6 +201,7 @@ def test_compare_text_ends_with_the_caution(capsys):
 
 # --- compare --json ------------------------------------------------------------------------
 
+
 def test_compare_json(capsys, analyses):
     assert main(['compare', TURBO, '--json']) == EXIT_OK
     captured = capsys.readouterr()
@@ -178,16 +213,19 @@ def test_compare_json(capsys, analyses):
     assert design['power_saving_coefficient'] > 0.0
     assert reference.get('aft_thrust_fraction', 0.0) == 0.0
     assert comp['fuel_burn_change_percent'] == pytest.approx(
-        100.0 * (design['block_fuel_kg'] - reference['block_fuel_kg'])
-        / reference['block_fuel_kg'], rel=1e-9)
+        100.0 * (design['block_fuel_kg'] - reference['block_fuel_kg']) / reference['block_fuel_kg'],
+        rel=1e-9,
+    )
     # The reference is the same airframe without the aft fan: the conventional demo.
     conventional = json.loads(analyses['conventional'][1])
     assert reference['block_fuel_kg'] == pytest.approx(conventional['block_fuel_kg'], rel=1e-9)
     assert design['block_fuel_kg'] == pytest.approx(
-        json.loads(analyses['turbo'][1])['block_fuel_kg'], rel=1e-9)
+        json.loads(analyses['turbo'][1])['block_fuel_kg'], rel=1e-9
+    )
 
 
 # --- bad input: exit 2 with one line -------------------------------------------------------
+
 
 def bad_config(tmp_path):
     with open(TURBO, encoding='utf-8') as handle:
@@ -198,8 +236,9 @@ def bad_config(tmp_path):
     return str(path), line
 
 
-@pytest.mark.parametrize('command', [['analyze'], ['analyze', '--json'], ['compare'],
-                                     ['compare', '--json'], ['derivs']])
+@pytest.mark.parametrize(
+    'command', [['analyze'], ['analyze', '--json'], ['compare'], ['compare', '--json'], ['derivs']]
+)
 def test_bad_config_exits_2_with_one_line(capsys, tmp_path, command):
     path, line = bad_config(tmp_path)
     assert main([*command, path]) == EXIT_BAD_INPUT
@@ -209,13 +248,19 @@ def test_bad_config_exits_2_with_one_line(capsys, tmp_path, command):
     assert captured.out == ''
 
 
-@pytest.mark.parametrize('override, expected', [
-    ('wing.aspect_ratio=0', '--set: wing.aspect_ratio: got 0; expected a value > 0'),
-    ('wing.aera=3', "--set: wing.aera: unknown key (did you mean 'area'?)"),
-    ('mission.range=1500 kg', "--set: mission.range: got '1500 kg': unit 'kg' cannot be"),
-    ('mission.cruise_mach=1.2', '--set: mission.cruise_mach: got 1.2; expected a value in (0, 1)'),
-    ('mission.range', "--set: got 'mission.range'; expected key.path=value"),
-])
+@pytest.mark.parametrize(
+    'override, expected',
+    [
+        ('wing.aspect_ratio=0', '--set: wing.aspect_ratio: got 0; expected a value > 0'),
+        ('wing.aera=3', "--set: wing.aera: unknown key (did you mean 'area'?)"),
+        ('mission.range=1500 kg', "--set: mission.range: got '1500 kg': unit 'kg' cannot be"),
+        (
+            'mission.cruise_mach=1.2',
+            '--set: mission.cruise_mach: got 1.2; expected a value in (0, 1)',
+        ),
+        ('mission.range', "--set: got 'mission.range'; expected key.path=value"),
+    ],
+)
 def test_bad_override_exits_2_naming_set(capsys, override, expected):
     assert main(['analyze', TURBO, '--set', override]) == EXIT_BAD_INPUT
     message = assert_one_error_line(capsys.readouterr().err)
@@ -249,6 +294,7 @@ def test_bad_config_through_python_m(tmp_path):
 
 # --- designs that cannot close: exit 3 with one line ---------------------------------------
 
+
 def not_closed(capsys, path, override):
     assert main(['analyze', path, '--json', '--set', override]) == EXIT_NOT_CLOSED
     captured = capsys.readouterr()
@@ -281,12 +327,15 @@ def test_fan_pressure_ratio_barely_above_one(capsys, path):
     not_closed(capsys, path, 'turbofans.fan_pressure_ratio=1.01')
 
 
-@pytest.mark.parametrize('path, override, cause, not_cause', [
-    (TURBO, 'structure.airframe_mass_exponent=1.2', 'weight grows without bound', 'aft fan'),
-    (TURBO, 'turbofans.fan_pressure_ratio=1.01', 'under-wing fan', 'nan'),
-    (TURBO, 'aft_fan.fan_pressure_ratio=1.02', 'aft fan gives no thrust', 'nan'),
-    (CONVENTIONAL, 'structure.airframe_mass_exponent=1.05', 'MTOW', 'nan'),
-])
+@pytest.mark.parametrize(
+    'path, override, cause, not_cause',
+    [
+        (TURBO, 'structure.airframe_mass_exponent=1.2', 'weight grows without bound', 'aft fan'),
+        (TURBO, 'turbofans.fan_pressure_ratio=1.01', 'under-wing fan', 'nan'),
+        (TURBO, 'aft_fan.fan_pressure_ratio=1.02', 'aft fan gives no thrust', 'nan'),
+        (CONVENTIONAL, 'structure.airframe_mass_exponent=1.05', 'MTOW', 'nan'),
+    ],
+)
 def test_not_closed_reason_names_the_cause(capsys, path, override, cause, not_cause):
     message = not_closed(capsys, path, override)
     assert cause in message and not_cause not in message

@@ -103,6 +103,7 @@ def assert_points_at(err, source, line, path):
 
 # --- the demos themselves ------------------------------------------------------------------
 
+
 @pytest.mark.parametrize('path', [TURBO, CONVENTIONAL])
 def test_demos_load(path):
     config = load_config(path)
@@ -119,29 +120,31 @@ def test_unit_strings_of_the_demo_are_converted_to_si():
     # International nautical mile = 1852 m exactly (NIST SP 811, 2008 ed., appendix B.8).
     assert config.value('mission.range') == pytest.approx(1500 * 1852.0, rel=1e-12)
     assert config.value('reserves.hold_time') == pytest.approx(30 * 60.0, rel=1e-12)
-    assert config.value('electrical.generator.specific_power') == pytest.approx(9000.0,
-                                                                                rel=1e-12)
-    assert config.value('electrical.cable.current_density_limit') == pytest.approx(5e6,
-                                                                                   rel=1e-12)
+    assert config.value('electrical.generator.specific_power') == pytest.approx(9000.0, rel=1e-12)
+    assert config.value('electrical.cable.current_density_limit') == pytest.approx(5e6, rel=1e-12)
     assert config.value('fuel.heating_value') == pytest.approx(43.1e6, rel=1e-12)
 
 
-@pytest.mark.parametrize('written, units, expected', [
-    ('35000 ft', 'm', 10668.0),       # 1 ft = 0.3048 m exactly (NIST SP 811, appendix B.8)
-    ('1500 nmi', 'm', 2778000.0),     # 1 nmi = 1852 m exactly (NIST SP 811, appendix B.8)
-    ('10 kW/kg', 'W/kg', 10000.0),    # SI prefix k = 1e3 (BIPM SI Brochure, 9th ed.)
-    ('5 A/mm**2', 'A/m**2', 5e6),     # SI prefix m = 1e-3 (BIPM SI Brochure, 9th ed.)
-    ('1 kg/kW', 'kg/W', 1e-3),
-    ('122 m ** 2', 'm**2', 122.0),
-    ('2.5e3 m', 'm', 2500.0),
-    ('12.5', 'm', 12.5),              # no unit: the value is taken as SI
-    (12, 'm', 12.0),
-])
+@pytest.mark.parametrize(
+    'written, units, expected',
+    [
+        ('35000 ft', 'm', 10668.0),  # 1 ft = 0.3048 m exactly (NIST SP 811, appendix B.8)
+        ('1500 nmi', 'm', 2778000.0),  # 1 nmi = 1852 m exactly (NIST SP 811, appendix B.8)
+        ('10 kW/kg', 'W/kg', 10000.0),  # SI prefix k = 1e3 (BIPM SI Brochure, 9th ed.)
+        ('5 A/mm**2', 'A/m**2', 5e6),  # SI prefix m = 1e-3 (BIPM SI Brochure, 9th ed.)
+        ('1 kg/kW', 'kg/W', 1e-3),
+        ('122 m ** 2', 'm**2', 122.0),
+        ('2.5e3 m', 'm', 2500.0),
+        ('12.5', 'm', 12.5),  # no unit: the value is taken as SI
+        (12, 'm', 12.0),
+    ],
+)
 def test_parse_quantity_converts(written, units, expected):
     assert parse_quantity(written, units, {}) == pytest.approx(expected, rel=1e-12)
 
 
 # --- unknown and missing keys -------------------------------------------------------------
+
 
 def test_unknown_key_suggests_the_close_one(tmp_path):
     text, line = set_line(demo_text(), 'wing', 'area', 'aera: 122 m**2')
@@ -149,7 +152,7 @@ def test_unknown_key_suggests_the_close_one(tmp_path):
     err = config_error(path)
     assert_points_at(err, path, line, 'wing.aera')
     assert "unknown key (did you mean 'area'?)" in err.message
-    assert 'aspect_ratio' in err.message       # the keys known here are listed
+    assert 'aspect_ratio' in err.message  # the keys known here are listed
 
 
 def test_unknown_section_suggests_the_close_one(tmp_path):
@@ -186,26 +189,66 @@ def test_missing_section(tmp_path):
 
 # --- wrong types ---------------------------------------------------------------------------
 
-@pytest.mark.parametrize('section, key, new, path, shown, expected', [
-    ('wing', 'aspect_ratio', 'aspect_ratio: ten', 'wing.aspect_ratio', "'ten'",
-     'expected a number'),
-    ('wing', 'aspect_ratio', 'aspect_ratio: "10.5"', 'wing.aspect_ratio', "'10.5'",
-     'expected a number'),
-    ('wing', 'aspect_ratio', 'aspect_ratio: true', 'wing.aspect_ratio', 'True',
-     'expected a number'),
-    ('mission', 'payload', 'payload: yes', 'mission.payload', 'True',
-     'expected a number in kg'),
-    ('mission', 'range', 'range: [1500, nmi]', 'mission.range', "[1500, 'nmi']",
-     'expected a number in m'),
-    ('mission', 'range', 'range: far', 'mission.range', "'far'", 'expected a number in m'),
-    ('turbofans', 'count', 'count: 2.5', 'turbofans.count', '2.5', 'expected a whole number'),
-    ('turbofans', 'count', 'count: true', 'turbofans.count', 'True', 'expected a whole number'),
-    ('electrical', 'cable', 'cable: [1, 2]', 'electrical.cable', '[1, 2]',
-     'expected a mapping with keys voltage'),
-])
+
+@pytest.mark.parametrize(
+    'section, key, new, path, shown, expected',
+    [
+        (
+            'wing',
+            'aspect_ratio',
+            'aspect_ratio: ten',
+            'wing.aspect_ratio',
+            "'ten'",
+            'expected a number',
+        ),
+        (
+            'wing',
+            'aspect_ratio',
+            'aspect_ratio: "10.5"',
+            'wing.aspect_ratio',
+            "'10.5'",
+            'expected a number',
+        ),
+        (
+            'wing',
+            'aspect_ratio',
+            'aspect_ratio: true',
+            'wing.aspect_ratio',
+            'True',
+            'expected a number',
+        ),
+        (
+            'mission',
+            'payload',
+            'payload: yes',
+            'mission.payload',
+            'True',
+            'expected a number in kg',
+        ),
+        (
+            'mission',
+            'range',
+            'range: [1500, nmi]',
+            'mission.range',
+            "[1500, 'nmi']",
+            'expected a number in m',
+        ),
+        ('mission', 'range', 'range: far', 'mission.range', "'far'", 'expected a number in m'),
+        ('turbofans', 'count', 'count: 2.5', 'turbofans.count', '2.5', 'expected a whole number'),
+        ('turbofans', 'count', 'count: true', 'turbofans.count', 'True', 'expected a whole number'),
+        (
+            'electrical',
+            'cable',
+            'cable: [1, 2]',
+            'electrical.cable',
+            '[1, 2]',
+            'expected a mapping with keys voltage',
+        ),
+    ],
+)
 def test_wrong_type(tmp_path, section, key, new, path, shown, expected):
     text, line = set_line(demo_text(), section, key, new)
-    if key == 'cable':   # drop the old block under 'cable:' so only the type is wrong
+    if key == 'cable':  # drop the old block under 'cable:' so only the type is wrong
         lines = text.splitlines()
         while lines[line].startswith('    '):
             del lines[line]
@@ -242,54 +285,154 @@ def test_wrong_choice_suggests(tmp_path):
 
 # --- physically impossible values ----------------------------------------------------------
 
-@pytest.mark.parametrize('section, key, new, path, shown, expected', [
-    # efficiencies outside (0, 1]
-    ('turbofans', 'fan_efficiency', 'fan_efficiency: 1.2', 'turbofans.fan_efficiency',
-     '1.2', 'a value in (0, 1]'),
-    ('turbofans', 'fan_efficiency', 'fan_efficiency: 0', 'turbofans.fan_efficiency',
-     '0', 'a value in (0, 1]'),
-    ('turbofans', 'core_thermal_efficiency', 'core_thermal_efficiency: -0.4',
-     'turbofans.core_thermal_efficiency', '-0.4', 'a value in (0, 1]'),
-    ('wing', 'oswald_efficiency', 'oswald_efficiency: 1.01', 'wing.oswald_efficiency',
-     '1.01', 'a value in (0, 1]'),
-    ('electrical', 'generator', 'generator: {efficiency: 1.03, specific_power: 9 kW/kg}',
-     'electrical.generator.efficiency', '1.03', 'a value in (0, 1]'),
-    # negative lengths and masses, zero aspect ratio
-    ('fuselage', 'diameter', 'diameter: -3.9 m', 'fuselage.diameter', "'-3.9 m'",
-     'a value > 0'),
-    ('fuselage', 'diameter', 'diameter: -3.9', 'fuselage.diameter', '-3.9 m', 'a value > 0'),
-    ('electrical', 'length', 'length: -30 ft', 'electrical.cable.length',
-     "'-30 ft' (= -9.144 m)", 'a value > 0'),
-    ('mission', 'payload', 'payload: -12000 kg', 'mission.payload', "'-12000 kg'",
-     'a value > 0'),
-    ('wing', 'aspect_ratio', 'aspect_ratio: 0', 'wing.aspect_ratio', '0', 'a value > 0'),
-    ('wing', 'area', 'area: 0 m**2', 'wing.area', "'0 m**2'", 'a value > 0'),
-    # Mach number at or above one, or zero
-    ('mission', 'cruise_mach', 'cruise_mach: 1.0', 'mission.cruise_mach', '1.0',
-     'a value in (0, 1)'),
-    ('mission', 'cruise_mach', 'cruise_mach: 1.3', 'mission.cruise_mach', '1.3',
-     'a value in (0, 1)'),
-    ('mission', 'cruise_mach', 'cruise_mach: 0', 'mission.cruise_mach', '0',
-     'a value in (0, 1)'),
-    # NaN and infinity, as YAML writes them and inside unit strings
-    ('mission', 'cruise_mach', 'cruise_mach: .nan', 'mission.cruise_mach', 'nan',
-     'a finite number'),
-    ('wing', 'aspect_ratio', 'aspect_ratio: .inf', 'wing.aspect_ratio', 'inf',
-     'a finite number'),
-    ('wing', 'area', 'area: -.inf', 'wing.area', '-inf', 'a finite number'),
-    ('wing', 'area', 'area: .NaN', 'wing.area', 'nan', 'a finite number'),
-    ('mission', 'range', 'range: nan nmi', 'mission.range', 'nan', 'a finite number'),
-    ('mission', 'range', 'range: inf km', 'mission.range', 'inf', 'a finite number'),
-    ('mission', 'range', 'range: 1e400', 'mission.range', 'inf', 'a finite number'),
-    ('mission', 'payload', 'payload: 1' + '0' * 400, 'mission.payload', '1000',
-     'a finite number'),
-    # other limits of the schema
-    ('reserves', 'contingency_fraction', 'contingency_fraction: 1.0',
-     'reserves.contingency_fraction', '1.0', 'a value in [0, 1)'),
-    ('turbofans', 'count', 'count: 0', 'turbofans.count', '0', 'a value >= 1'),
-    ('turbofans', 'rated_to_cruise_thrust', 'rated_to_cruise_thrust: 0.5',
-     'turbofans.rated_to_cruise_thrust', '0.5', 'a value >= 1'),
-])
+
+@pytest.mark.parametrize(
+    'section, key, new, path, shown, expected',
+    [
+        # efficiencies outside (0, 1]
+        (
+            'turbofans',
+            'fan_efficiency',
+            'fan_efficiency: 1.2',
+            'turbofans.fan_efficiency',
+            '1.2',
+            'a value in (0, 1]',
+        ),
+        (
+            'turbofans',
+            'fan_efficiency',
+            'fan_efficiency: 0',
+            'turbofans.fan_efficiency',
+            '0',
+            'a value in (0, 1]',
+        ),
+        (
+            'turbofans',
+            'core_thermal_efficiency',
+            'core_thermal_efficiency: -0.4',
+            'turbofans.core_thermal_efficiency',
+            '-0.4',
+            'a value in (0, 1]',
+        ),
+        (
+            'wing',
+            'oswald_efficiency',
+            'oswald_efficiency: 1.01',
+            'wing.oswald_efficiency',
+            '1.01',
+            'a value in (0, 1]',
+        ),
+        (
+            'electrical',
+            'generator',
+            'generator: {efficiency: 1.03, specific_power: 9 kW/kg}',
+            'electrical.generator.efficiency',
+            '1.03',
+            'a value in (0, 1]',
+        ),
+        # negative lengths and masses, zero aspect ratio
+        (
+            'fuselage',
+            'diameter',
+            'diameter: -3.9 m',
+            'fuselage.diameter',
+            "'-3.9 m'",
+            'a value > 0',
+        ),
+        ('fuselage', 'diameter', 'diameter: -3.9', 'fuselage.diameter', '-3.9 m', 'a value > 0'),
+        (
+            'electrical',
+            'length',
+            'length: -30 ft',
+            'electrical.cable.length',
+            "'-30 ft' (= -9.144 m)",
+            'a value > 0',
+        ),
+        (
+            'mission',
+            'payload',
+            'payload: -12000 kg',
+            'mission.payload',
+            "'-12000 kg'",
+            'a value > 0',
+        ),
+        ('wing', 'aspect_ratio', 'aspect_ratio: 0', 'wing.aspect_ratio', '0', 'a value > 0'),
+        ('wing', 'area', 'area: 0 m**2', 'wing.area', "'0 m**2'", 'a value > 0'),
+        # Mach number at or above one, or zero
+        (
+            'mission',
+            'cruise_mach',
+            'cruise_mach: 1.0',
+            'mission.cruise_mach',
+            '1.0',
+            'a value in (0, 1)',
+        ),
+        (
+            'mission',
+            'cruise_mach',
+            'cruise_mach: 1.3',
+            'mission.cruise_mach',
+            '1.3',
+            'a value in (0, 1)',
+        ),
+        (
+            'mission',
+            'cruise_mach',
+            'cruise_mach: 0',
+            'mission.cruise_mach',
+            '0',
+            'a value in (0, 1)',
+        ),
+        # NaN and infinity, as YAML writes them and inside unit strings
+        (
+            'mission',
+            'cruise_mach',
+            'cruise_mach: .nan',
+            'mission.cruise_mach',
+            'nan',
+            'a finite number',
+        ),
+        (
+            'wing',
+            'aspect_ratio',
+            'aspect_ratio: .inf',
+            'wing.aspect_ratio',
+            'inf',
+            'a finite number',
+        ),
+        ('wing', 'area', 'area: -.inf', 'wing.area', '-inf', 'a finite number'),
+        ('wing', 'area', 'area: .NaN', 'wing.area', 'nan', 'a finite number'),
+        ('mission', 'range', 'range: nan nmi', 'mission.range', 'nan', 'a finite number'),
+        ('mission', 'range', 'range: inf km', 'mission.range', 'inf', 'a finite number'),
+        ('mission', 'range', 'range: 1e400', 'mission.range', 'inf', 'a finite number'),
+        (
+            'mission',
+            'payload',
+            'payload: 1' + '0' * 400,
+            'mission.payload',
+            '1000',
+            'a finite number',
+        ),
+        # other limits of the schema
+        (
+            'reserves',
+            'contingency_fraction',
+            'contingency_fraction: 1.0',
+            'reserves.contingency_fraction',
+            '1.0',
+            'a value in [0, 1)',
+        ),
+        ('turbofans', 'count', 'count: 0', 'turbofans.count', '0', 'a value >= 1'),
+        (
+            'turbofans',
+            'rated_to_cruise_thrust',
+            'rated_to_cruise_thrust: 0.5',
+            'turbofans.rated_to_cruise_thrust',
+            '0.5',
+            'a value >= 1',
+        ),
+    ],
+)
 def test_impossible_value(tmp_path, section, key, new, path, shown, expected):
     text, line = set_line(demo_text(), section, key, new)
     file = write(tmp_path, text)
@@ -308,15 +451,19 @@ def test_long_values_are_cut_in_the_message(tmp_path):
 
 # --- units ---------------------------------------------------------------------------------
 
-@pytest.mark.parametrize('new, expected', [
-    ('range: 1500 kg', "unit 'kg' cannot be converted to m"),
-    ('range: 1500 W', "unit 'W' cannot be converted to m"),
-    ('range: 1500 leagues', "unknown unit 'leagues'"),
-    ('range: 1500 m/', "unknown unit 'm/'"),
-    ('range: 1500 m^2', "unknown unit 'm^2'"),
-    ('range: 1500 kg)', "unknown unit 'kg)'"),
-    ('range: 1500 nmi nmi', "unknown unit 'nmi nmi'"),
-])
+
+@pytest.mark.parametrize(
+    'new, expected',
+    [
+        ('range: 1500 kg', "unit 'kg' cannot be converted to m"),
+        ('range: 1500 W', "unit 'W' cannot be converted to m"),
+        ('range: 1500 leagues', "unknown unit 'leagues'"),
+        ('range: 1500 m/', "unknown unit 'm/'"),
+        ('range: 1500 m^2', "unknown unit 'm^2'"),
+        ('range: 1500 kg)', "unknown unit 'kg)'"),
+        ('range: 1500 nmi nmi', "unknown unit 'nmi nmi'"),
+    ],
+)
 def test_bad_unit(tmp_path, new, expected):
     text, line = set_line(demo_text(), 'mission', 'range', new)
     file = write(tmp_path, text)
@@ -326,13 +473,16 @@ def test_bad_unit(tmp_path, new, expected):
     assert expected in err.message
 
 
-@pytest.mark.parametrize('unit', [
-    '().__class__.__base__.__subclasses__()',
-    '[m][0]',
-    "getattr(m, 'x')",
-    '9**9**9',           # would take forever to evaluate
-    'm**2**2**2',
-])
+@pytest.mark.parametrize(
+    'unit',
+    [
+        '().__class__.__base__.__subclasses__()',
+        '[m][0]',
+        "getattr(m, 'x')",
+        '9**9**9',  # would take forever to evaluate
+        'm**2**2**2',
+    ],
+)
 def test_unit_strings_are_never_evaluated_as_code(unit):
     # OpenMDAO evaluates unit strings as Python expressions; only plain unit expressions
     # may reach it.
@@ -356,11 +506,12 @@ def test_exponent_floats_are_numbers(tmp_path):
 
 # --- YAML-level problems -------------------------------------------------------------------
 
+
 def test_yaml_syntax_error_names_its_line(tmp_path):
     text = demo_text()
     line = key_line(text, 'wing', 'aspect_ratio')
     lines = text.splitlines()
-    lines[line - 1] = ' aspect_ratio: 10.5'        # indented one space: breaks the mapping
+    lines[line - 1] = ' aspect_ratio: 10.5'  # indented one space: breaks the mapping
     file = write(tmp_path, '\n'.join(lines) + '\n')
     err = config_error(file)
     assert err.source == file and err.line == line
@@ -368,8 +519,12 @@ def test_yaml_syntax_error_names_its_line(tmp_path):
 
 
 def test_unclosed_flow_mapping(tmp_path):
-    text, line = set_line(demo_text(), 'electrical', 'generator',
-                          'generator: {efficiency: 0.97, specific_power: 9 kW/kg')
+    text, line = set_line(
+        demo_text(),
+        'electrical',
+        'generator',
+        'generator: {efficiency: 0.97, specific_power: 9 kW/kg',
+    )
     err = config_error(write(tmp_path, text))
     assert 'not valid YAML' in err.message
     assert err.line is not None and err.line >= line
@@ -419,7 +574,7 @@ def test_duplicate_key_names_both_lines(tmp_path):
     text = demo_text()
     first = key_line(text, 'wing', 'area')
     lines = text.splitlines()
-    lines.insert(first + 1, '  area: 130 m**2')     # after aspect_ratio
+    lines.insert(first + 1, '  area: 130 m**2')  # after aspect_ratio
     file = write(tmp_path, '\n'.join(lines) + '\n')
     err = config_error(file)
     assert_points_at(err, file, first + 2, 'wing.area')
@@ -474,16 +629,22 @@ def test_deep_nesting_is_refused():
     assert 'a' in yamlio.parse_yaml(shallow)[0]
 
 
-@pytest.mark.parametrize('text, expected', [
-    ('a: !!python/object/apply:os.system [echo]\n', "unsupported tag 'tag:yaml.org,2002:python"),
-    ('a: !!python/name:os.system\n', 'could not determine a constructor'),
-    ('a: !!set {x, y}\n', "unsupported tag 'tag:yaml.org,2002:set'"),
-    ('a: !custom {x: 1}\n', "unsupported tag '!custom'"),
-    ('a: 1\n---\nb: 2\n', 'expected a single document'),
-    ('a: 1\n<<: {b: 2}\n', 'merge keys'),
-    ('[1, 2]: 3\n', 'mapping keys must be plain words'),
-    ('a: 1' + '0' * 5000 + '\n', 'too many digits'),
-])
+@pytest.mark.parametrize(
+    'text, expected',
+    [
+        (
+            'a: !!python/object/apply:os.system [echo]\n',
+            "unsupported tag 'tag:yaml.org,2002:python",
+        ),
+        ('a: !!python/name:os.system\n', 'could not determine a constructor'),
+        ('a: !!set {x, y}\n', "unsupported tag 'tag:yaml.org,2002:set'"),
+        ('a: !custom {x: 1}\n', "unsupported tag '!custom'"),
+        ('a: 1\n---\nb: 2\n', 'expected a single document'),
+        ('a: 1\n<<: {b: 2}\n', 'merge keys'),
+        ('[1, 2]: 3\n', 'mapping keys must be plain words'),
+        ('a: 1' + '0' * 5000 + '\n', 'too many digits'),
+    ],
+)
 def test_hostile_or_unsupported_yaml(text, expected):
     with pytest.raises(ConfigError, match=re.escape(expected)) as info:
         yamlio.parse_yaml(text, 'odd.yaml')
@@ -492,6 +653,7 @@ def test_hostile_or_unsupported_yaml(text, expected):
 
 
 # --- aft fan and electrical chain come together --------------------------------------------
+
 
 def test_aft_fan_without_electrical(tmp_path):
     text = drop_section(demo_text(), 'electrical')
@@ -512,15 +674,20 @@ def test_electrical_without_aft_fan(tmp_path):
 def test_zero_thrust_fraction_is_the_conventional_aircraft():
     config = load_config(TURBO, ['aft_fan.thrust_fraction=0'])
     assert not config.has_aft_fan
-    assert not any(name.startswith(('aft_', 'cable_', 'motor_', 'generator_'))
-                   for name in config.model_inputs())
+    assert not any(
+        name.startswith(('aft_', 'cable_', 'motor_', 'generator_'))
+        for name in config.model_inputs()
+    )
 
 
 # --- overrides -----------------------------------------------------------------------------
 
+
 def test_string_overrides_apply_with_units():
-    config = load_config(TURBO, ['wing.area=130 m**2', 'mission.range = 1200 nmi',
-                                 'turbofans.count=3', "aircraft=renamed"])
+    config = load_config(
+        TURBO,
+        ['wing.area=130 m**2', 'mission.range = 1200 nmi', 'turbofans.count=3', "aircraft=renamed"],
+    )
     assert config.value('wing.area') == 130.0
     # 1 nmi = 1852 m exactly (NIST SP 811, appendix B.8).
     assert config.value('mission.range') == pytest.approx(1200 * 1852.0, rel=1e-12)
@@ -531,9 +698,13 @@ def test_string_overrides_apply_with_units():
 
 
 def test_dict_overrides_apply_and_take_sections():
-    config = load_config(TURBO, {'wing.area': 125.0,
-                                 'electrical.motor': {'efficiency': 0.95,
-                                                      'specific_power': '12 kW/kg'}})
+    config = load_config(
+        TURBO,
+        {
+            'wing.area': 125.0,
+            'electrical.motor': {'efficiency': 0.95, 'specific_power': '12 kW/kg'},
+        },
+    )
     assert config.value('wing.area') == 125.0
     assert config.value('electrical.motor.efficiency') == 0.95
     assert config.value('electrical.motor.specific_power') == 12000.0
@@ -542,32 +713,40 @@ def test_dict_overrides_apply_and_take_sections():
 def test_overrides_apply_before_validation(tmp_path):
     text, _ = set_line(demo_text(), 'wing', 'aspect_ratio', 'aspect_ratio: -1')
     file = write(tmp_path, text)
-    config_error(file)                                    # invalid as written ...
-    config = load_config(file, ['wing.aspect_ratio=9'])   # ... valid once overridden
+    config_error(file)  # invalid as written ...
+    config = load_config(file, ['wing.aspect_ratio=9'])  # ... valid once overridden
     assert config.value('wing.aspect_ratio') == 9.0
     missing = write(tmp_path, drop_line(demo_text(), 'wing', 'area'), name='missing.yaml')
     assert load_config(missing, {'wing.area': 100}).value('wing.area') == 100.0
 
 
 def test_override_yaml_values():
-    config = load_config(TURBO, ['solver.tolerance=1e-9',
-                                 'electrical.generator={efficiency: 0.9, specific_power: 8e3}'])
+    config = load_config(
+        TURBO,
+        ['solver.tolerance=1e-9', 'electrical.generator={efficiency: 0.9, specific_power: 8e3}'],
+    )
     assert config.value('solver.tolerance') == 1e-9
     assert config.value('electrical.generator.efficiency') == 0.9
     assert config.value('electrical.generator.specific_power') == 8000.0
 
 
-@pytest.mark.parametrize('override, path, expected', [
-    ('wing.aspect_ratio=-1', 'wing.aspect_ratio', 'got -1; expected a value > 0'),
-    ('wing.aera=130', 'wing.aera', "unknown key (did you mean 'area'?)"),
-    ('mission.range=1500 kg', 'mission.range', "unit 'kg' cannot be converted to m"),
-    ('mission=3', 'mission', 'got 3; expected a mapping'),
-    ('mission.cruise_mach=.nan', 'mission.cruise_mach', 'a finite number'),
-    ('mission.cruise_mach=', 'mission.cruise_mach', "got ''; expected a number"),
-    ('electrical.generator={efficiency: 0.9}', 'electrical.generator.specific_power',
-     'missing required key'),
-    ('optimisation.objective=mtow', 'optimisation', "did you mean 'optimization'?"),
-])
+@pytest.mark.parametrize(
+    'override, path, expected',
+    [
+        ('wing.aspect_ratio=-1', 'wing.aspect_ratio', 'got -1; expected a value > 0'),
+        ('wing.aera=130', 'wing.aera', "unknown key (did you mean 'area'?)"),
+        ('mission.range=1500 kg', 'mission.range', "unit 'kg' cannot be converted to m"),
+        ('mission=3', 'mission', 'got 3; expected a mapping'),
+        ('mission.cruise_mach=.nan', 'mission.cruise_mach', 'a finite number'),
+        ('mission.cruise_mach=', 'mission.cruise_mach', "got ''; expected a number"),
+        (
+            'electrical.generator={efficiency: 0.9}',
+            'electrical.generator.specific_power',
+            'missing required key',
+        ),
+        ('optimisation.objective=mtow', 'optimisation', "did you mean 'optimization'?"),
+    ],
+)
 def test_bad_override_is_reported_as_from_set(override, path, expected):
     err = config_error(TURBO, [override])
     assert_points_at(err, '--set', None, path)
@@ -585,12 +764,15 @@ def test_section_created_by_an_override_is_reported_as_from_set():
     assert 'missing required key' in err.message
 
 
-@pytest.mark.parametrize('override, expected', [
-    ('wing.area', 'expected key.path=value'),
-    ('=3', 'expected key.path=value'),
-    ('wing..area=3', 'expected a dotted key path'),
-    ('aircraft.name=x', "'aircraft' is not a section"),
-])
+@pytest.mark.parametrize(
+    'override, expected',
+    [
+        ('wing.area', 'expected key.path=value'),
+        ('=3', 'expected key.path=value'),
+        ('wing..area=3', 'expected a dotted key path'),
+        ('aircraft.name=x', "'aircraft' is not a section"),
+    ],
+)
 def test_malformed_override(override, expected):
     err = config_error(TURBO, [override])
     assert err.source == '--set' and err.line is None
@@ -598,7 +780,7 @@ def test_malformed_override(override, expected):
 
 
 def test_alias_bomb_in_an_override_is_refused():
-    flow = '{' + ', '.join(billion_laughs().splitlines()) + '}'     # the same, in flow style
+    flow = '{' + ', '.join(billion_laughs().splitlines()) + '}'  # the same, in flow style
     err = config_error(TURBO, [f'aircraft={flow}'])
     assert err.source == '--set'
     assert f'more than {yamlio.MAX_NODES} nodes' in err.message
@@ -629,6 +811,7 @@ def test_file_errors_keep_file_and_line_next_to_overrides(tmp_path):
 
 # --- scripting entry points ----------------------------------------------------------------
 
+
 def test_load_config_from_a_dict_matches_the_file():
     data = yamlio.read_yaml_file(TURBO)[0]
     from_dict, from_file = load_config(data), load_config(TURBO)
@@ -649,8 +832,7 @@ def test_dict_accepts_numpy_scalars():
     data['turbofans']['count'] = np.int64(3)
     data['wing']['aspect_ratio'] = np.float32(9.5)
     config = load_config(data)
-    assert config.value('turbofans.count') == 3 and isinstance(config.value('turbofans.count'),
-                                                              int)
+    assert config.value('turbofans.count') == 3 and isinstance(config.value('turbofans.count'), int)
     assert config.value('wing.aspect_ratio') == 9.5
 
 
@@ -672,11 +854,14 @@ def test_without_aft_fan_drops_both_sections():
     reference = design.without_aft_fan()
     assert design.has_aft_fan and not reference.has_aft_fan
     assert 'aft_fan' not in reference.data and 'electrical' not in reference.data
-    assert 'aft_fan' in design.data and 'electrical' in design.data     # original unchanged
+    assert 'aft_fan' in design.data and 'electrical' in design.data  # original unchanged
     assert not any(path.startswith(('aft_fan.', 'electrical.')) for path in reference.values)
     assert reference.name == f'{design.name} (conventional reference)'
-    shared = {k: v for k, v in design.values.items()
-              if not k.startswith(('aft_fan.', 'electrical.')) and k != 'aircraft'}
+    shared = {
+        k: v
+        for k, v in design.values.items()
+        if not k.startswith(('aft_fan.', 'electrical.')) and k != 'aircraft'
+    }
     assert all(reference.values[k] == v for k, v in shared.items())
     assert not reference.model_options()['aft_fan']
 

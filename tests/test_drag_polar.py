@@ -20,17 +20,28 @@ def _run(component, inputs):
 
 
 def test_hand_values():
-    prob = _run(DragPolarComp(), {
-        'lift_coefficient': 0.5, 'aspect_ratio': 10.0, 'oswald_efficiency': 0.8,
-        'wing_area': 100.0, 'dynamic_pressure': 1.0e4, 'cd0_other': 0.01,
-        'fuselage_drag_area': 0.6, 'nacelle_drag_area': 0.3, 'aft_nacelle_drag_area': 0.1,
-        'extra_drag': 500.0})
+    prob = _run(
+        DragPolarComp(),
+        {
+            'lift_coefficient': 0.5,
+            'aspect_ratio': 10.0,
+            'oswald_efficiency': 0.8,
+            'wing_area': 100.0,
+            'dynamic_pressure': 1.0e4,
+            'cd0_other': 0.01,
+            'fuselage_drag_area': 0.6,
+            'nacelle_drag_area': 0.3,
+            'aft_nacelle_drag_area': 0.1,
+            'extra_drag': 500.0,
+        },
+    )
     # Hand calculation from the formulas in the class docstring:
     # CD0 = 0.01 + (0.6 + 0.3 + 0.1) / 100 = 0.02; CDi = 0.25 / (8 pi) = 0.009947183943243;
     # D = 1e4 * 100 * (0.02 + CDi) + 500 = 30447.18394324 N; L/D = 5e5 / D = 16.42187996539.
     assert prob.get_val('zero_lift_drag_coefficient')[0] == pytest.approx(0.02, rel=1e-14)
-    assert prob.get_val('induced_drag_coefficient')[0] == pytest.approx(0.009947183943243,
-                                                                        rel=1e-12)
+    assert prob.get_val('induced_drag_coefficient')[0] == pytest.approx(
+        0.009947183943243, rel=1e-12
+    )
     assert prob.get_val('drag_coefficient')[0] == pytest.approx(0.029947183943243, rel=1e-12)
     assert prob.get_val('drag')[0] == pytest.approx(30447.18394324, rel=1e-12)
     assert prob.get_val('lift_to_drag')[0] == pytest.approx(16.42187996539, rel=1e-12)
@@ -43,11 +54,19 @@ def test_best_lift_to_drag_by_scan():
     lift_coefficient = np.linspace(0.1, 1.5, 4001)
     step = lift_coefficient[1] - lift_coefficient[0]
     n = lift_coefficient.size
-    prob = _run(DragPolarComp(vec_size=n), {
-        'lift_coefficient': lift_coefficient, 'aspect_ratio': np.full(n, 9.5),
-        'oswald_efficiency': np.full(n, 0.8), 'wing_area': np.full(n, 120.0),
-        'cd0_other': np.full(n, 0.012), 'fuselage_drag_area': np.full(n, 0.8),
-        'nacelle_drag_area': np.full(n, 0.2), 'aft_nacelle_drag_area': np.full(n, 0.1)})
+    prob = _run(
+        DragPolarComp(vec_size=n),
+        {
+            'lift_coefficient': lift_coefficient,
+            'aspect_ratio': np.full(n, 9.5),
+            'oswald_efficiency': np.full(n, 0.8),
+            'wing_area': np.full(n, 120.0),
+            'cd0_other': np.full(n, 0.012),
+            'fuselage_drag_area': np.full(n, 0.8),
+            'nacelle_drag_area': np.full(n, 0.2),
+            'aft_nacelle_drag_area': np.full(n, 0.1),
+        },
+    )
     cd0 = 0.012 + 1.1 / 120.0
     best_cl = np.sqrt(cd0 * np.pi * 0.8 * 9.5)
     ratio = prob.get_val('lift_to_drag')
@@ -67,16 +86,30 @@ def test_extra_drag_adds_force_only():
 
 
 POINTS = [
-    {'lift_coefficient': [0.3, 0.5, 0.7], 'aspect_ratio': [9.0, 10.5, 12.0],
-     'oswald_efficiency': [0.75, 0.8, 0.85], 'wing_area': [110.0, 122.0, 140.0],
-     'dynamic_pressure': [8.0e3, 1.0e4, 1.3e4], 'cd0_other': [0.010, 0.012, 0.014],
-     'fuselage_drag_area': [0.7, 0.8, 0.9], 'nacelle_drag_area': [0.15, 0.2, 0.25],
-     'aft_nacelle_drag_area': [0.0, 0.05, 0.1], 'extra_drag': [0.0, 300.0, 800.0]},
-    {'lift_coefficient': [1.2, 0.9, 0.2], 'aspect_ratio': [7.0, 14.0, 8.0],
-     'oswald_efficiency': [0.7, 0.9, 0.82], 'wing_area': [60.0, 300.0, 90.0],
-     'dynamic_pressure': [3.0e3, 6.0e3, 1.6e4], 'cd0_other': [0.02, 0.009, 0.015],
-     'fuselage_drag_area': [0.4, 1.8, 0.6], 'nacelle_drag_area': [0.1, 0.5, 0.12],
-     'aft_nacelle_drag_area': [0.02, 0.2, 0.0], 'extra_drag': [100.0, 0.0, 2000.0]},
+    {
+        'lift_coefficient': [0.3, 0.5, 0.7],
+        'aspect_ratio': [9.0, 10.5, 12.0],
+        'oswald_efficiency': [0.75, 0.8, 0.85],
+        'wing_area': [110.0, 122.0, 140.0],
+        'dynamic_pressure': [8.0e3, 1.0e4, 1.3e4],
+        'cd0_other': [0.010, 0.012, 0.014],
+        'fuselage_drag_area': [0.7, 0.8, 0.9],
+        'nacelle_drag_area': [0.15, 0.2, 0.25],
+        'aft_nacelle_drag_area': [0.0, 0.05, 0.1],
+        'extra_drag': [0.0, 300.0, 800.0],
+    },
+    {
+        'lift_coefficient': [1.2, 0.9, 0.2],
+        'aspect_ratio': [7.0, 14.0, 8.0],
+        'oswald_efficiency': [0.7, 0.9, 0.82],
+        'wing_area': [60.0, 300.0, 90.0],
+        'dynamic_pressure': [3.0e3, 6.0e3, 1.6e4],
+        'cd0_other': [0.02, 0.009, 0.015],
+        'fuselage_drag_area': [0.4, 1.8, 0.6],
+        'nacelle_drag_area': [0.1, 0.5, 0.12],
+        'aft_nacelle_drag_area': [0.02, 0.2, 0.0],
+        'extra_drag': [100.0, 0.0, 2000.0],
+    },
 ]
 
 

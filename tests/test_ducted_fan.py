@@ -23,7 +23,7 @@ MACH = 0.78
 
 def _freestream():
     """Return total temperature, total pressure and speed at the cruise point (isentropic)."""
-    f = 1.0 + 0.5 * (GAMMA - 1.0) * MACH ** 2
+    f = 1.0 + 0.5 * (GAMMA - 1.0) * MACH**2
     tt = T_35K * f
     pt = P_35K * f ** (GAMMA / (GAMMA - 1.0))
     v = MACH * math.sqrt(GAMMA * R * T_35K)
@@ -42,10 +42,18 @@ def _run(vec_size=1, **inputs):
 
 def _podded(fpr=1.5, eta=0.92, thrust=18000.0, fan_mach=0.65, htr=0.3, vec_size=1):
     tt, pt, v = _freestream()
-    return _run(vec_size=vec_size, net_thrust=thrust, inflow_total_temperature=tt,
-                inflow_total_pressure=pt, ram_velocity=v, ambient_pressure=P_35K,
-                fan_pressure_ratio=fpr, fan_efficiency=eta, fan_face_mach=fan_mach,
-                hub_to_tip_ratio=htr)
+    return _run(
+        vec_size=vec_size,
+        net_thrust=thrust,
+        inflow_total_temperature=tt,
+        inflow_total_pressure=pt,
+        ram_velocity=v,
+        ambient_pressure=P_35K,
+        fan_pressure_ratio=fpr,
+        fan_efficiency=eta,
+        fan_face_mach=fan_mach,
+        hub_to_tip_ratio=htr,
+    )
 
 
 def test_cruise_point_matches_isa():
@@ -62,16 +70,18 @@ def test_hand_calculation_at_cruise():
     tt, pt, v = _freestream()
     k = (GAMMA - 1.0) / GAMMA
 
-    tt2 = tt * (1.0 + (fpr ** k - 1.0) / eta)
+    tt2 = tt * (1.0 + (fpr**k - 1.0) / eta)
     pt2 = fpr * pt
     v_jet = math.sqrt(2.0 * CP * tt2 * (1.0 - (P_35K / pt2) ** k))
     mdot = thrust / (v_jet - v)
     power = mdot * CP * (tt2 - tt)
-    mfp = (math.sqrt(GAMMA / R) * fan_mach
-           * (1.0 + 0.5 * (GAMMA - 1.0) * fan_mach ** 2) ** (-(GAMMA + 1.0)
-                                                              / (2.0 * (GAMMA - 1.0))))
+    mfp = (
+        math.sqrt(GAMMA / R)
+        * fan_mach
+        * (1.0 + 0.5 * (GAMMA - 1.0) * fan_mach**2) ** (-(GAMMA + 1.0) / (2.0 * (GAMMA - 1.0)))
+    )
     area = mdot * math.sqrt(tt) / (pt * mfp)
-    diam = math.sqrt(4.0 * area / (math.pi * (1.0 - htr ** 2)))
+    diam = math.sqrt(4.0 * area / (math.pi * (1.0 - htr**2)))
 
     prob = _podded(fpr, eta, thrust, fan_mach, htr)
     assert prob.get_val('fan_exit_total_temperature')[0] == pytest.approx(tt2, rel=1e-12)
@@ -91,7 +101,7 @@ def test_froude_propulsive_efficiency():
     vj = prob.get_val('jet_velocity')
     mdot = prob.get_val('mass_flow')
     thrust = prob.get_val('net_thrust')
-    eta_p = thrust * v / (mdot * (vj ** 2 - v ** 2) / 2.0)
+    eta_p = thrust * v / (mdot * (vj**2 - v**2) / 2.0)
     assert np.allclose(eta_p, 2.0 / (1.0 + vj / v), rtol=1e-12)
 
 
@@ -102,7 +112,7 @@ def test_ideal_power_equals_jet_kinetic_energy_rise():
     prob = _podded(fpr=np.array([1.2, 1.5, 1.8]), eta=1.0, vec_size=3)
     vj = prob.get_val('jet_velocity')
     mdot = prob.get_val('mass_flow')
-    assert np.allclose(prob.get_val('shaft_power'), mdot * (vj ** 2 - v ** 2) / 2.0, rtol=1e-10)
+    assert np.allclose(prob.get_val('shaft_power'), mdot * (vj**2 - v**2) / 2.0, rtol=1e-10)
 
 
 def test_fan_losses_cost_power():
@@ -111,7 +121,7 @@ def test_fan_losses_cost_power():
     prob = _podded(eta=0.92)
     vj = prob.get_val('jet_velocity')[0]
     mdot = prob.get_val('mass_flow')[0]
-    assert prob.get_val('shaft_power')[0] > mdot * (vj ** 2 - v ** 2) / 2.0
+    assert prob.get_val('shaft_power')[0] > mdot * (vj**2 - v**2) / 2.0
 
 
 def test_lower_fpr_gives_more_flow_bigger_fan_less_power():
@@ -132,7 +142,8 @@ def test_choked_mass_flow_parameter():
     assert mfp == pytest.approx(0.0404, rel=2e-3)
     # With no hub the annulus is a full disc, A = pi D^2 / 4 (geometry).
     assert prob.get_val('fan_face_area')[0] == pytest.approx(
-        math.pi * prob.get_val('fan_diameter')[0] ** 2 / 4.0, rel=1e-12)
+        math.pi * prob.get_val('fan_diameter')[0] ** 2 / 4.0, rel=1e-12
+    )
 
 
 @pytest.mark.filterwarnings('ignore:invalid value encountered in sqrt:RuntimeWarning')
@@ -141,8 +152,14 @@ def test_no_thrust_regime_is_not_hidden():
     # and a low FPR: the jet is slower than the inflow and the model reports negative
     # specific thrust and mass flow (documented behaviour, checked by the enclosing model).
     tt, pt, v = _freestream()
-    prob = _run(net_thrust=5000.0, inflow_total_temperature=tt, inflow_total_pressure=0.9 * pt,
-                ram_velocity=v, ambient_pressure=P_35K, fan_pressure_ratio=1.05)
+    prob = _run(
+        net_thrust=5000.0,
+        inflow_total_temperature=tt,
+        inflow_total_pressure=0.9 * pt,
+        ram_velocity=v,
+        ambient_pressure=P_35K,
+        fan_pressure_ratio=1.05,
+    )
     assert prob.get_val('jet_velocity')[0] < v
     assert prob.get_val('specific_thrust')[0] < 0.0
     assert prob.get_val('mass_flow')[0] < 0.0
@@ -152,30 +169,36 @@ def test_no_thrust_regime_is_not_hidden():
 
 def test_partials_podded_cruise():
     tt, pt, v = _freestream()
-    check_component_partials(DuctedFanComp(vec_size=3), {
-        'net_thrust': [15000.0, 18000.0, 22000.0],
-        'inflow_total_temperature': [240.0, tt, 250.0],
-        'inflow_total_pressure': [34000.0, pt, 37000.0],
-        'ram_velocity': [220.0, v, 240.0],
-        'ambient_pressure': [23000.0, P_35K, 24500.0],
-        'fan_pressure_ratio': [1.35, 1.5, 1.65],
-        'fan_efficiency': [0.9, 0.92, 0.94],
-        'fan_face_mach': [0.6, 0.65, 0.7],
-        'hub_to_tip_ratio': [0.25, 0.3, 0.35],
-    })
+    check_component_partials(
+        DuctedFanComp(vec_size=3),
+        {
+            'net_thrust': [15000.0, 18000.0, 22000.0],
+            'inflow_total_temperature': [240.0, tt, 250.0],
+            'inflow_total_pressure': [34000.0, pt, 37000.0],
+            'ram_velocity': [220.0, v, 240.0],
+            'ambient_pressure': [23000.0, P_35K, 24500.0],
+            'fan_pressure_ratio': [1.35, 1.5, 1.65],
+            'fan_efficiency': [0.9, 0.92, 0.94],
+            'fan_face_mach': [0.6, 0.65, 0.7],
+            'hub_to_tip_ratio': [0.25, 0.3, 0.35],
+        },
+    )
 
 
 def test_partials_wake_ingesting_and_static():
     # Wake-like inflow (lower total pressure and ram velocity) and a static sea-level point
     # (ISA sea level: 288.15 K, 101325 Pa; ISO 2533:1975).
-    check_component_partials(DuctedFanComp(vec_size=3), {
-        'net_thrust': [4000.0, 6000.0, 80000.0],
-        'inflow_total_temperature': [244.0, 246.0, 288.15],
-        'inflow_total_pressure': [33000.0, 34500.0, 101325.0],
-        'ram_velocity': [170.0, 190.0, 0.0],
-        'ambient_pressure': [23842.0, 23842.0, 101325.0],
-        'fan_pressure_ratio': [1.25, 1.4, 1.45],
-        'fan_efficiency': [0.93, 0.91, 0.88],
-        'fan_face_mach': [0.55, 0.62, 0.5],
-        'hub_to_tip_ratio': [0.4, 0.45, 0.3],
-    })
+    check_component_partials(
+        DuctedFanComp(vec_size=3),
+        {
+            'net_thrust': [4000.0, 6000.0, 80000.0],
+            'inflow_total_temperature': [244.0, 246.0, 288.15],
+            'inflow_total_pressure': [33000.0, 34500.0, 101325.0],
+            'ram_velocity': [170.0, 190.0, 0.0],
+            'ambient_pressure': [23842.0, 23842.0, 101325.0],
+            'fan_pressure_ratio': [1.25, 1.4, 1.45],
+            'fan_efficiency': [0.93, 0.91, 0.88],
+            'fan_face_mach': [0.55, 0.62, 0.5],
+            'hub_to_tip_ratio': [0.4, 0.45, 0.3],
+        },
+    )

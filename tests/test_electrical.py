@@ -14,8 +14,12 @@ from partials import check_component_partials
 
 DEVICES = ['generator', 'rectifier', 'inverter', 'motor']
 # Demo inputs for the chain (not check values): efficiency, specific power (W/kg), sizing factor.
-DEMO_DEVICES = {'generator': (0.97, 12.0e3, 1.3), 'rectifier': (0.99, 15.0e3, 1.3),
-                'inverter': (0.99, 15.0e3, 1.3), 'motor': (0.96, 8.0e3, 1.3)}
+DEMO_DEVICES = {
+    'generator': (0.97, 12.0e3, 1.3),
+    'rectifier': (0.99, 15.0e3, 1.3),
+    'inverter': (0.99, 15.0e3, 1.3),
+    'motor': (0.96, 8.0e3, 1.3),
+}
 
 
 def machine_in_published_range(specific_power_kw_per_kg, efficiency):
@@ -41,10 +45,18 @@ def machine_in_published_range(specific_power_kw_per_kg, efficiency):
     return bool(5.0 <= specific_power_kw_per_kg <= 20.0 and 0.95 <= efficiency <= 0.99)
 
 
-@pytest.mark.parametrize('sp, eta, expected', [
-    (10.0, 0.97, True), (5.0, 0.95, True), (20.0, 0.99, True),
-    (2.0, 0.97, False), (25.0, 0.97, False), (10.0, 0.90, False), (10.0, 0.995, False),
-])
+@pytest.mark.parametrize(
+    'sp, eta, expected',
+    [
+        (10.0, 0.97, True),
+        (5.0, 0.95, True),
+        (20.0, 0.99, True),
+        (2.0, 0.97, False),
+        (25.0, 0.97, False),
+        (10.0, 0.90, False),
+        (10.0, 0.995, False),
+    ],
+)
 def test_machine_in_published_range(sp, eta, expected):
     assert machine_in_published_range(sp, eta) is expected
 
@@ -70,8 +82,13 @@ def test_device_hand_case():
     # Hand arithmetic of P_in = P_out / eta, loss = P_in - P_out, P_rated = k P_out,
     # m = P_rated / P_spec: 3 MW at 0.96 -> 3.125 MW in, 125 kW loss; rated 3.9 MW;
     # at 8 kW/kg -> 487.5 kg.
-    prob = run_comp(ElectricalDeviceComp(), output_power=3.0e6, efficiency=0.96,
-                    specific_power=8.0e3, sizing_factor=1.3)
+    prob = run_comp(
+        ElectricalDeviceComp(),
+        output_power=3.0e6,
+        efficiency=0.96,
+        specific_power=8.0e3,
+        sizing_factor=1.3,
+    )
     assert prob.get_val('input_power')[0] == pytest.approx(3.125e6, rel=1e-12)
     assert prob.get_val('loss')[0] == pytest.approx(1.25e5, rel=1e-10)
     assert prob.get_val('rated_power')[0] == pytest.approx(3.9e6, rel=1e-12)
@@ -93,27 +110,39 @@ def test_device_trends():
 
 def test_thermal_hand_case():
     # 50 + 10 + 5 + 20 + 80 kW = 165 kW; at 0.5 kg/kW -> 82.5 kg; at 0.02 N/kW -> 3.3 N.
-    losses = {'generator_loss': 5.0e4, 'rectifier_loss': 1.0e4, 'cable_loss': 5.0e3,
-              'inverter_loss': 2.0e4, 'motor_loss': 8.0e4}
-    prob = run_comp(ThermalManagementComp(), specific_mass=0.5e-3, drag_per_power=2.0e-5,
-                    **losses)
+    losses = {
+        'generator_loss': 5.0e4,
+        'rectifier_loss': 1.0e4,
+        'cable_loss': 5.0e3,
+        'inverter_loss': 2.0e4,
+        'motor_loss': 8.0e4,
+    }
+    prob = run_comp(ThermalManagementComp(), specific_mass=0.5e-3, drag_per_power=2.0e-5, **losses)
     assert prob.get_val('heat_load')[0] == pytest.approx(1.65e5, rel=1e-12)
     assert prob.get_val('mass')[0] == pytest.approx(82.5, rel=1e-12)
     assert prob.get_val('drag')[0] == pytest.approx(3.3, rel=1e-12)
 
 
 def test_thermal_custom_sources_and_no_drag_default():
-    prob = run_comp(ThermalManagementComp(sources=['motor', 'battery']), motor_loss=1.0e4,
-                    battery_loss=3.0e3)
+    prob = run_comp(
+        ThermalManagementComp(sources=['motor', 'battery']), motor_loss=1.0e4, battery_loss=3.0e3
+    )
     assert prob.get_val('heat_load')[0] == pytest.approx(1.3e4, rel=1e-12)
     assert prob.get_val('drag')[0] == 0.0
 
 
 def test_summary_hand_case():
-    masses = {'generator_mass': 300.0, 'rectifier_mass': 120.0, 'cable_mass': 80.0,
-              'inverter_mass': 110.0, 'motor_mass': 450.0, 'thermal_mass': 90.0}
-    prob = run_comp(ElectricalSummaryComp(), shaft_power_extracted=4.0e6,
-                    aft_fan_shaft_power=3.6e6, **masses)
+    masses = {
+        'generator_mass': 300.0,
+        'rectifier_mass': 120.0,
+        'cable_mass': 80.0,
+        'inverter_mass': 110.0,
+        'motor_mass': 450.0,
+        'thermal_mass': 90.0,
+    }
+    prob = run_comp(
+        ElectricalSummaryComp(), shaft_power_extracted=4.0e6, aft_fan_shaft_power=3.6e6, **masses
+    )
     assert prob.get_val('electrical_mass')[0] == pytest.approx(1150.0, rel=1e-12)
     assert prob.get_val('chain_efficiency')[0] == pytest.approx(0.9, rel=1e-12)
 
@@ -146,8 +175,7 @@ def build_chain(vec_size=2):
     model.add_subsystem('thermal', ThermalManagementComp(vec_size=vec_size))
     model.add_subsystem('summary', ElectricalSummaryComp(vec_size=vec_size))
 
-    model.connect('ivc.aft_fan_shaft_power', ['motor.output_power',
-                                              'summary.aft_fan_shaft_power'])
+    model.connect('ivc.aft_fan_shaft_power', ['motor.output_power', 'summary.aft_fan_shaft_power'])
     model.connect('ivc.voltage', 'cable.voltage')
     model.connect('motor.input_power', 'inverter.output_power')
     model.connect('inverter.input_power', 'cable.output_power')
@@ -205,8 +233,9 @@ def test_chain_mass_totals():
     prob = build_chain()
     masses = sum(prob.get_val(f'{name}.mass') for name in DEVICES + ['cable', 'thermal'])
     np.testing.assert_allclose(prob.get_val('summary.electrical_mass'), masses, rtol=1e-12)
-    np.testing.assert_allclose(prob.get_val('thermal.mass'),
-                               0.5e-3 * prob.get_val('thermal.heat_load'), rtol=1e-12)
+    np.testing.assert_allclose(
+        prob.get_val('thermal.mass'), 0.5e-3 * prob.get_val('thermal.heat_load'), rtol=1e-12
+    )
 
 
 def test_chain_totals():
@@ -215,41 +244,78 @@ def test_chain_totals():
     assert_check_totals(data, atol=1e-8, rtol=1e-8)
 
 
-@pytest.mark.parametrize('point', [
-    {'output_power': [3.0e6, 5.0e5, 1.2e6], 'efficiency': [0.96, 0.99, 0.9],
-     'specific_power': [8.0e3, 15.0e3, 4.0e3], 'sizing_factor': [1.3, 1.0, 1.7]},
-    {'output_power': [7.0e5, 2.5e6, 4.0e6], 'efficiency': [0.985, 0.95, 0.97],
-     'specific_power': [20.0e3, 6.0e3, 11.0e3], 'sizing_factor': [1.1, 1.5, 2.0]},
-])
+@pytest.mark.parametrize(
+    'point',
+    [
+        {
+            'output_power': [3.0e6, 5.0e5, 1.2e6],
+            'efficiency': [0.96, 0.99, 0.9],
+            'specific_power': [8.0e3, 15.0e3, 4.0e3],
+            'sizing_factor': [1.3, 1.0, 1.7],
+        },
+        {
+            'output_power': [7.0e5, 2.5e6, 4.0e6],
+            'efficiency': [0.985, 0.95, 0.97],
+            'specific_power': [20.0e3, 6.0e3, 11.0e3],
+            'sizing_factor': [1.1, 1.5, 2.0],
+        },
+    ],
+)
 def test_device_partials(point):
     check_component_partials(ElectricalDeviceComp(vec_size=3), point)
 
 
-@pytest.mark.parametrize('point', [
-    {'generator_loss': [5.0e4, 1.0e4, 3.0e4], 'rectifier_loss': [1.0e4, 2.0e3, 8.0e3],
-     'cable_loss': [5.0e3, 1.0e3, 9.0e3], 'inverter_loss': [2.0e4, 4.0e3, 6.0e3],
-     'motor_loss': [8.0e4, 2.0e4, 5.0e4], 'specific_mass': [0.5e-3, 1.0e-3, 0.3e-3],
-     'drag_per_power': [2.0e-5, 0.0, 5.0e-5]},
-    {'generator_loss': [1.0e3, 7.0e4, 2.0e4], 'rectifier_loss': [3.0e3, 5.0e3, 1.0e3],
-     'cable_loss': [2.0e3, 4.0e3, 6.0e3], 'inverter_loss': [9.0e3, 1.0e3, 3.0e3],
-     'motor_loss': [4.0e4, 6.0e4, 1.0e4], 'specific_mass': [2.0e-3, 0.1e-3, 0.7e-3],
-     'drag_per_power': [1.0e-5, 3.0e-5, 0.5e-5]},
-])
+@pytest.mark.parametrize(
+    'point',
+    [
+        {
+            'generator_loss': [5.0e4, 1.0e4, 3.0e4],
+            'rectifier_loss': [1.0e4, 2.0e3, 8.0e3],
+            'cable_loss': [5.0e3, 1.0e3, 9.0e3],
+            'inverter_loss': [2.0e4, 4.0e3, 6.0e3],
+            'motor_loss': [8.0e4, 2.0e4, 5.0e4],
+            'specific_mass': [0.5e-3, 1.0e-3, 0.3e-3],
+            'drag_per_power': [2.0e-5, 0.0, 5.0e-5],
+        },
+        {
+            'generator_loss': [1.0e3, 7.0e4, 2.0e4],
+            'rectifier_loss': [3.0e3, 5.0e3, 1.0e3],
+            'cable_loss': [2.0e3, 4.0e3, 6.0e3],
+            'inverter_loss': [9.0e3, 1.0e3, 3.0e3],
+            'motor_loss': [4.0e4, 6.0e4, 1.0e4],
+            'specific_mass': [2.0e-3, 0.1e-3, 0.7e-3],
+            'drag_per_power': [1.0e-5, 3.0e-5, 0.5e-5],
+        },
+    ],
+)
 def test_thermal_partials(point):
     check_component_partials(ThermalManagementComp(vec_size=3), point)
 
 
-@pytest.mark.parametrize('point', [
-    {'generator_mass': [300.0, 150.0, 500.0], 'rectifier_mass': [120.0, 60.0, 200.0],
-     'cable_mass': [80.0, 30.0, 150.0], 'inverter_mass': [110.0, 55.0, 190.0],
-     'motor_mass': [450.0, 200.0, 700.0], 'thermal_mass': [90.0, 40.0, 160.0],
-     'shaft_power_extracted': [4.0e6, 2.0e6, 7.0e6],
-     'aft_fan_shaft_power': [3.6e6, 1.7e6, 6.5e6]},
-    {'generator_mass': [200.0, 350.0, 100.0], 'rectifier_mass': [70.0, 90.0, 40.0],
-     'cable_mass': [20.0, 60.0, 10.0], 'inverter_mass': [65.0, 95.0, 35.0],
-     'motor_mass': [250.0, 520.0, 120.0], 'thermal_mass': [45.0, 85.0, 25.0],
-     'shaft_power_extracted': [1.5e6, 5.0e6, 9.0e5],
-     'aft_fan_shaft_power': [1.3e6, 4.4e6, 8.2e5]},
-])
+@pytest.mark.parametrize(
+    'point',
+    [
+        {
+            'generator_mass': [300.0, 150.0, 500.0],
+            'rectifier_mass': [120.0, 60.0, 200.0],
+            'cable_mass': [80.0, 30.0, 150.0],
+            'inverter_mass': [110.0, 55.0, 190.0],
+            'motor_mass': [450.0, 200.0, 700.0],
+            'thermal_mass': [90.0, 40.0, 160.0],
+            'shaft_power_extracted': [4.0e6, 2.0e6, 7.0e6],
+            'aft_fan_shaft_power': [3.6e6, 1.7e6, 6.5e6],
+        },
+        {
+            'generator_mass': [200.0, 350.0, 100.0],
+            'rectifier_mass': [70.0, 90.0, 40.0],
+            'cable_mass': [20.0, 60.0, 10.0],
+            'inverter_mass': [65.0, 95.0, 35.0],
+            'motor_mass': [250.0, 520.0, 120.0],
+            'thermal_mass': [45.0, 85.0, 25.0],
+            'shaft_power_extracted': [1.5e6, 5.0e6, 9.0e5],
+            'aft_fan_shaft_power': [1.3e6, 4.4e6, 8.2e5],
+        },
+    ],
+)
 def test_summary_partials(point):
     check_component_partials(ElectricalSummaryComp(vec_size=3), point)

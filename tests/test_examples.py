@@ -18,9 +18,15 @@ HAS_MATPLOTLIB = importlib.util.find_spec('matplotlib') is not None
 def run_example(name, outdir, extra_env=None):
     """Run ``examples/<name>`` with OUTDIR ``outdir`` from the repo root; return the process."""
     env = dict(os.environ, OPENMDAO_REPORTS='0', **(extra_env or {}))
-    return subprocess.run([sys.executable, str(REPO / 'examples' / name), str(outdir)],
-                          check=False, cwd=REPO, env=env, capture_output=True, text=True,
-                          timeout=600)
+    return subprocess.run(
+        [sys.executable, str(REPO / 'examples' / name), str(outdir)],
+        check=False,
+        cwd=REPO,
+        env=env,
+        capture_output=True,
+        text=True,
+        timeout=600,
+    )
 
 
 def table_rows(stdout):
@@ -40,8 +46,10 @@ def test_optimize_and_read_recorder(tmp_path):
     out = proc.stdout
     assert 'success: True' in out
     # Every design variable of the demo's optimization section is reported.
-    design = [line.split()[0] for line in
-              out.split('optimum design:\n')[1].split('block fuel:')[0].splitlines()]
+    design = [
+        line.split()[0]
+        for line in out.split('optimum design:\n')[1].split('block fuel:')[0].splitlines()
+    ]
     assert design == list(load_config(None).values['optimization.design_variables'])
     assert 'at the optimum' in out
 
@@ -61,7 +69,7 @@ def check_sweep_table(stdout):
     rows = np.array(table_rows(stdout))
     assert rows.shape == (8, 4)
     assert np.allclose(rows[:, 0], np.linspace(0.05, 0.40, 8))
-    assert np.all((rows[:, 1] > 0) & (rows[:, 1] < 1))   # a power saving coefficient
+    assert np.all((rows[:, 1] > 0) & (rows[:, 1] < 1))  # a power saving coefficient
     # Electrical machines are sized by the power they carry (mass = power / specific
     # power, common practice), so more aft-fan thrust means a heavier electrical system.
     assert np.all(np.diff(rows[:, 3]) > 0)
@@ -74,7 +82,7 @@ def test_sweep_thrust_fraction(tmp_path):
     plot = tmp_path / 'thrust_fraction_sweep.png'
     if HAS_MATPLOTLIB:
         assert plot.is_file()
-        assert plot.read_bytes()[:8] == b'\x89PNG\r\n\x1a\n'   # PNG signature
+        assert plot.read_bytes()[:8] == b'\x89PNG\r\n\x1a\n'  # PNG signature
         assert f'plot: {plot}' in proc.stdout
     else:
         assert 'plot skipped' in proc.stdout

@@ -61,6 +61,7 @@ CASE_TIMEOUT = 30
 
 # --- the demos as PyYAML composes them -------------------------------------------------------
 
+
 @dataclasses.dataclass(frozen=True)
 class Entry:
     """One key of a demo, with the character spans of its key and value in the text."""
@@ -70,8 +71,8 @@ class Entry:
     key_end: int
     value_start: int
     value_end: int
-    line: int            # 1-based line of the key
-    flow: bool           # inside a flow mapping {...}
+    line: int  # 1-based line of the key
+    flow: bool  # inside a flow mapping {...}
     block_collection: bool
 
     @property
@@ -95,15 +96,25 @@ def _entries(text):
     def walk(node, path, flow):
         for key, value in node.value:
             path_here = path + (key.value,)
-            block = (isinstance(value, (yaml.MappingNode, yaml.SequenceNode))
-                     and not value.flow_style)
+            block = (
+                isinstance(value, (yaml.MappingNode, yaml.SequenceNode)) and not value.flow_style
+            )
             end = value.end_mark.index
             # A block collection ends where the next token starts: keep that line whole.
-            if block and not text[_line_start(text, end):end].strip():
+            if block and not text[_line_start(text, end) : end].strip():
                 end = _line_start(text, end)
-            out.append(Entry(path_here, key.start_mark.index, key.end_mark.index,
-                             value.start_mark.index, end, key.start_mark.line + 1, flow,
-                             block))
+            out.append(
+                Entry(
+                    path_here,
+                    key.start_mark.index,
+                    key.end_mark.index,
+                    value.start_mark.index,
+                    end,
+                    key.start_mark.line + 1,
+                    flow,
+                    block,
+                )
+            )
             if isinstance(value, yaml.MappingNode):
                 walk(value, path_here, bool(value.flow_style))
 
@@ -119,8 +130,10 @@ def _read(path):
 TEXTS = {name: _read(path) for name, path in DEMOS.items()}
 ENTRIES = {name: _entries(text) for name, text in TEXTS.items()}
 #: Keys whose values the schema checks (the ones worth most of the value mutations).
-CHECKED = {name: [e for e in entries if field_at(e.dotted) is not None]
-           for name, entries in ENTRIES.items()}
+CHECKED = {
+    name: [e for e in entries if field_at(e.dotted) is not None]
+    for name, entries in ENTRIES.items()
+}
 SECTIONS = {name: [e for e in entries if len(e.path) == 1] for name, entries in ENTRIES.items()}
 
 
@@ -132,7 +145,8 @@ class _Loader(yaml.SafeLoader):
 _Loader.add_implicit_resolver(
     'tag:yaml.org,2002:float',
     re.compile(r'^[-+]?(?:[0-9][0-9_]*(?:\.[0-9_]*)?|\.[0-9_]+)[eE][-+]?[0-9]+$'),
-    list('-+0123456789.'))
+    list('-+0123456789.'),
+)
 
 
 def shown_path(parts):
@@ -201,6 +215,7 @@ def key_lines(text):
 
 # --- mutations ---------------------------------------------------------------------------------
 
+
 @dataclasses.dataclass
 class Case:
     """One mutated file: its bytes, what was done, and the key path it was done to."""
@@ -208,8 +223,8 @@ class Case:
     family: str
     what: str
     content: bytes
-    path: str = None          # dotted key path the mutation is about (None: file-level)
-    new_path: str = None      # for a renamed or moved key: where it went
+    path: str = None  # dotted key path the mutation is about (None: file-level)
+    new_path: str = None  # for a renamed or moved key: where it went
     duplicate_of: int = None  # for a duplicated key: line of the first one
 
 
@@ -220,7 +235,7 @@ def _utf8(text):
 def _number_of(entry, text):
     """The number at the start of a scalar value ('1500 nmi' -> 1500.0), or 1.0."""
     try:
-        return float(text[entry.value_start:entry.value_end].split()[0])
+        return float(text[entry.value_start : entry.value_end].split()[0])
     except (ValueError, IndexError):
         return 1.0
 
@@ -235,30 +250,153 @@ def _yaml_float(x):
 
 #: Values of the wrong type or hostile YAML, as written in a file.
 WRONG_TYPE = [
-    'ten', '"10.5"', 'true', 'no', 'off', '~', 'null', '[]', '[1, 2]', '{}', '{a: 1}',
-    '2020-01-01', '2020-02-30', "''", '""', '0x10', '0o17', '1_000', '12:30:00',
-    '!!binary aGVsbG8=', '!!set {a: null}', '!!float abc', '!!int ""', '!!bool maybe',
-    '!!timestamp xyz', '!!timestamp 2020-13-45', '!!python/object:os.system x', '!custom 1',
-    '*nowhere', '&here 5', '!!str 5', '!!null', '"\\x07"', '"line\\nbreak"', '"\\u2028"',
-    '[1500, nmi]', '{value: 1500, units: nmi}', '- 5', '!!omap [{a: 1}]', '? x',
-    '"\\ud800"', '|\n  text', '>\n  folded',
+    'ten',
+    '"10.5"',
+    'true',
+    'no',
+    'off',
+    '~',
+    'null',
+    '[]',
+    '[1, 2]',
+    '{}',
+    '{a: 1}',
+    '2020-01-01',
+    '2020-02-30',
+    "''",
+    '""',
+    '0x10',
+    '0o17',
+    '1_000',
+    '12:30:00',
+    '!!binary aGVsbG8=',
+    '!!set {a: null}',
+    '!!float abc',
+    '!!int ""',
+    '!!bool maybe',
+    '!!timestamp xyz',
+    '!!timestamp 2020-13-45',
+    '!!python/object:os.system x',
+    '!custom 1',
+    '*nowhere',
+    '&here 5',
+    '!!str 5',
+    '!!null',
+    '"\\x07"',
+    '"line\\nbreak"',
+    '"\\u2028"',
+    '[1500, nmi]',
+    '{value: 1500, units: nmi}',
+    '- 5',
+    '!!omap [{a: 1}]',
+    '? x',
+    '"\\ud800"',
+    '|\n  text',
+    '>\n  folded',
 ]
 #: NaN, infinity and numbers too large for a float.
 NONFINITE = [
-    '.nan', '.NaN', '.inf', '-.inf', '+.inf', 'nan', 'inf', '1e400', '-1e400', '"nan m"',
-    '"inf"', '"-inf kg"', '"1e400 m"', '"nan"', '!!float nan', '!!float .inf',
-    '1' + '0' * 400, '1' + '0' * 5000, '0x' + 'f' * 4000, '-1e-400', '5e-324', '1e308',
+    '.nan',
+    '.NaN',
+    '.inf',
+    '-.inf',
+    '+.inf',
+    'nan',
+    'inf',
+    '1e400',
+    '-1e400',
+    '"nan m"',
+    '"inf"',
+    '"-inf kg"',
+    '"1e400 m"',
+    '"nan"',
+    '!!float nan',
+    '!!float .inf',
+    '1' + '0' * 400,
+    '1' + '0' * 5000,
+    '0x' + 'f' * 4000,
+    '-1e-400',
+    '5e-324',
+    '1e308',
 ]
 #: Units of every dimension the schema uses, and some it does not.
-UNITS = ['m', 'ft', 'nmi', 'km', 'kg', 'lbm', 's', 'min', 'h', 'K', 'degC', 'W', 'kW', 'hp',
-         'V', 'A', 'N', 'lbf', 'Pa', 'MJ/kg', 'kW/kg', 'm**2', 'kg/m**2', 'A/mm**2', 'kg/kW',
-         'N/kW', 'm/s', 'kn', 'Hz', 'rad', 'J', 'ohm*m', 'kg/m**3', 'g/(kN*s)', '1/s']
+UNITS = [
+    'm',
+    'ft',
+    'nmi',
+    'km',
+    'kg',
+    'lbm',
+    's',
+    'min',
+    'h',
+    'K',
+    'degC',
+    'W',
+    'kW',
+    'hp',
+    'V',
+    'A',
+    'N',
+    'lbf',
+    'Pa',
+    'MJ/kg',
+    'kW/kg',
+    'm**2',
+    'kg/m**2',
+    'A/mm**2',
+    'kg/kW',
+    'N/kW',
+    'm/s',
+    'kn',
+    'Hz',
+    'rad',
+    'J',
+    'ohm*m',
+    'kg/m**3',
+    'g/(kN*s)',
+    '1/s',
+]
 #: Unit strings that no unit system should accept (some would be code if evaluated).
 GARBAGE_UNITS = [
-    'furlongs', 'm**', 'm/', '(m', 'm)', 'm m', 'kg/m**3**2', '__import__("os")',
-    'os.system', 'm**99', 'm^2', 'm\u00b2', '\u00b5m', 'kg*', '*kg', 'km/h/h', ')',
-    'm**(2)', '((m))', 'K**1000', 'e', 'pi', 'nan', 'inf', 'True', 'None', 'x' * 100,
-    'm\tm', '9**9**9', '1/0', '0/m', 'm**-1', '%', '$', 'm;kg', 'm,kg', 'm kg', '-m',
+    'furlongs',
+    'm**',
+    'm/',
+    '(m',
+    'm)',
+    'm m',
+    'kg/m**3**2',
+    '__import__("os")',
+    'os.system',
+    'm**99',
+    'm^2',
+    'm\u00b2',
+    '\u00b5m',
+    'kg*',
+    '*kg',
+    'km/h/h',
+    ')',
+    'm**(2)',
+    '((m))',
+    'K**1000',
+    'e',
+    'pi',
+    'nan',
+    'inf',
+    'True',
+    'None',
+    'x' * 100,
+    'm\tm',
+    '9**9**9',
+    '1/0',
+    '0/m',
+    'm**-1',
+    '%',
+    '$',
+    'm;kg',
+    'm,kg',
+    'm kg',
+    '-m',
 ]
 
 
@@ -273,42 +411,71 @@ def value_texts(draw, entry, text):
     number = _number_of(entry, text)
     field = field_at(entry.dotted)
     units = field.units if field is not None else None
-    kind = draw(st.sampled_from(['wrong_type', 'nonfinite', 'zero_negative', 'huge_tiny',
-                                 'float', 'integer', 'wrong_units', 'garbage_units',
-                                 'random_text', 'random_units']))
+    kind = draw(
+        st.sampled_from(
+            [
+                'wrong_type',
+                'nonfinite',
+                'zero_negative',
+                'huge_tiny',
+                'float',
+                'integer',
+                'wrong_units',
+                'garbage_units',
+                'random_text',
+                'random_units',
+            ]
+        )
+    )
     if kind == 'wrong_type':
         return kind, draw(st.sampled_from(WRONG_TYPE))
     if kind == 'nonfinite':
         return kind, draw(st.sampled_from(NONFINITE))
     if kind == 'zero_negative':
-        options = ['0', '0.0', '-0.0', '-1', _yaml_float(-abs(number)), f'"0 {units or ""}"',
-                   f'"-{abs(number):g} {units or ""}"']
+        options = [
+            '0',
+            '0.0',
+            '-0.0',
+            '-1',
+            _yaml_float(-abs(number)),
+            f'"0 {units or ""}"',
+            f'"-{abs(number):g} {units or ""}"',
+        ]
         return kind, draw(st.sampled_from(options))
     if kind == 'huge_tiny':
-        options = ['1e300', '-1e300', '1e-300', _yaml_float(number * 1e6),
-                   _yaml_float(number * 1e-6), '123456789012345678901234567890',
-                   f'"1e300 {units or ""}"', f'"1e-300 {units or ""}"', f'"1e308 {units or ""}"']
+        options = [
+            '1e300',
+            '-1e300',
+            '1e-300',
+            _yaml_float(number * 1e6),
+            _yaml_float(number * 1e-6),
+            '123456789012345678901234567890',
+            f'"1e300 {units or ""}"',
+            f'"1e-300 {units or ""}"',
+            f'"1e308 {units or ""}"',
+        ]
         return kind, draw(st.sampled_from(options))
     if kind == 'float':
         return kind, _yaml_float(draw(st.floats(width=64)))
     if kind == 'integer':
-        return kind, str(draw(st.integers(min_value=-10**40, max_value=10**40)))
+        return kind, str(draw(st.integers(min_value=-(10**40), max_value=10**40)))
     if kind == 'wrong_units':
         unit = draw(st.sampled_from(UNITS))
         return kind, _quoted(f'{number:g} {unit}') if draw(st.booleans()) else f'{number:g} {unit}'
     if kind == 'garbage_units':
         return kind, _quoted(f'{number:g} {draw(st.sampled_from(GARBAGE_UNITS))}')
     if kind == 'random_units':
-        return kind, _quoted(f'{number:g} {draw(st.text(max_size=12))}',
-                             ascii_only=draw(st.booleans()))
+        return kind, _quoted(
+            f'{number:g} {draw(st.text(max_size=12))}', ascii_only=draw(st.booleans())
+        )
     return kind, _quoted(draw(st.text(max_size=30)), ascii_only=draw(st.booleans()))
 
 
 def _replace_value(text, entry, new):
     if entry.block_collection:
         # 'key:\n  a: 1\n  b: 2\n' -> 'key: new\n'
-        return text[:entry.key_end] + f': {new}\n' + text[entry.value_end:]
-    return text[:entry.value_start] + new + text[entry.value_end:]
+        return text[: entry.key_end] + f': {new}\n' + text[entry.value_end :]
+    return text[: entry.value_start] + new + text[entry.value_end :]
 
 
 def _drop(text, entry):
@@ -331,8 +498,8 @@ def _drop(text, entry):
 def _duplicate(text, entry):
     """Repeat a key (with its value) right after it; return text and line of the copy."""
     if entry.flow:
-        copy = ', ' + text[entry.key_start:entry.value_end]
-        return text[:entry.value_end] + copy + text[entry.value_end:], entry.line
+        copy = ', ' + text[entry.key_start : entry.value_end]
+        return text[: entry.value_end] + copy + text[entry.value_end :], entry.line
     start = _line_start(text, entry.key_start)
     end = entry.value_end if entry.block_collection else _line_end(text, entry.value_end)
     block = text[start:end]
@@ -347,20 +514,21 @@ _TYPO_CHARS = 'abcdefghijklmnopqrstuvwxyz_'
 @st.composite
 def typos(draw, key):
     """A misspelling of ``key`` (letters and underscores only, never ``key`` itself)."""
-    op = draw(st.sampled_from(['delete', 'insert', 'swap', 'replace', 'upper', 'suffix',
-                               'dash', 'space']))
+    op = draw(
+        st.sampled_from(['delete', 'insert', 'swap', 'replace', 'upper', 'suffix', 'dash', 'space'])
+    )
     i = draw(st.integers(0, len(key) - 1))
     char = draw(st.sampled_from(_TYPO_CHARS))
     if op == 'delete' and len(key) > 1:
-        new = key[:i] + key[i + 1:]
+        new = key[:i] + key[i + 1 :]
     elif op == 'insert':
         new = key[:i] + char + key[i:]
     elif op == 'swap' and i + 1 < len(key):
-        new = key[:i] + key[i + 1] + key[i] + key[i + 2:]
+        new = key[:i] + key[i + 1] + key[i] + key[i + 2 :]
     elif op == 'replace':
-        new = key[:i] + char + key[i + 1:]
+        new = key[:i] + char + key[i + 1 :]
     elif op == 'upper':
-        new = key[:i] + key[i].upper() + key[i + 1:]
+        new = key[:i] + key[i].upper() + key[i + 1 :]
     elif op == 'dash':
         new = key.replace('_', '-') if '_' in key else key + '-'
     elif op == 'space':
@@ -379,15 +547,25 @@ def value_cases(draw):
     pool = CHECKED[demo] if draw(st.integers(0, 4)) else ENTRIES[demo]
     entry = draw(st.sampled_from(pool))
     kind, new = draw(value_texts(entry, text))
-    return Case('value', f'{demo}: {entry.dotted} = {new[:60]!r} ({kind})',
-                _utf8(_replace_value(text, entry, new)), path=entry.dotted)
+    return Case(
+        'value',
+        f'{demo}: {entry.dotted} = {new[:60]!r} ({kind})',
+        _utf8(_replace_value(text, entry, new)),
+        path=entry.dotted,
+    )
 
 
 #: Keys of the optional sections with defaults, absent from both demos.
-OPTIONAL = ['solver.max_iterations', 'solver.tolerance', 'performance.throttle_ratio',
-            'performance.takeoff_max_lift_coefficient', 'performance.residual_climb_rate',
-            'performance.buffet_margin_load_factor', 'performance.motor_power_limit',
-            'performance.aft_fan_max_diameter_ratio']
+OPTIONAL = [
+    'solver.max_iterations',
+    'solver.tolerance',
+    'performance.throttle_ratio',
+    'performance.takeoff_max_lift_coefficient',
+    'performance.residual_climb_rate',
+    'performance.buffet_margin_load_factor',
+    'performance.motor_power_limit',
+    'performance.aft_fan_max_diameter_ratio',
+]
 
 
 @st.composite
@@ -400,16 +578,21 @@ def optional_cases(draw):
     text = TEXTS[demo] + f'\n{section}:\n  {key}: {default!r}\n'
     entry = next(e for e in _entries(text) if e.dotted == dotted)
     kind, new = draw(value_texts(entry, text))
-    return Case('optional', f'{demo}: add {dotted} = {new[:60]!r} ({kind})',
-                _utf8(_replace_value(text, entry, new)), path=dotted)
+    return Case(
+        'optional',
+        f'{demo}: add {dotted} = {new[:60]!r} ({kind})',
+        _utf8(_replace_value(text, entry, new)),
+        path=dotted,
+    )
 
 
 @st.composite
 def drop_cases(draw):
     demo = draw(st.sampled_from(sorted(DEMOS)))
     entry = draw(st.sampled_from(ENTRIES[demo]))
-    return Case('drop', f'{demo}: drop {entry.dotted}', _utf8(_drop(TEXTS[demo], entry)),
-                path=entry.dotted)
+    return Case(
+        'drop', f'{demo}: drop {entry.dotted}', _utf8(_drop(TEXTS[demo], entry)), path=entry.dotted
+    )
 
 
 @st.composite
@@ -421,15 +604,34 @@ def rename_cases(draw):
         new_key = draw(typos(key))
     else:
         # Keys only a quoted YAML string can hold: line breaks, control characters, spaces.
-        new_key = draw(st.sampled_from([key + '\n', '\t' + key, key + '\x1b[0m', '',
-                                        key + '\u2028', ' ' + key, key + '\x85', '\x00',
-                                        key + '\r', key + '\x0c', key + '\ufeff']))
+        new_key = draw(
+            st.sampled_from(
+                [
+                    key + '\n',
+                    '\t' + key,
+                    key + '\x1b[0m',
+                    '',
+                    key + '\u2028',
+                    ' ' + key,
+                    key + '\x85',
+                    '\x00',
+                    key + '\r',
+                    key + '\x0c',
+                    key + '\ufeff',
+                ]
+            )
+        )
     text = TEXTS[demo]
     plain = new_key and new_key.isprintable() and new_key.strip() == new_key
     written = new_key if plain else _quoted(new_key)
-    mutated = text[:entry.key_start] + written + text[entry.key_end:]
-    return Case('rename', f'{demo}: rename {entry.dotted} -> {new_key!r}', _utf8(mutated),
-                path=entry.dotted, new_path=shown_path(entry.path[:-1] + (new_key,)))
+    mutated = text[: entry.key_start] + written + text[entry.key_end :]
+    return Case(
+        'rename',
+        f'{demo}: rename {entry.dotted} -> {new_key!r}',
+        _utf8(mutated),
+        path=entry.dotted,
+        new_path=shown_path(entry.path[:-1] + (new_key,)),
+    )
 
 
 @st.composite
@@ -437,8 +639,13 @@ def duplicate_cases(draw):
     demo = draw(st.sampled_from(sorted(DEMOS)))
     entry = draw(st.sampled_from(ENTRIES[demo]))
     mutated, _ = _duplicate(TEXTS[demo], entry)
-    return Case('duplicate', f'{demo}: duplicate {entry.dotted}', _utf8(mutated),
-                path=entry.dotted, duplicate_of=entry.line)
+    return Case(
+        'duplicate',
+        f'{demo}: duplicate {entry.dotted}',
+        _utf8(mutated),
+        path=entry.dotted,
+        duplicate_of=entry.line,
+    )
 
 
 @st.composite
@@ -449,20 +656,31 @@ def section_cases(draw):
     sections = [e for e in SECTIONS[demo] if e.block_collection]
     if draw(st.booleans()):
         entry = draw(st.sampled_from(SECTIONS[demo]))
-        new = draw(st.sampled_from(['5', '~', '[1, 2]', '{}', 'yes', '"wing"', '[]',
-                                    '{area: 122}', '!!set {a: null}']))
-        return Case('section', f'{demo}: section {entry.dotted} = {new!r}',
-                    _utf8(_replace_value(text, entry, new)), path=entry.dotted)
-    entry = draw(st.sampled_from([e for e in CHECKED[demo]
-                                  if len(e.path) == 2 and not e.flow]))
+        new = draw(
+            st.sampled_from(
+                ['5', '~', '[1, 2]', '{}', 'yes', '"wing"', '[]', '{area: 122}', '!!set {a: null}']
+            )
+        )
+        return Case(
+            'section',
+            f'{demo}: section {entry.dotted} = {new!r}',
+            _utf8(_replace_value(text, entry, new)),
+            path=entry.dotted,
+        )
+    entry = draw(st.sampled_from([e for e in CHECKED[demo] if len(e.path) == 2 and not e.flow]))
     target = draw(st.sampled_from([s for s in sections if s.path[0] != entry.path[0]]))
-    line = text[_line_start(text, entry.key_start):_line_end(text, entry.value_end)]
+    line = text[_line_start(text, entry.key_start) : _line_end(text, entry.value_end)]
     dropped = _drop(text, entry)
     # Insert the key as the first one of the target section.
     anchor = dropped.index(f'\n{target.path[0]}:\n') + len(f'\n{target.path[0]}:\n')
     mutated = dropped[:anchor] + line.rstrip('\n') + '\n' + dropped[anchor:]
-    return Case('section', f'{demo}: move {entry.dotted} to {target.dotted}', _utf8(mutated),
-                path=entry.dotted, new_path=f'{target.dotted}.{entry.path[-1]}')
+    return Case(
+        'section',
+        f'{demo}: move {entry.dotted} to {target.dotted}',
+        _utf8(mutated),
+        path=entry.dotted,
+        new_path=f'{target.dotted}.{entry.path[-1]}',
+    )
 
 
 @st.composite
@@ -471,20 +689,57 @@ def syntax_cases(draw):
     demo = draw(st.sampled_from(sorted(DEMOS)))
     text = TEXTS[demo]
     lines = text.split('\n')
-    op = draw(st.sampled_from(['delete_colon', 'unbalanced', 'indent', 'tab', 'delete_char',
-                               'insert_text', 'truncate', 'duplicate_line', 'delete_line',
-                               'swap_lines', 'line_endings', 'special']))
+    op = draw(
+        st.sampled_from(
+            [
+                'delete_colon',
+                'unbalanced',
+                'indent',
+                'tab',
+                'delete_char',
+                'insert_text',
+                'truncate',
+                'duplicate_line',
+                'delete_line',
+                'swap_lines',
+                'line_endings',
+                'special',
+            ]
+        )
+    )
     if op == 'delete_colon':
         colons = [i for i, c in enumerate(text) if c == ':']
         i = draw(st.sampled_from(colons))
-        return Case('syntax', f'{demo}: delete the colon at {i}', _utf8(text[:i] + text[i + 1:]))
+        return Case('syntax', f'{demo}: delete the colon at {i}', _utf8(text[:i] + text[i + 1 :]))
     if op == 'unbalanced':
         entry = draw(st.sampled_from([e for e in ENTRIES[demo] if not e.block_collection]))
-        mark = draw(st.sampled_from(['[', '{', '"', "'", ']', '}', '[[', '{a: ', '"\\', '`',
-                                     '|', '>', '&', '*', '!', '%', '@']))
+        mark = draw(
+            st.sampled_from(
+                [
+                    '[',
+                    '{',
+                    '"',
+                    "'",
+                    ']',
+                    '}',
+                    '[[',
+                    '{a: ',
+                    '"\\',
+                    '`',
+                    '|',
+                    '>',
+                    '&',
+                    '*',
+                    '!',
+                    '%',
+                    '@',
+                ]
+            )
+        )
         at = entry.value_start if draw(st.booleans()) else entry.value_end
-        return Case('syntax', f'{demo}: {mark!r} at {entry.dotted}',
-                    _utf8(text[:at] + mark + text[at:]))
+        return Case(
+            'syntax', f'{demo}: {mark!r} at {entry.dotted}', _utf8(text[:at] + mark + text[at:])
+        )
     if op in ('indent', 'tab'):
         i = draw(st.sampled_from([n for n, line in enumerate(lines) if line.strip()]))
         line = lines[i]
@@ -494,12 +749,14 @@ def syntax_cases(draw):
         else:
             shift = draw(st.sampled_from([-3, -2, -1, 1, 2, 3]))
             new = ' ' * max(0, len(line) - len(body) + shift) + body
-        return Case('syntax', f'{demo}: line {i + 1} re-indented as {new[:20]!r}',
-                    _utf8('\n'.join(lines[:i] + [new] + lines[i + 1:])))
+        return Case(
+            'syntax',
+            f'{demo}: line {i + 1} re-indented as {new[:20]!r}',
+            _utf8('\n'.join(lines[:i] + [new] + lines[i + 1 :])),
+        )
     if op == 'delete_char':
         i = draw(st.integers(0, len(text) - 1))
-        return Case('syntax', f'{demo}: delete {text[i]!r} at {i}',
-                    _utf8(text[:i] + text[i + 1:]))
+        return Case('syntax', f'{demo}: delete {text[i]!r} at {i}', _utf8(text[:i] + text[i + 1 :]))
     if op == 'insert_text':
         i = draw(st.integers(0, len(text)))
         new = draw(st.text(min_size=1, max_size=8))
@@ -509,50 +766,87 @@ def syntax_cases(draw):
         return Case('syntax', f'{demo}: cut at {i}', _utf8(text[:i]))
     if op == 'duplicate_line':
         i = draw(st.integers(0, len(lines) - 1))
-        return Case('syntax', f'{demo}: line {i + 1} twice',
-                    _utf8('\n'.join(lines[:i + 1] + lines[i:])))
+        return Case(
+            'syntax', f'{demo}: line {i + 1} twice', _utf8('\n'.join(lines[: i + 1] + lines[i:]))
+        )
     if op == 'delete_line':
         i = draw(st.integers(0, len(lines) - 1))
-        return Case('syntax', f'{demo}: delete line {i + 1}',
-                    _utf8('\n'.join(lines[:i] + lines[i + 1:])))
+        return Case(
+            'syntax', f'{demo}: delete line {i + 1}', _utf8('\n'.join(lines[:i] + lines[i + 1 :]))
+        )
     if op == 'swap_lines':
         i = draw(st.integers(0, len(lines) - 2))
         j = draw(st.integers(i + 1, len(lines) - 1))
         swapped = list(lines)
         swapped[i], swapped[j] = swapped[j], swapped[i]
-        return Case('syntax', f'{demo}: swap lines {i + 1} and {j + 1}',
-                    _utf8('\n'.join(swapped)))
+        return Case('syntax', f'{demo}: swap lines {i + 1} and {j + 1}', _utf8('\n'.join(swapped)))
     if op == 'line_endings':
         ending = draw(st.sampled_from(['\r\n', '\r', '\u2028', '\x85', '\x0c\n']))
         return Case('syntax', f'{demo}: line endings {ending!r}', _utf8(text.replace('\n', ending)))
     i = draw(st.integers(0, len(lines) - 1))
-    snippet = draw(st.sampled_from(['---', '...', '%YAML 1.1', '%YAML 2.0', '&anchor',
-                                    '*alias', '? ', '- ', '!!map', '|', '>', '@', '`', '%',
-                                    '<<: *x', '<<: {a: 1}', '\ufeff', '#', 'x: &a [*a]',
-                                    'key: !!python/tuple [1]']))
-    return Case('syntax', f'{demo}: {snippet!r} before line {i + 1}',
-                _utf8('\n'.join(lines[:i] + [snippet + lines[i]] + lines[i + 1:])))
+    snippet = draw(
+        st.sampled_from(
+            [
+                '---',
+                '...',
+                '%YAML 1.1',
+                '%YAML 2.0',
+                '&anchor',
+                '*alias',
+                '? ',
+                '- ',
+                '!!map',
+                '|',
+                '>',
+                '@',
+                '`',
+                '%',
+                '<<: *x',
+                '<<: {a: 1}',
+                '\ufeff',
+                '#',
+                'x: &a [*a]',
+                'key: !!python/tuple [1]',
+            ]
+        )
+    )
+    return Case(
+        'syntax',
+        f'{demo}: {snippet!r} before line {i + 1}',
+        _utf8('\n'.join(lines[:i] + [snippet + lines[i]] + lines[i + 1 :])),
+    )
 
 
 def _laughs(levels):
     rows = ['a0: &a0 [x, x, x, x, x, x, x, x, x, x]']
-    rows += [f'a{i}: &a{i} [' + ', '.join([f'*a{i - 1}'] * 10) + ']'
-             for i in range(1, levels + 1)]
+    rows += [f'a{i}: &a{i} [' + ', '.join([f'*a{i - 1}'] * 10) + ']' for i in range(1, levels + 1)]
     return '\n'.join(rows) + '\n'
 
 
 _WHOLE = {
-    'empty': b'', 'blank lines': b'\n\n\n', 'spaces': b'   \n  \n', 'comment': b'# nothing\n',
-    'document start': b'---\n', 'document end': b'...\n', 'null': b'~\n', 'list': b'- a\n- b\n',
-    'flow list': b'[]\n', 'flow mapping': b'{}\n', 'scalar': b'just text\n', 'number': b'42\n',
-    'two documents': b'a: 1\n---\nb: 2\n', 'directive only': b'%YAML 1.1\n---\n',
-    'alias bomb': _laughs(9).encode(), 'small aliases': _laughs(2).encode(),
+    'empty': b'',
+    'blank lines': b'\n\n\n',
+    'spaces': b'   \n  \n',
+    'comment': b'# nothing\n',
+    'document start': b'---\n',
+    'document end': b'...\n',
+    'null': b'~\n',
+    'list': b'- a\n- b\n',
+    'flow list': b'[]\n',
+    'flow mapping': b'{}\n',
+    'scalar': b'just text\n',
+    'number': b'42\n',
+    'two documents': b'a: 1\n---\nb: 2\n',
+    'directive only': b'%YAML 1.1\n---\n',
+    'alias bomb': _laughs(9).encode(),
+    'small aliases': _laughs(2).encode(),
     'deep nesting': b'a: ' + b'[' * 500 + b']' * 500 + b'\n',
     'long line': b'aircraft: ' + b'x' * 200_000 + b'\n',
     'many keys': b''.join(b'k%d: %d\n' % (i, i) for i in range(20_000)),
     'utf-16': TEXTS['turbo'].encode('utf-16'),
     'latin-1': ('aircraft: caf\u00e9\n' + TEXTS['conventional'].split('\n', 5)[5]).encode(
-        'latin-1'),
+        'latin-1'
+    ),
     'bom': b'\xef\xbb\xbf' + _utf8(TEXTS['conventional']),
     'nul inside': _utf8(TEXTS['turbo']).replace(b'range:', b'ran\x00ge:', 1),
     'over the size limit': b'#' * (yamlio.MAX_FILE_BYTES + 1),
@@ -561,8 +855,9 @@ _WHOLE = {
 
 @st.composite
 def whole_file_cases(draw):
-    kind = draw(st.sampled_from(sorted(_WHOLE) + ['random bytes with NUL', 'random bytes',
-                                                  'random text']))
+    kind = draw(
+        st.sampled_from(sorted(_WHOLE) + ['random bytes with NUL', 'random bytes', 'random text'])
+    )
     if kind == 'random bytes with NUL':
         data = draw(st.binary(max_size=400))
         i = draw(st.integers(0, len(data)))
@@ -574,18 +869,34 @@ def whole_file_cases(draw):
     return Case('whole_file', kind, _WHOLE[kind])
 
 
-FAMILIES = {'value': value_cases(), 'optional': optional_cases(), 'drop': drop_cases(),
-            'rename': rename_cases(),
-            'duplicate': duplicate_cases(), 'section': section_cases(),
-            'syntax': syntax_cases(), 'whole_file': whole_file_cases()}
+FAMILIES = {
+    'value': value_cases(),
+    'optional': optional_cases(),
+    'drop': drop_cases(),
+    'rename': rename_cases(),
+    'duplicate': duplicate_cases(),
+    'section': section_cases(),
+    'syntax': syntax_cases(),
+    'whole_file': whole_file_cases(),
+}
 #: Draw weights of the families (values are the largest space).
-WEIGHTS = {'value': 6, 'optional': 1, 'drop': 2, 'rename': 2, 'duplicate': 2, 'section': 2,
-           'syntax': 5, 'whole_file': 2}
+WEIGHTS = {
+    'value': 6,
+    'optional': 1,
+    'drop': 2,
+    'rename': 2,
+    'duplicate': 2,
+    'section': 2,
+    'syntax': 5,
+    'whole_file': 2,
+}
 CASES = st.sampled_from([name for name, w in WEIGHTS.items() for _ in range(w)]).flatmap(
-    FAMILIES.__getitem__)
+    FAMILIES.__getitem__
+)
 
 
 # --- the oracle --------------------------------------------------------------------------------
+
 
 class CaseTimeout(BaseException):
     """A case ran longer than :data:`CASE_TIMEOUT` (a BaseException: nothing may catch it)."""
@@ -632,8 +943,7 @@ def error_problems(err, file, case):
     if not message.startswith(head):
         problems.append(f'message does not start with {head!r}')
     text = _decoded(case.content)
-    if text is not None and err.line is not None and not (
-            1 <= err.line <= text.count('\n') + 2):
+    if text is not None and err.line is not None and not (1 <= err.line <= text.count('\n') + 2):
         problems.append(f'line {err.line} is outside the file')
     lines = key_lines(text) if text is not None else None
     if text is not None and lines is None and err.line is None:
@@ -643,16 +953,17 @@ def error_problems(err, file, case):
         if err.path in lines:
             wanted = set.union(*lines[err.path])
             if err.line not in wanted:
-                problems.append(f'line {err.line}, but {err.path} is on line(s) '
-                                f'{sorted(wanted)}')
+                problems.append(f'line {err.line}, but {err.path} is on line(s) {sorted(wanted)}')
         else:
             parent = _parent(err.path)
             while parent is not None and parent not in lines:
                 parent = _parent(parent)
             wanted = lines[parent][0] if parent is not None else {None}
             if err.line not in wanted:
-                problems.append(f'line {err.line} for the missing key {err.path}; expected '
-                                f'the line of its section {sorted(wanted, key=str)}')
+                problems.append(
+                    f'line {err.line} for the missing key {err.path}; expected '
+                    f'the line of its section {sorted(wanted, key=str)}'
+                )
         if 'expected' not in err.detail and not err.detail.startswith('duplicate key'):
             problems.append('message does not say what was expected')
     if lines is not None and case.path is not None:
@@ -664,13 +975,17 @@ def _targeted_problems(err, case, lines):
     """The error of a one-key mutation must be about that key."""
     path = err.path or ''
     if case.family == 'duplicate':
-        ok = (path == case.path and err.detail.startswith('duplicate key')
-              and f'first given on line {case.duplicate_of})' in err.detail
-              and err.line == max(lines.get(case.path, ({0},))[0]))
+        ok = (
+            path == case.path
+            and err.detail.startswith('duplicate key')
+            and f'first given on line {case.duplicate_of})' in err.detail
+            and err.line == max(lines.get(case.path, ({0},))[0])
+        )
         return [] if ok else [f'expected the duplicate of {case.path} with both lines']
     if case.family == 'rename':
         ok = _parent(path) == _parent(case.new_path) and (
-            'unknown key' in err.detail or err.detail.startswith('duplicate key'))
+            'unknown key' in err.detail or err.detail.startswith('duplicate key')
+        )
         return [] if ok else [f'expected an unknown key next to {case.path}']
     allowed = {case.path}
     if case.new_path:
@@ -717,13 +1032,18 @@ class Fuzzer:
             # pytest keeps warnings off stderr; a real run prints them with Python's default
             # filters (every category but the deprecation, import and resource ones).
             warnings.simplefilter('always')
-            for category in (DeprecationWarning, PendingDeprecationWarning, ImportWarning,
-                             ResourceWarning):
+            for category in (
+                DeprecationWarning,
+                PendingDeprecationWarning,
+                ImportWarning,
+                ResourceWarning,
+            ):
                 warnings.simplefilter('ignore', category)
             code = main(['analyze', file, '--json'])
         out, err = self.capfd.readouterr()
-        err += ''.join(warnings.formatwarning(w.message, w.category, w.filename, w.lineno)
-                       for w in caught)
+        err += ''.join(
+            warnings.formatwarning(w.message, w.category, w.filename, w.lineno) for w in caught
+        )
         return code, out, err
 
     def run(self, case):
@@ -745,9 +1065,12 @@ class Fuzzer:
         # For the subprocess run: one design that closes, one that does not, and clean
         # errors of different kinds of mutation.
         kept = [(o, f) for _, o, f, _ in self.subprocess_cases]
-        keep = (not problems and outcome in SUBPROCESS_QUOTA
-                and kept.count((outcome, case.family)) == 0
-                and [o for o, _ in kept].count(outcome) < SUBPROCESS_QUOTA[outcome])
+        keep = (
+            not problems
+            and outcome in SUBPROCESS_QUOTA
+            and kept.count((outcome, case.family)) == 0
+            and [o for o, _ in kept].count(outcome) < SUBPROCESS_QUOTA[outcome]
+        )
         if keep:
             self.subprocess_cases.append((file, outcome, case.family, self._last))
         else:
@@ -761,15 +1084,20 @@ class Fuzzer:
             code, out, stderr = self.cli(file)
             self._last = (code, out, stderr)
             if code != EXIT_BAD_INPUT or out or stderr != f'voltwake: error: {err.message}\n':
-                problems.append(f'CLI gave exit {code}, stdout {out[:80]!r}, stderr '
-                                f'{stderr[:200]!r} for {err.message[:120]!r}')
+                problems.append(
+                    f'CLI gave exit {code}, stdout {out[:80]!r}, stderr '
+                    f'{stderr[:200]!r} for {err.message[:120]!r}'
+                )
             return ('exit 2' if not problems else 'other'), problems
         inputs = config.model_inputs()
         bad = [name for name, (value, _) in inputs.items() if not math.isfinite(value)]
         if bad:
             return 'other', [f'validated with non-finite inputs {bad}']
-        design = (config.name, tuple(sorted(inputs.items())),
-                  tuple(sorted(config.model_options().items())))
+        design = (
+            config.name,
+            tuple(sorted(inputs.items())),
+            tuple(sorted(config.model_options().items())),
+        )
         if design not in self.designs:
             if len(self.designs) >= MAX_ANALYSES:
                 return 'valid, not analysed', []
@@ -784,19 +1112,32 @@ class Fuzzer:
                 return 'other', [f'exit 0 with stderr {_cut(stderr)!r}']
             return 'exit 0', []
         lines = stderr.splitlines()
-        if (code == EXIT_NOT_CLOSED and not out and len(lines) == 1
-                and lines[0].startswith('voltwake: error: ') and 'Traceback' not in stderr):
+        if (
+            code == EXIT_NOT_CLOSED
+            and not out
+            and len(lines) == 1
+            and lines[0].startswith('voltwake: error: ')
+            and 'Traceback' not in stderr
+        ):
             return 'exit 3', []
-        return 'other', [f'valid config gave exit {code} and {len(lines)} line(s) on stderr: '
-                         f'{_cut(stderr)!r}']
+        return 'other', [
+            f'valid config gave exit {code} and {len(lines)} line(s) on stderr: {_cut(stderr)!r}'
+        ]
 
 
 def _run_subprocesses(cases):
     env = dict(os.environ, OPENMDAO_REPORTS='0')
     env.pop('VOLTWAKE_DEBUG', None)
-    procs = [subprocess.Popen([sys.executable, '-m', 'voltwake.cli', 'analyze', file, '--json'],
-                              stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True,
-                              env=env) for file, *_ in cases]
+    procs = [
+        subprocess.Popen(
+            [sys.executable, '-m', 'voltwake.cli', 'analyze', file, '--json'],
+            stdout=subprocess.PIPE,
+            stderr=subprocess.PIPE,
+            text=True,
+            env=env,
+        )
+        for file, *_ in cases
+    ]
     results = []
     for proc in procs:
         out, err = proc.communicate(timeout=300)
@@ -808,9 +1149,18 @@ def test_fuzzed_configs_end_in_a_documented_way(tmp_path, capfd):
     fuzzer = Fuzzer(str(tmp_path), capfd)
     start = time.perf_counter()
 
-    @settings(max_examples=MAX_EXAMPLES, derandomize=True, database=None, deadline=None,
-              suppress_health_check=[HealthCheck.too_slow, HealthCheck.data_too_large,
-                                     HealthCheck.filter_too_much, HealthCheck.large_base_example])
+    @settings(
+        max_examples=MAX_EXAMPLES,
+        derandomize=True,
+        database=None,
+        deadline=None,
+        suppress_health_check=[
+            HealthCheck.too_slow,
+            HealthCheck.data_too_large,
+            HealthCheck.filter_too_much,
+            HealthCheck.large_base_example,
+        ],
+    )
     @given(case=CASES)
     def fuzz(case):
         fuzzer.run(case)
@@ -820,27 +1170,38 @@ def test_fuzzed_configs_end_in_a_documented_way(tmp_path, capfd):
     # The real entry point on a few of the cases, in parallel: same exit code and streams,
     # and never a traceback.
     for (file, outcome, _, (code, out, err)), (p_code, p_out, p_err) in zip(
-            fuzzer.subprocess_cases, _run_subprocesses(fuzzer.subprocess_cases)):
-        if (p_code, p_err) != (code, err) or 'Traceback' in p_err or (
-                code == EXIT_OK and json.loads(p_out) != json.loads(out)):
-            fuzzer.problems.append(f'subprocess on {file} ({outcome}): exit {p_code}, '
-                                   f'stderr {p_err[-300:]!r}; in-process stderr {err[-300:]!r}')
+        fuzzer.subprocess_cases, _run_subprocesses(fuzzer.subprocess_cases)
+    ):
+        if (
+            (p_code, p_err) != (code, err)
+            or 'Traceback' in p_err
+            or (code == EXIT_OK and json.loads(p_out) != json.loads(out))
+        ):
+            fuzzer.problems.append(
+                f'subprocess on {file} ({outcome}): exit {p_code}, '
+                f'stderr {p_err[-300:]!r}; in-process stderr {err[-300:]!r}'
+            )
 
     counts = fuzzer.outcomes
-    summary = (f"config fuzzing: {fuzzer.count} cases, {counts['exit 2']} clean errors "
-               f"(exit 2), {counts['exit 0']} analysed (exit 0), {counts['exit 3']} not closed "
-               f"(exit 3), {counts['other']} other")
+    summary = (
+        f"config fuzzing: {fuzzer.count} cases, {counts['exit 2']} clean errors "
+        f"(exit 2), {counts['exit 0']} analysed (exit 0), {counts['exit 3']} not closed "
+        f"(exit 3), {counts['other']} other"
+    )
     if counts['valid, not analysed']:
         summary += f", {counts['valid, not analysed']} valid but not analysed (budget)"
-    summary += (f"; {len(fuzzer.designs)} distinct designs analysed, "
-                f"{len(fuzzer.subprocess_cases)} cases also run in a subprocess, "
-                f"{time.perf_counter() - start:.0f} s")
+    summary += (
+        f"; {len(fuzzer.designs)} distinct designs analysed, "
+        f"{len(fuzzer.subprocess_cases)} cases also run in a subprocess, "
+        f"{time.perf_counter() - start:.0f} s"
+    )
     with capfd.disabled():
         print(f'\n{summary}')
-        print('  by mutation: ' + ', '.join(f'{k} {v}' for k, v in sorted(
-            fuzzer.families.items())))
-    assert not fuzzer.problems, (f'{len(fuzzer.problems)} cases did not end in a documented '
-                                 'way:\n' + '\n'.join(fuzzer.problems[:40]))
+        print('  by mutation: ' + ', '.join(f'{k} {v}' for k, v in sorted(fuzzer.families.items())))
+    assert not fuzzer.problems, (
+        f'{len(fuzzer.problems)} cases did not end in a documented '
+        'way:\n' + '\n'.join(fuzzer.problems[:40])
+    )
     assert fuzzer.count >= 500
     assert all(fuzzer.families[name] >= 20 for name in FAMILIES), fuzzer.families
     # Both kinds of ending were exercised, so the run measured something.
@@ -849,6 +1210,7 @@ def test_fuzzed_configs_end_in_a_documented_way(tmp_path, capfd):
 
 
 # --- direct tests ----------------------------------------------------------------------------
+
 
 def _cli_error_line(capfd, file):
     capfd.readouterr()
@@ -863,7 +1225,7 @@ def _cli_error_line(capfd, file):
 def test_billion_laughs_is_refused_with_little_memory(tmp_path, capfd):
     file = str(tmp_path / 'laughs.yaml')
     with open(file, 'w', encoding='utf-8') as handle:
-        handle.write(_laughs(9))          # 10**9 nodes once expanded, a few hundred bytes
+        handle.write(_laughs(9))  # 10**9 nodes once expanded, a few hundred bytes
     tracemalloc.start()
     try:
         with pytest.raises(ConfigError) as info:
@@ -890,18 +1252,20 @@ def test_file_above_the_size_limit_is_refused_unread(tmp_path, capfd):
         _, peak = tracemalloc.get_traced_memory()
     finally:
         tracemalloc.stop()
-    assert info.value.message == (f'{file}: file is {yamlio.MAX_FILE_BYTES + 2} bytes; the '
-                                  f'limit is {yamlio.MAX_FILE_BYTES} bytes')
-    assert peak < yamlio.MAX_FILE_BYTES / 2, peak      # refused before it is read
+    assert info.value.message == (
+        f'{file}: file is {yamlio.MAX_FILE_BYTES + 2} bytes; the '
+        f'limit is {yamlio.MAX_FILE_BYTES} bytes'
+    )
+    assert peak < yamlio.MAX_FILE_BYTES / 2, peak  # refused before it is read
     _cli_error_line(capfd, file)
 
 
-@pytest.mark.parametrize('section, key', [('wing', 'area'), ('electrical', 'generator'),
-                                          ('mission', None)])
+@pytest.mark.parametrize(
+    'section, key', [('wing', 'area'), ('electrical', 'generator'), ('mission', None)]
+)
 def test_duplicate_keys_are_refused_naming_both_lines(tmp_path, capfd, section, key):
     text = TEXTS['turbo']
-    entry = next(e for e in ENTRIES['turbo']
-                 if e.path == ((section, key) if key else (section,)))
+    entry = next(e for e in ENTRIES['turbo'] if e.path == ((section, key) if key else (section,)))
     mutated, second = _duplicate(text, entry)
     file = str(tmp_path / 'dup.yaml')
     with open(file, 'w', encoding='utf-8') as handle:
@@ -910,8 +1274,9 @@ def test_duplicate_keys_are_refused_naming_both_lines(tmp_path, capfd, section, 
         load_config(file)
     err = info.value
     assert (err.line, err.path) == (second, entry.dotted)
-    assert err.message == (f'{file}:{second}: {entry.dotted}: duplicate key (first given on '
-                           f'line {entry.line})')
+    assert err.message == (
+        f'{file}:{second}: {entry.dotted}: duplicate key (first given on line {entry.line})'
+    )
     assert _cli_error_line(capfd, file) == f'voltwake: error: {err.message}'
 
 
@@ -924,5 +1289,7 @@ def test_duplicate_key_inside_a_flow_mapping(tmp_path):
         handle.write(mutated)
     with pytest.raises(ConfigError) as info:
         load_config(file)
-    assert info.value.message == (f'{file}:{line}: electrical.motor.efficiency: duplicate key '
-                                  f'(first given on line {entry.line})')
+    assert info.value.message == (
+        f'{file}:{line}: electrical.motor.efficiency: duplicate key '
+        f'(first given on line {entry.line})'
+    )

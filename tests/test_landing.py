@@ -14,8 +14,9 @@ FT = 0.3048  # international foot, m (exact, NIST SP 811)
 
 def _run(**inputs):
     prob = om.Problem(reports=False)
-    prob.model.add_subsystem('comp', LandingComp(vec_size=len(inputs['landing_mass'])),
-                             promotes=['*'])
+    prob.model.add_subsystem(
+        'comp', LandingComp(vec_size=len(inputs['landing_mass'])), promotes=['*']
+    )
     prob.setup()
     for name, value in inputs.items():
         prob.set_val(name, np.asarray(value, dtype=float))
@@ -24,22 +25,31 @@ def _run(**inputs):
 
 
 def test_partials_two_points():
-    check_component_partials(LandingComp(vec_size=3),
-                             {'landing_mass': [35e3, 60e3, 80e3],
-                              'wing_area': [90.0, 122.0, 150.0],
-                              'max_lift_coefficient_landing': [2.3, 2.7, 3.1],
-                              'density': [1.225, 1.1, 1.0]})
-    check_component_partials(LandingComp(vec_size=3),
-                             {'landing_mass': [70e3, 18e3, 50e3],
-                              'wing_area': [140.0, 55.0, 110.0],
-                              'max_lift_coefficient_landing': [2.9, 2.0, 2.5],
-                              'density': [0.95, 1.25, 1.225]})
+    check_component_partials(
+        LandingComp(vec_size=3),
+        {
+            'landing_mass': [35e3, 60e3, 80e3],
+            'wing_area': [90.0, 122.0, 150.0],
+            'max_lift_coefficient_landing': [2.3, 2.7, 3.1],
+            'density': [1.225, 1.1, 1.0],
+        },
+    )
+    check_component_partials(
+        LandingComp(vec_size=3),
+        {
+            'landing_mass': [70e3, 18e3, 50e3],
+            'wing_area': [140.0, 55.0, 110.0],
+            'max_lift_coefficient_landing': [2.9, 2.0, 2.5],
+            'density': [0.95, 1.25, 1.225],
+        },
+    )
 
 
 def test_hand_calculation():
     mass, area, cl_max, rho = 60000.0, 122.0, 2.7, 1.225
-    prob = _run(landing_mass=[mass], wing_area=[area], max_lift_coefficient_landing=[cl_max],
-                density=[rho])
+    prob = _run(
+        landing_mass=[mass], wing_area=[area], max_lift_coefficient_landing=[cl_max], density=[rho]
+    )
     # Lift equation at the 1-g stall (common practice).
     v_stall = (2.0 * mass * G0 / (rho * area * cl_max)) ** 0.5
     # V_REF = 1.23 V_SR0, CS 25.125(b)(2) / 14 CFR 25.125(b)(2) (from memory).
@@ -52,8 +62,12 @@ def test_hand_calculation():
 
 
 def test_trends():
-    base = {'landing_mass': [60e3] * 3, 'wing_area': [122.0] * 3,
-            'max_lift_coefficient_landing': [2.7] * 3, 'density': [1.225] * 3}
+    base = {
+        'landing_mass': [60e3] * 3,
+        'wing_area': [122.0] * 3,
+        'max_lift_coefficient_landing': [2.7] * 3,
+        'density': [1.225] * 3,
+    }
     more_lift = _run(**{**base, 'max_lift_coefficient_landing': [2.4, 2.7, 3.0]})
     assert np.all(np.diff(more_lift.get_val('approach_speed')) < 0.0)
     assert np.all(np.diff(more_lift.get_val('landing_field_length')) < 0.0)
@@ -61,14 +75,21 @@ def test_trends():
     assert np.all(np.diff(heavier.get_val('approach_speed')) > 0.0)
     assert np.all(np.diff(heavier.get_val('landing_field_length')) > 0.0)
     # Stall speed scales with the square root of wing loading (lift equation).
-    np.testing.assert_allclose(heavier.get_val('stall_speed') / heavier.get_val('stall_speed')[0],
-                               np.sqrt(np.array([50.0, 60.0, 70.0]) / 50.0), rtol=1e-12)
+    np.testing.assert_allclose(
+        heavier.get_val('stall_speed') / heavier.get_val('stall_speed')[0],
+        np.sqrt(np.array([50.0, 60.0, 70.0]) / 50.0),
+        rtol=1e-12,
+    )
 
 
 def test_plausible_for_120_seat_twin():
     # 120-seat twin: S = 122 m**2, CLmax,L = 2.7, landing between 0.85 MTOW and MTOW (67 t).
     # Approach speeds of about 120-145 kt are typical of the class (common practice).
-    prob = _run(landing_mass=[0.85 * 67e3, 67e3], wing_area=[122.0] * 2,
-                max_lift_coefficient_landing=[2.7] * 2, density=[1.225] * 2)
+    prob = _run(
+        landing_mass=[0.85 * 67e3, 67e3],
+        wing_area=[122.0] * 2,
+        max_lift_coefficient_landing=[2.7] * 2,
+        density=[1.225] * 2,
+    )
     v_app_kt = prob.get_val('approach_speed', units='kn')
     assert np.all((v_app_kt > 120.0) & (v_app_kt < 145.0))

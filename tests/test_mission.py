@@ -27,12 +27,20 @@ LHV = 43.0e6  # J/kg; any value works: the mapping below makes the result indepe
 def _cp1_inputs():
     """Mission inputs reproducing the plain cruise Breguet problem of the CP-1 example."""
     c_si = CP1_C / FT  # 1/m, weight of fuel per unit of shaft energy
-    return {'mtow': CP1_W0 * LB, 'lift_to_drag': CP1_LD, 'fuel_heating_value': LHV,
-            # prop Breguet R = (eta_pr / c) (L/D) ln(W0/W1) maps to ours by
-            # eta_o = eta_pr g0 / (c LHV)
-            'overall_efficiency': CP1_ETA_PR * G0 / (c_si * LHV),
-            'takeoff_fraction': 1.0, 'climb_fraction': 1.0, 'landing_fraction': 1.0,
-            'diversion_range': 0.0, 'hold_time': 0.0, 'contingency_fraction': 0.0}
+    return {
+        'mtow': CP1_W0 * LB,
+        'lift_to_drag': CP1_LD,
+        'fuel_heating_value': LHV,
+        # prop Breguet R = (eta_pr / c) (L/D) ln(W0/W1) maps to ours by
+        # eta_o = eta_pr g0 / (c LHV)
+        'overall_efficiency': CP1_ETA_PR * G0 / (c_si * LHV),
+        'takeoff_fraction': 1.0,
+        'climb_fraction': 1.0,
+        'landing_fraction': 1.0,
+        'diversion_range': 0.0,
+        'hold_time': 0.0,
+        'contingency_fraction': 0.0,
+    }
 
 
 def _problem(vec_size=1):
@@ -57,8 +65,9 @@ def test_breguet_cp1_fuel_fraction_from_book_range():
     # tolerance 0.5 %: the book rounds to three figures
     assert prob.get_val('cruise_fuel_fraction')[0] == pytest.approx(CP1_W1 / CP1_W0, rel=5e-3)
     assert prob.get_val('landing_mass', units='kg')[0] == pytest.approx(CP1_W1 * LB, rel=5e-3)
-    assert prob.get_val('block_fuel', units='kg')[0] == pytest.approx((CP1_W0 - CP1_W1) * LB,
-                                                                      rel=5e-3)
+    assert prob.get_val('block_fuel', units='kg')[0] == pytest.approx(
+        (CP1_W0 - CP1_W1) * LB, rel=5e-3
+    )
     assert prob.get_val('reserve_fuel', units='kg')[0] == pytest.approx(0.0, abs=1e-9)
 
 
@@ -80,14 +89,20 @@ def test_breguet_cp1_range_from_book_weights():
 
 
 # a realistic airliner mission at three points, all inputs different (demo values)
-MISSION = {'mtow': [70000.0, 120000.0, 45000.0], 'range': [5.0e6, 9.0e6, 1.5e6],
-           'lift_to_drag': [17.0, 19.0, 15.0], 'overall_efficiency': [0.35, 0.42, 0.30],
-           'fuel_heating_value': [43.0e6, 43.2e6, 42.8e6],
-           'takeoff_fraction': [0.975, 0.97, 0.98], 'climb_fraction': [0.98, 0.985, 0.975],
-           'landing_fraction': [0.982, 0.99, 0.985],
-           'diversion_range': [370400.0, 400000.0, 200000.0],
-           'hold_time': [1800.0, 2700.0, 1200.0], 'hold_speed': [130.0, 140.0, 110.0],
-           'contingency_fraction': [0.05, 0.03, 0.1]}
+MISSION = {
+    'mtow': [70000.0, 120000.0, 45000.0],
+    'range': [5.0e6, 9.0e6, 1.5e6],
+    'lift_to_drag': [17.0, 19.0, 15.0],
+    'overall_efficiency': [0.35, 0.42, 0.30],
+    'fuel_heating_value': [43.0e6, 43.2e6, 42.8e6],
+    'takeoff_fraction': [0.975, 0.97, 0.98],
+    'climb_fraction': [0.98, 0.985, 0.975],
+    'landing_fraction': [0.982, 0.99, 0.985],
+    'diversion_range': [370400.0, 400000.0, 200000.0],
+    'hold_time': [1800.0, 2700.0, 1200.0],
+    'hold_speed': [130.0, 140.0, 110.0],
+    'contingency_fraction': [0.05, 0.03, 0.1],
+}
 
 
 def test_closed_form_identities():
@@ -112,13 +127,15 @@ def test_closed_form_identities():
     np.testing.assert_allclose(prob.get_val('landing_mass'), m_land, rtol=1e-12)
     np.testing.assert_allclose(prob.get_val('reserve_fuel'), reserve, rtol=1e-12)
     np.testing.assert_allclose(prob.get_val('total_fuel'), trip + reserve, rtol=1e-12)
-    np.testing.assert_allclose(prob.get_val('block_energy'),
-                               trip * v['fuel_heating_value'], rtol=1e-12)
+    np.testing.assert_allclose(
+        prob.get_val('block_energy'), trip * v['fuel_heating_value'], rtol=1e-12
+    )
 
     # mid-cruise mass is the geometric mean of the cruise start and end masses
     m_start = v['mtow'] * v['takeoff_fraction'] * v['climb_fraction']
-    np.testing.assert_allclose(prob.get_val('mid_cruise_mass'),
-                               np.sqrt(m_start * m_start * f_cr), rtol=1e-12)
+    np.testing.assert_allclose(
+        prob.get_val('mid_cruise_mass'), np.sqrt(m_start * m_start * f_cr), rtol=1e-12
+    )
 
 
 def test_cruise_fraction_multiplies_over_legs():
@@ -131,18 +148,22 @@ def test_cruise_fraction_multiplies_over_legs():
 
 
 def test_no_range_no_cruise_fuel():
-    prob = _run({'range': 0.0, 'takeoff_fraction': 1.0, 'climb_fraction': 1.0,
-                 'landing_fraction': 1.0})
+    prob = _run(
+        {'range': 0.0, 'takeoff_fraction': 1.0, 'climb_fraction': 1.0, 'landing_fraction': 1.0}
+    )
     assert prob.get_val('cruise_fuel_fraction')[0] == 1.0
     assert prob.get_val('block_fuel')[0] == pytest.approx(0.0, abs=1e-9)
 
 
-@pytest.mark.parametrize('name, values, sign', [
-    ('range', [3.0e6, 5.0e6, 7.0e6], +1),
-    ('fuel_heating_value', [40.0e6, 43.0e6, 46.0e6], -1),
-    ('lift_to_drag', [14.0, 17.0, 20.0], -1),
-    ('overall_efficiency', [0.30, 0.35, 0.40], -1),
-])
+@pytest.mark.parametrize(
+    'name, values, sign',
+    [
+        ('range', [3.0e6, 5.0e6, 7.0e6], +1),
+        ('fuel_heating_value', [40.0e6, 43.0e6, 46.0e6], -1),
+        ('lift_to_drag', [14.0, 17.0, 20.0], -1),
+        ('overall_efficiency', [0.30, 0.35, 0.40], -1),
+    ],
+)
 def test_fuel_trends(name, values, sign):
     prob = _run({name: values}, vec_size=3)
     for out in ('block_fuel', 'total_fuel'):
@@ -153,11 +174,20 @@ def test_fuel_trends(name, values, sign):
 
 def test_partials():
     check_component_partials(MissionFuelComp(vec_size=3), MISSION)
-    check_component_partials(MissionFuelComp(vec_size=3), {
-        'mtow': [2000.0, 300000.0, 9000.0], 'range': [4.0e5, 1.4e7, 2.0e6],
-        'lift_to_drag': [11.0, 22.0, 13.6], 'overall_efficiency': [0.2, 0.5, 0.25],
-        'fuel_heating_value': [42.0e6, 120.0e6, 43.5e6],
-        'takeoff_fraction': [0.99, 0.96, 1.0], 'climb_fraction': [0.97, 0.99, 1.0],
-        'landing_fraction': [0.995, 0.98, 1.0], 'diversion_range': [1.0e5, 5.0e5, 0.0],
-        'hold_time': [600.0, 3600.0, 0.0], 'hold_speed': [80.0, 150.0, 60.0],
-        'contingency_fraction': [0.0, 0.05, 0.15]})
+    check_component_partials(
+        MissionFuelComp(vec_size=3),
+        {
+            'mtow': [2000.0, 300000.0, 9000.0],
+            'range': [4.0e5, 1.4e7, 2.0e6],
+            'lift_to_drag': [11.0, 22.0, 13.6],
+            'overall_efficiency': [0.2, 0.5, 0.25],
+            'fuel_heating_value': [42.0e6, 120.0e6, 43.5e6],
+            'takeoff_fraction': [0.99, 0.96, 1.0],
+            'climb_fraction': [0.97, 0.99, 1.0],
+            'landing_fraction': [0.995, 0.98, 1.0],
+            'diversion_range': [1.0e5, 5.0e5, 0.0],
+            'hold_time': [600.0, 3600.0, 0.0],
+            'hold_speed': [80.0, 150.0, 60.0],
+            'contingency_fraction': [0.0, 0.05, 0.15],
+        },
+    )

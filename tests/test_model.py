@@ -35,7 +35,8 @@ def test_demos_close_in_a_handful_of_newton_iterations(demo, reference):
         assert 1 <= result.iterations <= 8
         # The mass balance closes: MTOW = OEW + payload + fuel.
         assert result.mtow_kg == pytest.approx(
-            result.oew_kg + result.payload_kg + result.total_fuel_kg, rel=1e-10)
+            result.oew_kg + result.payload_kg + result.total_fuel_kg, rel=1e-10
+        )
 
 
 def test_demo_tsfc_is_typical_of_high_bypass_turbofans(reference):
@@ -61,6 +62,7 @@ def test_total_derivative_check_catches_a_wrong_partial(monkeypatch):
     # The check must not compare the analytic totals with themselves (see check_totals_cs):
     # a 1% error in one partial of the power saving coefficient must show.
     from voltwake.components.power_saving import PowerSavingComp
+
     right = PowerSavingComp.compute_partials
 
     def wrong(self, inputs, partials):
@@ -92,8 +94,10 @@ def test_power_balance_and_heat_load(demo):
     delivered = prob.get_val('aft_shaft_power')[0]
     efficiency = prob.get_val('electrical_chain_efficiency')[0]
     assert extracted * efficiency == pytest.approx(delivered, rel=1e-12)
-    losses = sum(prob.get_val(f'{d}_loss')[0]
-                 for d in ('generator', 'rectifier', 'cable', 'inverter', 'motor'))
+    losses = sum(
+        prob.get_val(f'{d}_loss')[0]
+        for d in ('generator', 'rectifier', 'cable', 'inverter', 'motor')
+    )
     assert prob.get_val('thermal_load')[0] == pytest.approx(losses, rel=1e-12)
     assert losses == pytest.approx(extracted - delivered, rel=1e-10)
     # The extracted power is shared by the turbofans and paid for in their fuel flow.
@@ -119,8 +123,9 @@ def test_power_saving_coefficient_of_the_demo(demo):
 def test_psc_vanishes_as_the_layer_becomes_thin_relative_to_the_fan():
     # A very clean fuselage (tiny drag area) leaves a thin layer; a large aft fan captures
     # mostly free stream: PSC -> 0.
-    thin = voltwake.analyze(TURBO_ELECTRIC, {'fuselage.interference_factor': 0.01,
-                                             'aft_fan.thrust_fraction': 0.4})
+    thin = voltwake.analyze(
+        TURBO_ELECTRIC, {'fuselage.interference_factor': 0.01, 'aft_fan.thrust_fraction': 0.4}
+    )
     base = voltwake.analyze(TURBO_ELECTRIC, {'aft_fan.thrust_fraction': 0.4})
     assert thin.capture_height_m > 3 * thin.boundary_layer_thickness_m
     assert 0 < thin.power_saving_coefficient < 0.25 * base.power_saving_coefficient

@@ -33,14 +33,21 @@ def test_wing_area_for_least_fuel_gives_the_best_lift_coefficient():
     Introduction to Flight, ch. 6; from memory), with cd0_wing the wing-area-proportional
     zero-lift drag coefficient.
     """
-    config = _conventional_with({'objective': 'block_fuel',
-                                 'design_variables': {'wing.area': {'lower': '60 m**2',
-                                                                    'upper': '250 m**2'}}})
+    config = _conventional_with(
+        {
+            'objective': 'block_fuel',
+            'design_variables': {'wing.area': {'lower': '60 m**2', 'upper': '250 m**2'}},
+        }
+    )
     result = optimize(config)
     assert result.success, result.message
     cd0_wing = config.value('drag.cd0_other')
-    expected = math.sqrt(cd0_wing * math.pi * config.value('wing.oswald_efficiency')
-                         * config.value('wing.aspect_ratio'))
+    expected = math.sqrt(
+        cd0_wing
+        * math.pi
+        * config.value('wing.oswald_efficiency')
+        * config.value('wing.aspect_ratio')
+    )
     assert result.outputs['cruise_cl'] == pytest.approx(expected, rel=1e-4)
     assert not result.design['wing.area']['active']
 
@@ -73,12 +80,15 @@ def _starts(config):
 def _blend(config, fractions):
     """Design-variable values (SI) at the given fractions of their bounds."""
     from voltwake.config import field_at, parse_quantity
+
     out = {}
     for path, frac in fractions.items():
         bounds = config.values['optimization.design_variables'][path]
         units = field_at(path).units
-        lo, hi = (parse_quantity(bounds[k], units, {}) if units else float(bounds[k])
-                  for k in ('lower', 'upper'))
+        lo, hi = (
+            parse_quantity(bounds[k], units, {}) if units else float(bounds[k])
+            for k in ('lower', 'upper')
+        )
         out[path] = lo + frac * (hi - lo)
     return out
 
@@ -97,12 +107,17 @@ def test_infeasible_span_limit_is_not_a_success():
     # No wing inside the bounds meets a 20 m span: sqrt(7 * 95 m^2) = 25.8 m at the least.
     result = optimize(TURBO_ELECTRIC, {'optimization.constraints.wingspan': {'upper': '20 m'}})
     assert not result.success
-    assert 'infeasible' in result.message or 'Positive directional' in result.message \
-        or 'failed' in result.message.lower() or 'Inequality' in result.message
+    assert (
+        'infeasible' in result.message
+        or 'Positive directional' in result.message
+        or 'failed' in result.message.lower()
+        or 'Inequality' in result.message
+    )
 
 
 def test_total_derivatives_of_the_optimisation_problem():
     from voltwake.derivatives import check_totals_cs
+
     prob = build_problem(TURBO_ELECTRIC)
     prob.run_model()
     data = check_totals_cs(prob, driver_scaling=True)
@@ -137,6 +152,7 @@ def test_cli_optimize_infeasible_exits_4(capsys):
 
 def test_recorder_holds_driver_cases(tmp_path):
     import openmdao.api as om
+
     path = str(tmp_path / 'cases.sql')
     result = optimize(TURBO_ELECTRIC, recorder_path=path)
     reader = om.CaseReader(path)
@@ -146,7 +162,8 @@ def test_recorder_holds_driver_cases(tmp_path):
     assert 10 <= len(cases) <= result.evaluations
     last = reader.get_case(cases[-1])
     assert last.get_objectives()['block_fuel'][0] == pytest.approx(
-        result.outputs['block_fuel_kg'], rel=1e-6)
+        result.outputs['block_fuel_kg'], rel=1e-6
+    )
 
 
 def test_trial_point_that_does_not_close_is_counted_not_fatal():
@@ -171,32 +188,42 @@ def test_trial_point_that_does_not_close_is_counted_not_fatal():
 
 def test_design_variable_scaling_and_bad_specs():
     from voltwake.errors import ConfigError
-    prob = build_problem(TURBO_ELECTRIC, {
-        'optimization.design_variables.wing.area': {'lower': 95, 'upper': 150, 'ref': 100}})
+
+    prob = build_problem(
+        TURBO_ELECTRIC,
+        {'optimization.design_variables.wing.area': {'lower': 95, 'upper': 150, 'ref': 100}},
+    )
     meta = prob.model.get_design_vars()
     # ref0 defaults to the lower bound: scaler 1 / (100 - 95).
     assert meta['wing_area']['total_scaler'] == pytest.approx(0.2)
     with pytest.raises(ConfigError, match='ref must differ from ref0'):
-        build_problem(TURBO_ELECTRIC, {'optimization.design_variables.wing.area': {
-            'lower': 95, 'upper': 150, 'ref0': 150}})
+        build_problem(
+            TURBO_ELECTRIC,
+            {'optimization.design_variables.wing.area': {'lower': 95, 'upper': 150, 'ref0': 150}},
+        )
     with pytest.raises(ConfigError, match='not below upper'):
-        build_problem(TURBO_ELECTRIC, {
-            'optimization.design_variables.wing.area': {'lower': 150, 'upper': 95}})
+        build_problem(
+            TURBO_ELECTRIC, {'optimization.design_variables.wing.area': {'lower': 150, 'upper': 95}}
+        )
     with pytest.raises(ConfigError, match='not a configurable model input'):
-        build_problem(TURBO_ELECTRIC, {
-            'optimization.design_variables.wing.span': {'lower': 1, 'upper': 2}})
+        build_problem(
+            TURBO_ELECTRIC, {'optimization.design_variables.wing.span': {'lower': 1, 'upper': 2}}
+        )
     with pytest.raises(ConfigError, match="did you mean 'wingspan'"):
         build_problem(TURBO_ELECTRIC, {'optimization.constraints.wingspn': {'upper': 36}})
 
 
 def test_compare_optimized_reference_has_no_aft_fan(demo_optimum):
     from voltwake.compare import compare
+
     comp = compare(TURBO_ELECTRIC, optimized=True)
     assert comp.design.values['block_fuel_kg'] == pytest.approx(
-        demo_optimum.outputs['block_fuel_kg'], rel=1e-6)
+        demo_optimum.outputs['block_fuel_kg'], rel=1e-6
+    )
     assert comp.reference.values['electrical_mass_kg'] == 0.0
-    expected = 100 * (comp.design.values['block_fuel_kg'] / comp.reference.values[
-        'block_fuel_kg'] - 1)
+    expected = 100 * (
+        comp.design.values['block_fuel_kg'] / comp.reference.values['block_fuel_kg'] - 1
+    )
     assert comp.fuel_burn_change_percent == pytest.approx(expected, rel=1e-12)
 
 
@@ -208,11 +235,16 @@ def test_ctrl_c_leaves_partial_results_and_a_readable_case_file(tmp_path):
     import time
 
     import openmdao.api as om
+
     out = tmp_path / 'run'
     env = dict(os.environ, OPENMDAO_REPORTS='0')
-    proc = subprocess.Popen([sys.executable, '-m', 'voltwake.cli', 'optimize', '--out',
-                             str(out)], stdout=subprocess.PIPE, stderr=subprocess.PIPE,
-                            text=True, env=env)
+    proc = subprocess.Popen(
+        [sys.executable, '-m', 'voltwake.cli', 'optimize', '--out', str(out)],
+        stdout=subprocess.PIPE,
+        stderr=subprocess.PIPE,
+        text=True,
+        env=env,
+    )
     seen = 0
     deadline = time.monotonic() + 120
     while time.monotonic() < deadline:
@@ -224,13 +256,15 @@ def test_ctrl_c_leaves_partial_results_and_a_readable_case_file(tmp_path):
     proc.send_signal(signal.SIGINT)
     _, err = proc.communicate(timeout=60)
     assert proc.returncode == 130, err
-    assert err.strip().splitlines() == ['voltwake: error: optimisation interrupted after '
-                                        + err.split('after ')[1].strip()]
+    assert err.strip().splitlines() == [
+        'voltwake: error: optimisation interrupted after ' + err.split('after ')[1].strip()
+    ]
     data = json.loads((out / 'results.json').read_text())
     assert data['status'] == 'partial' and 'partial' in data['message']
     assert len(data['history']) >= 5
-    cases = om.CaseReader(str(out / 'cases.sql')).list_cases('driver', recurse=False,
-                                                             out_stream=None)
+    cases = om.CaseReader(str(out / 'cases.sql')).list_cases(
+        'driver', recurse=False, out_stream=None
+    )
     assert len(cases) >= 1
 
 

@@ -56,12 +56,11 @@ def test_two_processes_give_exactly_the_serial_results():
 @pytest.mark.parametrize('jobs', [1, 2])
 def test_progress_counts_done_and_failed_points(jobs):
     calls = []
-    results = map_jobs(fail_on_odd, range(5), jobs=jobs,
-                       progress=lambda *args: calls.append(args))
+    results = map_jobs(fail_on_odd, range(5), jobs=jobs, progress=lambda *args: calls.append(args))
     assert [r['item'] for r in results] == list(range(5))
     assert [c[0] for c in calls] == [1, 2, 3, 4, 5]
     assert all(c[2] == 5 for c in calls)
-    assert calls[-1][1] == 2                      # items 1 and 3 failed
+    assert calls[-1][1] == 2  # items 1 and 3 failed
     assert [c[1] for c in calls] == sorted(c[1] for c in calls)
     elapsed = [c[3] for c in calls]
     assert elapsed == sorted(elapsed) and elapsed[0] >= 0.0
@@ -127,9 +126,14 @@ def test_mpi_ranks_give_the_serial_sweep_on_every_rank(tmp_path):
     targets = {'aft_fan.thrust_fraction': [0.1, 0.2]}
     out = str(tmp_path / 'rank')
     env = dict(os.environ, OPENMDAO_REPORTS='0')
-    run = subprocess.run([mpiexec, '-n', '2', sys.executable, SCRIPT, out, json.dumps(targets)],
-                         check=False, capture_output=True, text=True, timeout=300,
-                         env=env)
+    run = subprocess.run(
+        [mpiexec, '-n', '2', sys.executable, SCRIPT, out, json.dumps(targets)],
+        check=False,
+        capture_output=True,
+        text=True,
+        timeout=300,
+        env=env,
+    )
     assert run.returncode == 0, run.stderr[-2000:]
     records = []
     for rank in (0, 1):
@@ -138,9 +142,9 @@ def test_mpi_ranks_give_the_serial_sweep_on_every_rank(tmp_path):
     assert [(r['rank'], r['size'], r['root']) for r in records] == [(0, 2, True), (1, 2, False)]
     serial = json.loads(json.dumps(target_sweep(None, targets, jobs=1)))
     assert all(p['success'] for p in serial['points'])
-    for record in records:   # gathered on rank 0 and broadcast: the serial numbers exactly
+    for record in records:  # gathered on rank 0 and broadcast: the serial numbers exactly
         assert record['sweep'] == serial
-        assert record['error'] == 'item 1 fails'   # the first failing item, on every rank
+        assert record['error'] == 'item 1 fails'  # the first failing item, on every rank
     # Progress only on rank 0: the reference and both points, none failed.
     assert records[0]['progress'] == [[1, 0, 3], [2, 0, 3], [3, 0, 3]]
     assert records[1]['progress'] == []

@@ -34,11 +34,20 @@ def _grid(nx=6, ny=5):
 
 def _chain_outputs():
     # Invented demo values; the delivered power is extraction minus the five losses.
-    losses = {'generator_loss_kW': 60.0, 'rectifier_loss_kW': 30.0, 'cable_loss_kW': 20.0,
-              'inverter_loss_kW': 30.0, 'motor_loss_kW': 50.0}
-    return {'turbofan_power_extraction_kW': 3000.0, 'aft_fan_shaft_power_kW': 2810.0,
-            'electrical_chain_efficiency': 2810.0 / 3000.0, 'thermal_load_kW': 190.0,
-            **losses}
+    losses = {
+        'generator_loss_kW': 60.0,
+        'rectifier_loss_kW': 30.0,
+        'cable_loss_kW': 20.0,
+        'inverter_loss_kW': 30.0,
+        'motor_loss_kW': 50.0,
+    }
+    return {
+        'turbofan_power_extraction_kW': 3000.0,
+        'aft_fan_shaft_power_kW': 2810.0,
+        'electrical_chain_efficiency': 2810.0 / 3000.0,
+        'thermal_load_kW': 190.0,
+        **losses,
+    }
 
 
 # ----------------------------------------------------------------------------- plots
@@ -51,12 +60,19 @@ def mpl():
 
 def test_fuel_map_with_sign_change_draws_break_even(mpl, tmp_path):
     x, y, gx, gy = _grid()
-    change = 10.0 * (gx - 0.4) + 0.5 * (gy - 2.0)      # crosses zero inside the range
+    change = 10.0 * (gx - 0.4) + 0.5 * (gy - 2.0)  # crosses zero inside the range
     closed = np.ones_like(change, dtype=bool)
     closed[1, 2] = False
     closed[3, 4] = False
-    path = plots.plot_fuel_map(x, y, change, closed, 'fan pressure ratio [-]',
-                               'thrust fraction [-]', str(tmp_path / 'fuel_map.png'))
+    path = plots.plot_fuel_map(
+        x,
+        y,
+        change,
+        closed,
+        'fan pressure ratio [-]',
+        'thrust fraction [-]',
+        str(tmp_path / 'fuel_map.png'),
+    )
     assert path == str(tmp_path / 'fuel_map.png')
     _assert_png(path)
     assert path.details['break_even_drawn'] is True
@@ -65,9 +81,16 @@ def test_fuel_map_with_sign_change_draws_break_even(mpl, tmp_path):
 
 def test_fuel_map_without_sign_change_has_no_break_even(mpl, tmp_path):
     x, y, gx, gy = _grid()
-    change = 1.0 + gx + gy                              # positive everywhere
-    path = plots.plot_fuel_map(x, y, change, np.ones_like(change, dtype=bool), 'x [m]',
-                               'y [m]', str(tmp_path / 'fuel_map.png'))
+    change = 1.0 + gx + gy  # positive everywhere
+    path = plots.plot_fuel_map(
+        x,
+        y,
+        change,
+        np.ones_like(change, dtype=bool),
+        'x [m]',
+        'y [m]',
+        str(tmp_path / 'fuel_map.png'),
+    )
     _assert_png(path)
     assert path.details['break_even_drawn'] is False
     assert path.details['failed_points'] == 0
@@ -78,11 +101,12 @@ def test_fuel_map_without_sign_change_has_no_break_even(mpl, tmp_path):
 def test_fuel_map_sign_change_only_at_failed_point_has_no_break_even(mpl, tmp_path):
     x, y, gx, gy = _grid()
     change = 1.0 + gx + gy
-    change[2, 3] = -5.0                                 # the only negative value ...
+    change[2, 3] = -5.0  # the only negative value ...
     closed = np.ones_like(change, dtype=bool)
-    closed[2, 3] = False                                # ... did not close: masked
-    path = plots.plot_fuel_map(x, y, change, closed, 'x [m]', 'y [m]',
-                               str(tmp_path / 'fuel_map.png'))
+    closed[2, 3] = False  # ... did not close: masked
+    path = plots.plot_fuel_map(
+        x, y, change, closed, 'x [m]', 'y [m]', str(tmp_path / 'fuel_map.png')
+    )
     assert path.details['break_even_drawn'] is False
     assert path.details['failed_points'] == 1
     assert min(path.details['levels']) > 0.0
@@ -92,8 +116,9 @@ def test_fuel_map_all_failed_still_writes(mpl, tmp_path):
     x, y, gx, _ = _grid()
     change = gx - 0.4
     closed = np.zeros_like(change, dtype=bool)
-    path = plots.plot_fuel_map(x, y, change, closed, 'x [m]', 'y [m]',
-                               str(tmp_path / 'fuel_map.png'))
+    path = plots.plot_fuel_map(
+        x, y, change, closed, 'x [m]', 'y [m]', str(tmp_path / 'fuel_map.png')
+    )
     _assert_png(path)
     assert path.details['failed_points'] == change.size
     assert path.details['break_even_drawn'] is False
@@ -103,16 +128,24 @@ def test_fuel_map_non_finite_values_count_as_failed(mpl, tmp_path):
     x, y, gx, _ = _grid()
     change = gx - 0.4
     change[0, 0] = np.nan
-    path = plots.plot_fuel_map(x, y, change, np.ones_like(change, dtype=bool), 'x [m]',
-                               'y [m]', str(tmp_path / 'fuel_map.png'))
+    path = plots.plot_fuel_map(
+        x,
+        y,
+        change,
+        np.ones_like(change, dtype=bool),
+        'x [m]',
+        'y [m]',
+        str(tmp_path / 'fuel_map.png'),
+    )
     assert path.details['failed_points'] == 1
 
 
 def test_fuel_map_rejects_wrong_shapes(mpl, tmp_path):
     x, y, gx, _ = _grid()
     with pytest.raises(ValueError, match='shape'):
-        plots.plot_fuel_map(x, y, gx.T, np.ones_like(gx.T, dtype=bool), 'x', 'y',
-                            str(tmp_path / 'bad.png'))
+        plots.plot_fuel_map(
+            x, y, gx.T, np.ones_like(gx.T, dtype=bool), 'x', 'y', str(tmp_path / 'bad.png')
+        )
     assert not (tmp_path / 'bad.png').exists()
 
 
@@ -121,8 +154,15 @@ def test_psc_map(mpl, tmp_path):
     psc = 0.05 + 0.1 * gx * gy
     closed = np.ones_like(psc, dtype=bool)
     closed[0, -1] = False
-    path = plots.plot_psc_map(x, y, psc, closed, 'thrust fraction [-]',
-                              'fan pressure ratio [-]', str(tmp_path / 'psc_map.png'))
+    path = plots.plot_psc_map(
+        x,
+        y,
+        psc,
+        closed,
+        'thrust fraction [-]',
+        'fan pressure ratio [-]',
+        str(tmp_path / 'psc_map.png'),
+    )
     _assert_png(path)
     assert path.details['failed_points'] == 1
     assert 'break_even_drawn' in path.details and not path.details['break_even_drawn']
@@ -130,11 +170,20 @@ def test_psc_map(mpl, tmp_path):
 
 def test_mass_breakdown_totals(mpl, tmp_path):
     # Invented demo masses; MTOW is the sum of the parts (the model's mass build-up).
-    design = {'airframe_mass_kg': 30000.0, 'engines_mass_kg': 7000.0,
-              'aft_fan_mass_kg': 800.0, 'electrical_mass_kg': 1500.0,
-              'payload_kg': 15000.0, 'total_fuel_kg': 12000.0}
-    reference = {'airframe_mass_kg': 29000.0, 'engines_mass_kg': 7500.0,
-                 'payload_kg': 15000.0, 'total_fuel_kg': 12500.0}   # no aft fan: 0
+    design = {
+        'airframe_mass_kg': 30000.0,
+        'engines_mass_kg': 7000.0,
+        'aft_fan_mass_kg': 800.0,
+        'electrical_mass_kg': 1500.0,
+        'payload_kg': 15000.0,
+        'total_fuel_kg': 12000.0,
+    }
+    reference = {
+        'airframe_mass_kg': 29000.0,
+        'engines_mass_kg': 7500.0,
+        'payload_kg': 15000.0,
+        'total_fuel_kg': 12500.0,
+    }  # no aft fan: 0
     path = plots.plot_mass_breakdown(design, reference, str(tmp_path / 'masses.png'))
     _assert_png(path)
     assert path.details['totals_kg'] == pytest.approx([66300.0, 64000.0])
@@ -145,8 +194,7 @@ def test_mass_breakdown_checks_mtow(mpl, tmp_path):
     consistent = {**design, 'mtow_kg': 57000.0}
     plots.plot_mass_breakdown(consistent, consistent, str(tmp_path / 'ok.png'))
     with pytest.raises(ValueError, match='mtow_kg'):
-        plots.plot_mass_breakdown({**design, 'mtow_kg': 58000.0}, design,
-                                  str(tmp_path / 'bad.png'))
+        plots.plot_mass_breakdown({**design, 'mtow_kg': 58000.0}, design, str(tmp_path / 'bad.png'))
 
 
 def test_power_flow_closed_balance(mpl, tmp_path):
@@ -155,24 +203,25 @@ def test_power_flow_closed_balance(mpl, tmp_path):
     _assert_png(path)
     # Conservation of energy through the chain (common practice): P_k = P_(k-1) - loss_k.
     assert path.details['powers_kW'] == pytest.approx(
-        [3000.0, 2940.0, 2910.0, 2890.0, 2860.0, 2810.0], rel=1e-12)
+        [3000.0, 2940.0, 2910.0, 2890.0, 2860.0, 2810.0], rel=1e-12
+    )
 
 
 def test_power_flow_balance_within_tolerance(mpl, tmp_path):
     out = _chain_outputs()
-    out['aft_fan_shaft_power_kW'] *= 1.0 + 1e-8        # well inside 1e-6 of extraction
+    out['aft_fan_shaft_power_kW'] *= 1.0 + 1e-8  # well inside 1e-6 of extraction
     plots.plot_power_flow(out, str(tmp_path / 'power_flow.png'))
 
 
 def test_power_flow_rejects_open_balance(tmp_path):
     # The check runs before any drawing, so this test needs no matplotlib.
     out = _chain_outputs()
-    out['motor_loss_kW'] = 51.0                          # 1 kW unaccounted for
+    out['motor_loss_kW'] = 51.0  # 1 kW unaccounted for
     with pytest.raises(ValueError, match='does not close'):
         plots.plot_power_flow(out, str(tmp_path / 'power_flow.png'))
     assert not (tmp_path / 'power_flow.png').exists()
     out = _chain_outputs()
-    out['aft_fan_shaft_power_kW'] *= 1.0 + 1e-5        # outside 1e-6 of extraction
+    out['aft_fan_shaft_power_kW'] *= 1.0 + 1e-5  # outside 1e-6 of extraction
     with pytest.raises(ValueError, match='does not close'):
         plots.power_chain(out)
 
@@ -187,16 +236,23 @@ def test_power_flow_rejects_missing_and_bad_fields():
     with pytest.raises(ValueError, match='extraction'):
         plots.power_chain(out)
     out = _chain_outputs()
-    out['cable_loss_kW'], out['motor_loss_kW'] = -10.0, 80.0   # closes, but a loss < 0
+    out['cable_loss_kW'], out['motor_loss_kW'] = -10.0, 80.0  # closes, but a loss < 0
     with pytest.raises(ValueError, match='negative'):
         plots.power_chain(out)
 
 
 def test_history(mpl, tmp_path):
-    history = [{'evaluation': i, 'objective': 12000.0 - 50.0 * i,
-                'max_violation': 10.0 ** (-2 * i), 'closed': i != 3} for i in range(10)]
+    history = [
+        {
+            'evaluation': i,
+            'objective': 12000.0 - 50.0 * i,
+            'max_violation': 10.0 ** (-2 * i),
+            'closed': i != 3,
+        }
+        for i in range(10)
+    ]
     history[3]['objective'] = float('nan')
-    history[9]['max_violation'] = 0.0                    # shown at the floor on a log axis
+    history[9]['max_violation'] = 0.0  # shown at the floor on a log axis
     path = plots.plot_history(history, str(tmp_path / 'history.png'), 'block fuel [kg]')
     _assert_png(path)
     assert path.details == {'evaluations': 10, 'failed': 1}
@@ -206,22 +262,26 @@ def test_history(mpl, tmp_path):
 
 def test_histogram_share_below(mpl, tmp_path):
     values = [-2.0, -1.0, -0.5, 1.0, 2.0, float('nan')]
-    path = plots.plot_histogram(values, str(tmp_path / 'mc.png'), 'fuel-burn change [%]',
-                                'Monte Carlo fuel-burn change')
+    path = plots.plot_histogram(
+        values, str(tmp_path / 'mc.png'), 'fuel-burn change [%]', 'Monte Carlo fuel-burn change'
+    )
     _assert_png(path)
-    assert path.details['share_below'] == pytest.approx(3.0 / 5.0)   # counted by hand
+    assert path.details['share_below'] == pytest.approx(3.0 / 5.0)  # counted by hand
     assert path.details['samples'] == 5
     assert path.details['dropped'] == 1
-    moved = plots.plot_histogram(values, str(tmp_path / 'mc2.png'), 'x [-]', 't',
-                                 vertical_line=1.5)
+    moved = plots.plot_histogram(values, str(tmp_path / 'mc2.png'), 'x [-]', 't', vertical_line=1.5)
     assert moved.details['share_below'] == pytest.approx(4.0 / 5.0)
 
 
 def test_line(mpl, tmp_path):
     x = np.linspace(0.0, 0.3, 7)
-    path = plots.plot_line(x, {'design': 1.0 - x, 'reference': np.ones_like(x)},
-                           'thrust fraction [-]', 'block fuel [t]',
-                           str(tmp_path / 'sweep.png'))
+    path = plots.plot_line(
+        x,
+        {'design': 1.0 - x, 'reference': np.ones_like(x)},
+        'thrust fraction [-]',
+        'block fuel [t]',
+        str(tmp_path / 'sweep.png'),
+    )
     _assert_png(path)
     assert path.details['curves'] == ['design', 'reference']
     with pytest.raises(ValueError, match='shape'):
@@ -234,8 +294,9 @@ def test_plots_leave_pyplot_state_alone(mpl, tmp_path):
     before = plt.get_fignums()
     plots.plot_line([0.0, 1.0], {'a': [0.0, 1.0]}, 'x', 'y', str(tmp_path / 'a.png'))
     x, y, gx, _ = _grid()
-    plots.plot_fuel_map(x, y, gx - 0.4, np.ones_like(gx, dtype=bool), 'x', 'y',
-                        str(tmp_path / 'b.png'))
+    plots.plot_fuel_map(
+        x, y, gx - 0.4, np.ones_like(gx, dtype=bool), 'x', 'y', str(tmp_path / 'b.png')
+    )
     assert plt.get_fignums() == before
     assert mpl.get_backend() == backend
 
@@ -252,13 +313,18 @@ def test_missing_matplotlib_is_a_config_error(monkeypatch, tmp_path):
 
 def _tiny_png(red, green, blue):
     """A valid 1 x 1 RGB PNG (PNG specification, ISO/IEC 15948, sections 5 and 11)."""
+
     def chunk(kind, data):
-        return (struct.pack('>I', len(data)) + kind + data
-                + struct.pack('>I', zlib.crc32(kind + data) & 0xffffffff))
+        return (
+            struct.pack('>I', len(data))
+            + kind
+            + data
+            + struct.pack('>I', zlib.crc32(kind + data) & 0xFFFFFFFF)
+        )
+
     header = struct.pack('>IIBBBBB', 1, 1, 8, 2, 0, 0, 0)
     pixels = zlib.compress(bytes([0, red, green, blue]))
-    return (PNG_SIGNATURE + chunk(b'IHDR', header) + chunk(b'IDAT', pixels)
-            + chunk(b'IEND', b''))
+    return PNG_SIGNATURE + chunk(b'IHDR', header) + chunk(b'IDAT', pixels) + chunk(b'IEND', b'')
 
 
 def _read(path):
@@ -272,24 +338,60 @@ def _results_dir(tmp_path):
     (folder / 'fuel_map.png').write_bytes(_tiny_png(255, 0, 0))
     (folder / 'power-flow.png').write_bytes(_tiny_png(0, 0, 255))
     results = {
-        'status': 'complete', 'success': True, 'message': 'Optimization terminated',
-        'inputs': {'name': '<script>alert(1)</script>',
-                   'mission': {'range_m': 5.0e6, 'payload_kg': 15000.0}},
+        'status': 'complete',
+        'success': True,
+        'message': 'Optimization terminated',
+        'inputs': {
+            'name': '<script>alert(1)</script>',
+            'mission': {'range_m': 5.0e6, 'payload_kg': 15000.0},
+        },
         'design': {
-            'aft_fan.thrust_fraction': {'value': 0.25, 'lower': 0.0, 'upper': 0.25,
-                                        'units': None, 'active': True},
-            'turbofan.fan_pressure_ratio': {'value': 1.48, 'lower': 1.3, 'upper': 1.7,
-                                            'units': None, 'active': False}},
+            'aft_fan.thrust_fraction': {
+                'value': 0.25,
+                'lower': 0.0,
+                'upper': 0.25,
+                'units': None,
+                'active': True,
+            },
+            'turbofan.fan_pressure_ratio': {
+                'value': 1.48,
+                'lower': 1.3,
+                'upper': 1.7,
+                'units': None,
+                'active': False,
+            },
+        },
         'constraints': {
-            'takeoff_field_length': {'value': 2500.0, 'lower': None, 'upper': 2500.0,
-                                     'equals': None, 'units': 'm', 'active': True,
-                                     'violation': 0.0},
-            'span': {'value': 34.0, 'lower': None, 'upper': 36.0, 'equals': None,
-                     'units': 'm', 'active': False, 'violation': 0.0}},
+            'takeoff_field_length': {
+                'value': 2500.0,
+                'lower': None,
+                'upper': 2500.0,
+                'equals': None,
+                'units': 'm',
+                'active': True,
+                'violation': 0.0,
+            },
+            'span': {
+                'value': 34.0,
+                'lower': None,
+                'upper': 36.0,
+                'equals': None,
+                'units': 'm',
+                'active': False,
+                'violation': 0.0,
+            },
+        },
         'outputs': {'block_fuel_kg': 11234.5, 'mtow_kg': 70123.0},
-        'history': [{'evaluation': i, 'objective': 12000.0 - i, 'max_violation': 0.0,
-                     'closed': True, 'design': {'aft_fan.thrust_fraction': 0.2}}
-                    for i in range(3)],
+        'history': [
+            {
+                'evaluation': i,
+                'objective': 12000.0 - i,
+                'max_violation': 0.0,
+                'closed': True,
+                'design': {'aft_fan.thrust_fraction': 0.2},
+            }
+            for i in range(3)
+        ],
         'points': [{'x': k + 0.5} for k in range(250)],
     }
     (folder / 'results.json').write_text(json.dumps(results, sort_keys=True))
@@ -307,14 +409,14 @@ def test_report_embeds_images_and_tables(tmp_path):
     assert '<figcaption>fuel map</figcaption>' in text
     assert '<figcaption>power flow</figcaption>' in text
     assert text.count(CAUTION) == 2
-    assert text.index(CAUTION) < text.index('<h2>')            # at the top ...
-    assert text.rindex(CAUTION) > text.rindex('<figure>')      # ... and at the bottom
-    assert text.count('class="active-mark"') == 2              # one bound, one constraint
+    assert text.index(CAUTION) < text.index('<h2>')  # at the top ...
+    assert text.rindex(CAUTION) > text.rindex('<figure>')  # ... and at the bottom
+    assert text.count('class="active-mark"') == 2  # one bound, one constraint
     assert 'Active constraints: takeoff_field_length</p>' in text
     assert 'mission.range_m' in text and '5e+06' in text
     assert 'outputs.block_fuel_kg' in text
-    assert 'design.aft_fan.thrust_fraction' in text            # history column, flattened
-    assert 'http://' not in text and 'https://' not in text    # no network needed
+    assert 'design.aft_fan.thrust_fraction' in text  # history column, flattened
+    assert 'http://' not in text and 'https://' not in text  # no network needed
 
 
 def test_report_escapes_text(tmp_path):
@@ -360,9 +462,12 @@ def test_report_errors(tmp_path):
 
 def test_report_works_without_matplotlib(tmp_path):
     folder = _results_dir(tmp_path)
-    code = ('import sys; sys.modules["matplotlib"] = None; '   # any import of it now fails
-            'import voltwake.report as r; print(r.write_report(sys.argv[1]))')
-    done = subprocess.run([sys.executable, '-c', code, str(folder)], capture_output=True,
-                          text=True, check=True)
+    code = (
+        'import sys; sys.modules["matplotlib"] = None; '  # any import of it now fails
+        'import voltwake.report as r; print(r.write_report(sys.argv[1]))'
+    )
+    done = subprocess.run(
+        [sys.executable, '-c', code, str(folder)], capture_output=True, text=True, check=True
+    )
     assert done.stdout.strip() == os.path.join(str(folder), 'report.html')
     assert (folder / 'report.html').stat().st_size > 1024

@@ -18,9 +18,9 @@ RHO = float(ATM.density[0])
 P_STATIC = float(ATM.pressure[0])
 T_STATIC = float(ATM.temperature[0])
 SPEED = 0.78 * float(ATM.speed_of_sound[0])
-T_TOTAL = T_STATIC + SPEED ** 2 / (2.0 * CP_AIR)
+T_TOTAL = T_STATIC + SPEED**2 / (2.0 * CP_AIR)
 # Isentropic total pressure (Anderson, Modern Compressible Flow; common practice).
-PT_FREE = P_STATIC * (1.0 + 0.5 * (GAMMA - 1.0) * 0.78 ** 2) ** (GAMMA / (GAMMA - 1.0))
+PT_FREE = P_STATIC * (1.0 + 0.5 * (GAMMA - 1.0) * 0.78**2) ** (GAMMA / (GAMMA - 1.0))
 
 
 def test_power_saving_hand_values():
@@ -32,17 +32,18 @@ def test_power_saving_hand_values():
     prob.set_val('shaft_power', [1.6e6, 2.0e6, 2.2e6])
     prob.set_val('reference_shaft_power', [2.0e6, 2.0e6, 2.0e6])
     prob.run_model()
-    assert prob.get_val('power_saving_coefficient') == pytest.approx([0.2, 0.0, -0.1],
-                                                                     abs=1e-15)
+    assert prob.get_val('power_saving_coefficient') == pytest.approx([0.2, 0.0, -0.1], abs=1e-15)
 
 
 def test_power_saving_partials():
-    check_component_partials(PowerSavingComp(vec_size=3),
-                             {'shaft_power': [1.6e6, 5.0e5, 9.0e6],
-                              'reference_shaft_power': [2.0e6, 5.5e5, 9.5e6]})
-    check_component_partials(PowerSavingComp(vec_size=3),
-                             {'shaft_power': [3.0e3, 2.5e7, 1.0e6],
-                              'reference_shaft_power': [4.0e3, 2.6e7, 1.2e6]})
+    check_component_partials(
+        PowerSavingComp(vec_size=3),
+        {'shaft_power': [1.6e6, 5.0e5, 9.0e6], 'reference_shaft_power': [2.0e6, 5.5e5, 9.5e6]},
+    )
+    check_component_partials(
+        PowerSavingComp(vec_size=3),
+        {'shaft_power': [3.0e3, 2.5e7, 1.0e6], 'reference_shaft_power': [4.0e3, 2.6e7, 1.2e6]},
+    )
 
 
 def _psc_at_heights(heights, delta=0.5, thrust=7000.0):
@@ -91,9 +92,11 @@ def test_free_stream_limit_gives_no_saving():
     # The saving vanishes like delta/h: tenfold less for every tenfold taller capture.
     assert psc[1:-1] / psc[2:] == pytest.approx(10.0, rel=5e-2)
     assert prob.get_val('fan.mass_flow')[-1] == pytest.approx(
-        prob.get_val('ref_fan.mass_flow')[-1], rel=1e-4)
+        prob.get_val('ref_fan.mass_flow')[-1], rel=1e-4
+    )
     assert prob.get_val('fan.jet_velocity')[-1] == pytest.approx(
-        prob.get_val('ref_fan.jet_velocity')[-1], rel=1e-4)
+        prob.get_val('ref_fan.jet_velocity')[-1], rel=1e-4
+    )
 
 
 def test_deeper_ingestion_saves_more():

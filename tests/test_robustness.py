@@ -13,8 +13,10 @@ def _bounds(config):
     out = {}
     for path, spec in config.values['optimization.design_variables'].items():
         units = field_at(path).units
-        out[path] = tuple(parse_quantity(spec[k], units, {}) if units else float(spec[k])
-                          for k in ('lower', 'upper'))
+        out[path] = tuple(
+            parse_quantity(spec[k], units, {}) if units else float(spec[k])
+            for k in ('lower', 'upper')
+        )
     return out
 
 
@@ -32,9 +34,11 @@ def test_a_thousand_random_designs_close_or_say_why(capsys):
     # configured design found the weight running away (a fold of the mass balance).
     runaway = sum('grows without bound' in r for r in batch.reasons if r)
     with capsys.disabled():
-        print(f'\nclosure of 1000 random in-bound designs: {100 * batch.closure_rate:.1f}% '
-              f'closed, {int(np.sum(~closed))} not closing ({runaway} weight runaway), '
-              f'{batch.recovered} closed by continuation')
+        print(
+            f'\nclosure of 1000 random in-bound designs: {100 * batch.closure_rate:.1f}% '
+            f'closed, {int(np.sum(~closed))} not closing ({runaway} weight runaway), '
+            f'{batch.recovered} closed by continuation'
+        )
     # A regression of the solver would show as reasons other than a runaway, or a lower rate.
     assert batch.closure_rate >= 0.90
     assert runaway == int(np.sum(~closed))
@@ -54,6 +58,8 @@ def test_optimisation_from_twenty_random_starts(capsys):
     best = np.nanmin(finals)
     share = np.mean(np.abs(finals - best) <= 1e-3 * best)
     with capsys.disabled():
-        print(f'\noptimisation from 20 random starts: {100 * share:.0f}% reach the best '
-              f'block fuel ({best:,.2f} kg) within 0.1%')
+        print(
+            f'\noptimisation from 20 random starts: {100 * share:.0f}% reach the best '
+            f'block fuel ({best:,.2f} kg) within 0.1%'
+        )
     assert share == 1.0, messages

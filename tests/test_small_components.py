@@ -9,27 +9,36 @@ from partials import check_component_partials
 
 
 def test_nacelle_partials_and_value():
-    prob = check_component_partials(NacelleGeometryComp(vec_size=3),
-                                     {'fan_diameter': [1.2, 1.8, 2.4],
-                                      'diameter_ratio': [1.1, 1.25, 1.4]})
+    prob = check_component_partials(
+        NacelleGeometryComp(vec_size=3),
+        {'fan_diameter': [1.2, 1.8, 2.4], 'diameter_ratio': [1.1, 1.25, 1.4]},
+    )
     np.testing.assert_allclose(prob.get_val('nacelle_diameter'), [1.32, 2.25, 3.36])
 
 
 def test_propulsion_system_partials_and_values():
     for count in (1, 2, 4):
-        prob = check_component_partials(PropulsionSystemComp(vec_size=3, num_engines=count),
-                                         {'engine_fuel_flow': [0.2, 0.3, 0.4],
-                                          'shaft_power_extracted': [0.0, 1e6, 3e6]})
+        prob = check_component_partials(
+            PropulsionSystemComp(vec_size=3, num_engines=count),
+            {'engine_fuel_flow': [0.2, 0.3, 0.4], 'shaft_power_extracted': [0.0, 1e6, 3e6]},
+        )
         np.testing.assert_allclose(prob.get_val('fuel_flow'), count * np.array([0.2, 0.3, 0.4]))
-        np.testing.assert_allclose(prob.get_val('engine_power_extraction'),
-                                   np.array([0.0, 1e6, 3e6]) / count)
+        np.testing.assert_allclose(
+            prob.get_val('engine_power_extraction'), np.array([0.0, 1e6, 3e6]) / count
+        )
 
 
 def test_installed_thrust_partials_and_values():
     from voltwake.components.propulsion_system import InstalledThrustComp
-    prob = check_component_partials(InstalledThrustComp(vec_size=3, num_engines=2),
-                                     {'turbofan_rated_thrust': [8e4, 9e4, 1e5],
-                                      'aft_fan_thrust': [0.0, 5e3, 8e3],
-                                      'rated_to_cruise_thrust': [5.0, 5.5, 6.0]})
-    np.testing.assert_allclose(prob.get_val('installed_thrust'),
-                               [1.6e5, 1.8e5 + 2.75e4, 2.0e5 + 4.8e4])
+
+    prob = check_component_partials(
+        InstalledThrustComp(vec_size=3, num_engines=2),
+        {
+            'turbofan_rated_thrust': [8e4, 9e4, 1e5],
+            'aft_fan_thrust': [0.0, 5e3, 8e3],
+            'rated_to_cruise_thrust': [5.0, 5.5, 6.0],
+        },
+    )
+    np.testing.assert_allclose(
+        prob.get_val('installed_thrust'), [1.6e5, 1.8e5 + 2.75e4, 2.0e5 + 4.8e4]
+    )

@@ -16,13 +16,13 @@ TURBO_ELECTRIC = demo_path('turbo_electric')
 
 
 def test_vectorised_map_matches_points_analysed_one_at_a_time():
-    axes = {'aft_fan.fan_pressure_ratio': [1.2, 1.35, 1.5],
-            'aft_fan.thrust_fraction': [0.1, 0.3]}
+    axes = {'aft_fan.fan_pressure_ratio': [1.2, 1.35, 1.5], 'aft_fan.thrust_fraction': [0.1, 0.3]}
     batch = analyze_points(TURBO_ELECTRIC, full_factorial(axes))
     assert batch.closed.all()
     for i, (fpr, frac) in enumerate(zip(*full_factorial(axes).values())):
-        single = voltwake.analyze(TURBO_ELECTRIC, {'aft_fan.fan_pressure_ratio': fpr,
-                                                   'aft_fan.thrust_fraction': frac})
+        single = voltwake.analyze(
+            TURBO_ELECTRIC, {'aft_fan.fan_pressure_ratio': fpr, 'aft_fan.thrust_fraction': frac}
+        )
         for key in ('block_fuel_kg', 'mtow_kg', 'power_saving_coefficient'):
             assert batch.values[key][i] == pytest.approx(single.values[key], rel=1e-8)
 
@@ -42,12 +42,13 @@ def test_points_that_do_not_close_are_marked_not_dropped():
 def test_far_points_close_and_impossible_ones_are_reported():
     # 4,500 km with 16 t of payload is far from the configured design but closes (MTOW near
     # 118 t); 5,500 km with 16 t has no positive MTOW (the single analysis says so too).
-    columns = {'mission.range': [2.0e6, 4.5e6, 5.5e6],
-               'mission.payload': [10000.0, 16000.0, 16000.0]}
+    columns = {
+        'mission.range': [2.0e6, 4.5e6, 5.5e6],
+        'mission.payload': [10000.0, 16000.0, 16000.0],
+    }
     batch = analyze_points(TURBO_ELECTRIC, columns)
     assert batch.closed.tolist() == [True, True, False]
-    single = voltwake.analyze(TURBO_ELECTRIC, {'mission.range': 4.5e6,
-                                               'mission.payload': 16000.0})
+    single = voltwake.analyze(TURBO_ELECTRIC, {'mission.range': 4.5e6, 'mission.payload': 16000.0})
     assert batch.values['mtow_kg'][1] == pytest.approx(single.mtow_kg, rel=1e-8)
     with pytest.raises(voltwake.NotClosedError):
         voltwake.analyze(TURBO_ELECTRIC, {'mission.range': 5.5e6, 'mission.payload': 16000.0})
@@ -59,7 +60,8 @@ def test_map_rows_and_csv_units():
     ref = result['reference']['block_fuel_kg']
     for row in rows:
         assert row['fuel_burn_change_percent'] == pytest.approx(
-            100 * (row['block_fuel_kg'] - ref) / ref, rel=1e-12)
+            100 * (row['block_fuel_kg'] - ref) / ref, rel=1e-12
+        )
     text = points_csv(rows)
     header = next(csv.reader(text.splitlines()))
     assert 'block_fuel_kg [kg]' in header and 'fuel_burn_change_percent [%]' in header
@@ -67,8 +69,10 @@ def test_map_rows_and_csv_units():
 
 
 def test_monte_carlo_is_reproducible_and_consistent():
-    dists = {'electrical.motor.specific_power': {'uniform': ['5 kW/kg', '20 kW/kg']},
-             'electrical.motor.efficiency': {'triangular': [0.95, 0.96, 0.99]}}
+    dists = {
+        'electrical.motor.specific_power': {'uniform': ['5 kW/kg', '20 kW/kg']},
+        'electrical.motor.efficiency': {'triangular': [0.95, 0.96, 0.99]},
+    }
     one = monte_carlo(TURBO_ELECTRIC, dists, samples=40, seed=7)
     two = monte_carlo(TURBO_ELECTRIC, dists, samples=40, seed=7)
     assert one['points'] == two['points']
@@ -89,7 +93,11 @@ def test_batch_values_are_checked_like_config_values():
 
 def test_axis_parsing():
     assert parse_axis('electrical.motor.specific_power=5 kW/kg:20 kW/kg:4') == (
-        'electrical.motor.specific_power', 5000.0, 20000.0, 4)
+        'electrical.motor.specific_power',
+        5000.0,
+        20000.0,
+        4,
+    )
     with pytest.raises(voltwake.ConfigError, match='expected PATH=LO:HI:N'):
         parse_axis('aft_fan.thrust_fraction=0.1:0.2')
     with pytest.raises(voltwake.ConfigError, match='not a model input'):
@@ -98,8 +106,17 @@ def test_axis_parsing():
 
 def test_sweep_command_writes_csv_plots_and_report(tmp_path, capsys):
     out = tmp_path / 'study'
-    code = main(['sweep', '--map', 'aft_fan.fan_pressure_ratio=1.2:1.5:4',
-                 '--map', 'aft_fan.thrust_fraction=0.1:0.3:3', '--out', str(out)])
+    code = main(
+        [
+            'sweep',
+            '--map',
+            'aft_fan.fan_pressure_ratio=1.2:1.5:4',
+            '--map',
+            'aft_fan.thrust_fraction=0.1:0.3:3',
+            '--out',
+            str(out),
+        ]
+    )
     assert code == 0
     assert 'closed' in capsys.readouterr().out
     rows = list(csv.DictReader((out / 'map_points.csv').read_text().splitlines()))
@@ -121,9 +138,9 @@ def test_sweep_without_a_study_is_a_clear_error(capsys):
 
 def test_sweep_from_the_config_study_section(tmp_path):
     data = load_config(TURBO_ELECTRIC).data
-    data['study'] = {'map': {'aft_fan.thrust_fraction': {'lower': 0.1, 'upper': 0.2,
-                                                         'count': 3}}}
+    data['study'] = {'map': {'aft_fan.thrust_fraction': {'lower': 0.1, 'upper': 0.2, 'count': 3}}}
     from voltwake.sweep import run_sweep, study_spec
+
     config = load_config(data)
     result = run_sweep(config, study_spec(config))
     assert result['map']['closure_rate'] == 1.0 and result['map']['points_count'] == 3
@@ -135,11 +152,17 @@ def test_ctrl_c_during_a_sweep_exits_130_with_a_partial_summary(tmp_path):
     import subprocess
     import sys
     import time
+
     out = tmp_path / 'sweep'
     env = dict(os.environ, OPENMDAO_REPORTS='0')
     # The packaged demo's study: a 100 x 100 map, then a Monte Carlo study.
-    proc = subprocess.Popen([sys.executable, '-m', 'voltwake.cli', 'sweep', '--out', str(out)],
-                            stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True, env=env)
+    proc = subprocess.Popen(
+        [sys.executable, '-m', 'voltwake.cli', 'sweep', '--out', str(out)],
+        stdout=subprocess.PIPE,
+        stderr=subprocess.PIPE,
+        text=True,
+        env=env,
+    )
     time.sleep(4.0)
     proc.send_signal(signal.SIGINT)
     _, err = proc.communicate(timeout=120)
@@ -155,6 +178,7 @@ def test_cli_sweep_under_mpiexec_matches_the_serial_run(tmp_path):
     import shutil
     import subprocess
     import sys
+
     pytest.importorskip('mpi4py')
     local = os.path.join(os.path.dirname(sys.executable), 'mpiexec')
     mpiexec = local if os.access(local, os.X_OK) else shutil.which('mpiexec')
@@ -162,13 +186,22 @@ def test_cli_sweep_under_mpiexec_matches_the_serial_run(tmp_path):
         pytest.skip('no mpiexec')
     env = dict(os.environ, OPENMDAO_REPORTS='0')
     args = ['-m', 'voltwake.cli', 'sweep', '--targets', 'aft_fan.thrust_fraction=0.1:0.15:2']
-    serial = subprocess.run([sys.executable, *args, '--jobs', '1', '--out',
-                             str(tmp_path / 'serial')], capture_output=True, text=True,
-                            env=env, timeout=600)
+    serial = subprocess.run(
+        [sys.executable, *args, '--jobs', '1', '--out', str(tmp_path / 'serial')],
+        capture_output=True,
+        text=True,
+        env=env,
+        timeout=600,
+    )
     assert serial.returncode == 0, serial.stderr
-    ranked = subprocess.run([mpiexec, '-n', '2', sys.executable, *args, '--out',
-                             str(tmp_path / 'mpi')], capture_output=True, text=True, env=env,
-                            timeout=600)
+    ranked = subprocess.run(
+        [mpiexec, '-n', '2', sys.executable, *args, '--out', str(tmp_path / 'mpi')],
+        capture_output=True,
+        text=True,
+        env=env,
+        timeout=600,
+    )
     assert ranked.returncode == 0, ranked.stderr
-    assert (tmp_path / 'mpi' / 'targets_points.csv').read_text() == \
-        (tmp_path / 'serial' / 'targets_points.csv').read_text()
+    assert (tmp_path / 'mpi' / 'targets_points.csv').read_text() == (
+        tmp_path / 'serial' / 'targets_points.csv'
+    ).read_text()

@@ -15,12 +15,19 @@ DEMO = load_config(demo_path('turbo_electric'))
 
 #: Inside the demo's design-variable bounds (aft-fan pressure ratio 1.15-1.6, thrust
 #: fraction 0.05-0.45).
-TARGETS = {'aft_fan.fan_pressure_ratio': np.array([1.25, 1.4]),
-           'aft_fan.thrust_fraction': [0.1, 0.25]}
+TARGETS = {
+    'aft_fan.fan_pressure_ratio': np.array([1.25, 1.4]),
+    'aft_fan.thrust_fraction': [0.1, 0.25],
+}
 
 #: Design variables of the demo that stay free when both aft-fan variables are swept.
-FREE = ['wing.area', 'wing.aspect_ratio', 'turbofans.fan_pressure_ratio',
-        'turbofans.rated_to_cruise_thrust', 'electrical.cable.voltage']
+FREE = [
+    'wing.area',
+    'wing.aspect_ratio',
+    'turbofans.fan_pressure_ratio',
+    'turbofans.rated_to_cruise_thrust',
+    'electrical.cable.voltage',
+]
 
 
 @pytest.fixture(scope='module')
@@ -52,18 +59,22 @@ def _by_hand(updates):
 
 def test_full_factorial_with_the_first_target_slowest(serial):
     assert serial['targets'] == list(TARGETS)
-    got = [(p['target:aft_fan.fan_pressure_ratio'], p['target:aft_fan.thrust_fraction'])
-           for p in serial['points']]
+    got = [
+        (p['target:aft_fan.fan_pressure_ratio'], p['target:aft_fan.thrust_fraction'])
+        for p in serial['points']
+    ]
     assert got == [(1.25, 0.1), (1.25, 0.25), (1.4, 0.1), (1.4, 0.25)]
-    assert all(type(value) is float for pair in got for value in pair)   # JSON-ready
+    assert all(type(value) is float for pair in got for value in pair)  # JSON-ready
 
 
 def test_every_point_succeeds_and_only_the_free_variables_are_optimised(serial):
     for point in serial['points']:
         assert point['success'], point['message']
         assert sorted(k[3:] for k in point if k.startswith('dv:')) == sorted(FREE)
-        assert all(math.isfinite(point[key]) for key in ('block_fuel_kg', 'mtow_kg',
-                                                         'power_saving_coefficient'))
+        assert all(
+            math.isfinite(point[key])
+            for key in ('block_fuel_kg', 'mtow_kg', 'power_saving_coefficient')
+        )
         assert point['electrical_mass_kg'] > 0.0 and point['aft_fan_mass_kg'] > 0.0
         # The demo's optimum has the span limit active (the optimiser wants more span).
         assert 'wingspan' in point['active_constraints']
@@ -71,16 +82,16 @@ def test_every_point_succeeds_and_only_the_free_variables_are_optimised(serial):
 
 
 def test_a_point_is_the_optimum_with_its_targets_fixed(serial):
-    single = optimize(_by_hand({'aft_fan.fan_pressure_ratio': 1.4,
-                                'aft_fan.thrust_fraction': 0.25}))
+    single = optimize(
+        _by_hand({'aft_fan.fan_pressure_ratio': 1.4, 'aft_fan.thrust_fraction': 0.25})
+    )
     assert single.success, single.message
     point = serial['points'][3]
     assert point['block_fuel_kg'] == pytest.approx(single.outputs['block_fuel_kg'], rel=1e-6)
     for path in FREE:
         assert point[f'dv:{path}'] == pytest.approx(single.design[path]['value'], rel=1e-4)
     active_bounds = sorted(f'bound:{p}' for p, dv in single.design.items() if dv['active'])
-    assert sorted(n for n in point['active_constraints'] if n.startswith('bound:')) == \
-        active_bounds
+    assert sorted(n for n in point['active_constraints'] if n.startswith('bound:')) == active_bounds
 
 
 def test_one_and_two_processes_give_identical_rows(serial, parallel):
@@ -97,11 +108,13 @@ def test_fuel_burn_change_is_against_the_optimised_conventional_reference(serial
     assert reference['outputs']['power_saving_coefficient'] == 0.0
     alone = optimize(DEMO.without_aft_fan())
     assert reference['outputs']['block_fuel_kg'] == pytest.approx(
-        alone.outputs['block_fuel_kg'], rel=1e-6)
+        alone.outputs['block_fuel_kg'], rel=1e-6
+    )
     fuel = reference['outputs']['block_fuel_kg']
     for point in serial['points']:
         assert point['fuel_burn_change_percent'] == pytest.approx(
-            100.0 * (point['block_fuel_kg'] - fuel) / fuel, rel=1e-12)
+            100.0 * (point['block_fuel_kg'] - fuel) / fuel, rel=1e-12
+        )
     # At the larger aft-fan thrust share the electrical chain's mass outweighs the saving.
     changes = [p['fuel_burn_change_percent'] for p in serial['points']]
     assert changes[1] > changes[0] and changes[3] > changes[2]
@@ -119,8 +132,7 @@ def test_an_output_target_is_an_equality_constraint(demo_optimum):
         # The aft-fan variables stay free with an output target.
         assert 'dv:aft_fan.thrust_fraction' in point
     # At the value the free optimum reaches, the constraint costs nothing ...
-    assert same['block_fuel_kg'] == pytest.approx(demo_optimum.outputs['block_fuel_kg'],
-                                                  rel=1e-5)
+    assert same['block_fuel_kg'] == pytest.approx(demo_optimum.outputs['block_fuel_kg'], rel=1e-5)
     # ... and away from it the constrained optimum cannot burn less.
     assert low['block_fuel_kg'] > demo_optimum.outputs['block_fuel_kg'] * (1.0 - 1e-7)
 
@@ -137,7 +149,8 @@ def test_a_conventional_input_target_gets_a_reference_of_its_own():
     for point, ref in zip(sweep['points'], sweep['references']):
         fuel = ref['outputs']['block_fuel_kg']
         assert point['fuel_burn_change_percent'] == pytest.approx(
-            100.0 * (point['block_fuel_kg'] - fuel) / fuel, rel=1e-12)
+            100.0 * (point['block_fuel_kg'] - fuel) / fuel, rel=1e-12
+        )
 
 
 def test_fixed_config_sets_the_input_and_frees_its_design_variable():
@@ -160,8 +173,11 @@ def test_failed_points_keep_their_rows_with_nan_numbers():
 
 
 def test_an_unknown_target_is_refused_with_a_hint():
-    with pytest.raises(ConfigError, match="power_saving_coeficient: neither a config key.*"
-                                          "did you mean 'power_saving_coefficient'"):
+    with pytest.raises(
+        ConfigError,
+        match="power_saving_coeficient: neither a config key.*"
+        "did you mean 'power_saving_coefficient'",
+    ):
         target_sweep(DEMO, {'power_saving_coeficient': [0.2]})
 
 

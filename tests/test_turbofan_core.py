@@ -27,8 +27,14 @@ def _run(comp, **inputs):
 
 def test_core_hand_calculation():
     # fuel = (P_fan + P_ext) / (eta_th LHV); TSFC = fuel / F (definitions; demo inputs).
-    prob = _run(TurbofanCoreComp(), fan_shaft_power=5.0e6, power_extraction=1.0e6,
-                thermal_efficiency=0.45, fuel_heating_value=43.0e6, net_thrust=20000.0)
+    prob = _run(
+        TurbofanCoreComp(),
+        fan_shaft_power=5.0e6,
+        power_extraction=1.0e6,
+        thermal_efficiency=0.45,
+        fuel_heating_value=43.0e6,
+        net_thrust=20000.0,
+    )
     fuel = 6.0e6 / (0.45 * 43.0e6)
     assert prob.get_val('fuel_flow')[0] == pytest.approx(fuel, rel=1e-12)
     assert prob.get_val('tsfc')[0] == pytest.approx(fuel / 20000.0, rel=1e-12)
@@ -42,8 +48,12 @@ def test_power_extraction_costs_fuel():
 
 def test_engine_mass_hand_calculation():
     # m = r F_cruise / ((T/W) g0), total = count m (definitions; demo inputs).
-    prob = _run(EngineMassComp(count=3), cruise_thrust=20000.0, rated_to_cruise_thrust=4.0,
-                thrust_to_weight=5.5)
+    prob = _run(
+        EngineMassComp(count=3),
+        cruise_thrust=20000.0,
+        rated_to_cruise_thrust=4.0,
+        thrust_to_weight=5.5,
+    )
     mass = 20000.0 * 4.0 / (5.5 * G0)
     assert prob.get_val('rated_thrust')[0] == pytest.approx(80000.0, rel=1e-12)
     assert prob.get_val('engine_mass')[0] == pytest.approx(mass, rel=1e-12)
@@ -52,8 +62,13 @@ def test_engine_mass_hand_calculation():
 
 def test_overall_efficiency_hand_calculation():
     # eta_0 = F V / (mdot_f LHV) and eta_0 = V / (TSFC LHV) (definitions; demo inputs).
-    prob = _run(OverallEfficiencyComp(), net_thrust=40000.0, true_airspeed=230.0,
-                fuel_flow=0.6, fuel_heating_value=43.0e6)
+    prob = _run(
+        OverallEfficiencyComp(),
+        net_thrust=40000.0,
+        true_airspeed=230.0,
+        fuel_flow=0.6,
+        fuel_heating_value=43.0e6,
+    )
     eta0 = 40000.0 * 230.0 / (0.6 * 43.0e6)
     assert prob.get_val('overall_efficiency')[0] == pytest.approx(eta0, rel=1e-12)
     assert prob.get_val('tsfc')[0] == pytest.approx(0.6 / 40000.0, rel=1e-12)
@@ -67,16 +82,18 @@ def test_demo_turbofan_tsfc_is_typical():
     # (common practice). A single engine stands for the aircraft, so both TSFCs agree.
     gamma, r_air = 1.4, 287.05287
     temp, pres, mach = 218.81, 23842.0, 0.78
-    f = 1.0 + 0.5 * (gamma - 1.0) * mach ** 2
+    f = 1.0 + 0.5 * (gamma - 1.0) * mach**2
     speed = mach * math.sqrt(gamma * r_air * temp)
 
     prob = om.Problem(reports=False)
     model = prob.model
     model.add_subsystem('fan', DuctedFanComp(), promotes_inputs=['net_thrust'])
-    model.add_subsystem('core', TurbofanCoreComp(),
-                        promotes_inputs=['net_thrust', 'fuel_heating_value'])
-    model.add_subsystem('aircraft', OverallEfficiencyComp(),
-                        promotes_inputs=['net_thrust', 'fuel_heating_value'])
+    model.add_subsystem(
+        'core', TurbofanCoreComp(), promotes_inputs=['net_thrust', 'fuel_heating_value']
+    )
+    model.add_subsystem(
+        'aircraft', OverallEfficiencyComp(), promotes_inputs=['net_thrust', 'fuel_heating_value']
+    )
     model.connect('fan.shaft_power', 'core.fan_shaft_power')
     model.connect('core.fuel_flow', 'aircraft.fuel_flow')
     model.set_input_defaults('net_thrust', 18000.0, units='N')
@@ -100,43 +117,59 @@ def test_demo_turbofan_tsfc_is_typical():
 
 
 def test_partials_core():
-    check_component_partials(TurbofanCoreComp(vec_size=3), {
-        'fan_shaft_power': [4.0e6, 5.5e6, 7.0e6],
-        'power_extraction': [0.0, 1.5e6, 3.0e6],
-        'thermal_efficiency': [0.42, 0.47, 0.5],
-        'fuel_heating_value': [42.8e6, 43.1e6, 43.5e6],
-        'net_thrust': [15000.0, 18000.0, 24000.0],
-    })
-    check_component_partials(TurbofanCoreComp(vec_size=3), {
-        'fan_shaft_power': [1.0e6, 2.0e6, 3.0e6],
-        'power_extraction': [5.0e6, 0.5e6, 0.0],
-        'thermal_efficiency': [0.35, 0.4, 0.55],
-        'fuel_heating_value': [120.0e6, 43.0e6, 50.0e6],
-        'net_thrust': [5000.0, 60000.0, 9000.0],
-    })
+    check_component_partials(
+        TurbofanCoreComp(vec_size=3),
+        {
+            'fan_shaft_power': [4.0e6, 5.5e6, 7.0e6],
+            'power_extraction': [0.0, 1.5e6, 3.0e6],
+            'thermal_efficiency': [0.42, 0.47, 0.5],
+            'fuel_heating_value': [42.8e6, 43.1e6, 43.5e6],
+            'net_thrust': [15000.0, 18000.0, 24000.0],
+        },
+    )
+    check_component_partials(
+        TurbofanCoreComp(vec_size=3),
+        {
+            'fan_shaft_power': [1.0e6, 2.0e6, 3.0e6],
+            'power_extraction': [5.0e6, 0.5e6, 0.0],
+            'thermal_efficiency': [0.35, 0.4, 0.55],
+            'fuel_heating_value': [120.0e6, 43.0e6, 50.0e6],
+            'net_thrust': [5000.0, 60000.0, 9000.0],
+        },
+    )
 
 
 def test_partials_engine_mass():
-    for count, cruise, ratio, tw in ((2, [15000.0, 18000.0, 22000.0], [4.0, 4.5, 5.0],
-                                      [4.5, 5.0, 5.5]),
-                                     (4, [9000.0, 12000.0, 7000.0], [5.2, 3.8, 4.4],
-                                      [6.0, 3.5, 4.8])):
-        check_component_partials(EngineMassComp(vec_size=3, count=count), {
-            'cruise_thrust': cruise, 'rated_to_cruise_thrust': ratio,
-            'thrust_to_weight': tw,
-        })
+    for count, cruise, ratio, tw in (
+        (2, [15000.0, 18000.0, 22000.0], [4.0, 4.5, 5.0], [4.5, 5.0, 5.5]),
+        (4, [9000.0, 12000.0, 7000.0], [5.2, 3.8, 4.4], [6.0, 3.5, 4.8]),
+    ):
+        check_component_partials(
+            EngineMassComp(vec_size=3, count=count),
+            {
+                'cruise_thrust': cruise,
+                'rated_to_cruise_thrust': ratio,
+                'thrust_to_weight': tw,
+            },
+        )
 
 
 def test_partials_overall_efficiency():
-    check_component_partials(OverallEfficiencyComp(vec_size=3), {
-        'net_thrust': [30000.0, 36000.0, 45000.0],
-        'true_airspeed': [220.0, 231.0, 240.0],
-        'fuel_flow': [0.45, 0.54, 0.7],
-        'fuel_heating_value': [42.8e6, 43.1e6, 43.5e6],
-    })
-    check_component_partials(OverallEfficiencyComp(vec_size=3), {
-        'net_thrust': [80000.0, 10000.0, 55000.0],
-        'true_airspeed': [80.0, 150.0, 250.0],
-        'fuel_flow': [1.5, 0.2, 0.9],
-        'fuel_heating_value': [43.0e6, 120.0e6, 44.0e6],
-    })
+    check_component_partials(
+        OverallEfficiencyComp(vec_size=3),
+        {
+            'net_thrust': [30000.0, 36000.0, 45000.0],
+            'true_airspeed': [220.0, 231.0, 240.0],
+            'fuel_flow': [0.45, 0.54, 0.7],
+            'fuel_heating_value': [42.8e6, 43.1e6, 43.5e6],
+        },
+    )
+    check_component_partials(
+        OverallEfficiencyComp(vec_size=3),
+        {
+            'net_thrust': [80000.0, 10000.0, 55000.0],
+            'true_airspeed': [80.0, 150.0, 250.0],
+            'fuel_flow': [1.5, 0.2, 0.9],
+            'fuel_heating_value': [43.0e6, 120.0e6, 44.0e6],
+        },
+    )

@@ -22,51 +22,75 @@ def _run(component, inputs):
 def test_airframe_regression_hand_value():
     # hand calculation of the regression formula m = c * MTOW**k:
     # ln(80000) = 11.28978, * 0.95 = 10.72529, exp = 45492.05, * 0.9 = 40942.84 kg
-    prob = _run(AirframeMassComp(), {'mtow': 80000.0, 'airframe_mass_coefficient': 0.9,
-                                     'airframe_mass_exponent': 0.95})
+    prob = _run(
+        AirframeMassComp(),
+        {'mtow': 80000.0, 'airframe_mass_coefficient': 0.9, 'airframe_mass_exponent': 0.95},
+    )
     assert prob.get_val('airframe_mass', units='kg')[0] == pytest.approx(40942.84, rel=1e-6)
 
 
 def test_airframe_regression_limits_and_trend():
     # k = 1: the airframe mass is the constant fraction c of MTOW (formula limit)
-    prob = _run(AirframeMassComp(vec_size=3),
-                {'mtow': [5e4, 1e5, 2e5], 'airframe_mass_coefficient': 0.45,
-                 'airframe_mass_exponent': 1.0})
-    np.testing.assert_allclose(prob.get_val('airframe_mass'), [22500.0, 45000.0, 90000.0],
-                               rtol=1e-12)
+    prob = _run(
+        AirframeMassComp(vec_size=3),
+        {'mtow': [5e4, 1e5, 2e5], 'airframe_mass_coefficient': 0.45, 'airframe_mass_exponent': 1.0},
+    )
+    np.testing.assert_allclose(
+        prob.get_val('airframe_mass'), [22500.0, 45000.0, 90000.0], rtol=1e-12
+    )
     # k < 1: the airframe mass fraction falls as MTOW grows (economy of scale)
-    prob = _run(AirframeMassComp(vec_size=3),
-                {'mtow': [5e4, 1e5, 2e5], 'airframe_mass_coefficient': 0.9,
-                 'airframe_mass_exponent': 0.95})
+    prob = _run(
+        AirframeMassComp(vec_size=3),
+        {'mtow': [5e4, 1e5, 2e5], 'airframe_mass_coefficient': 0.9, 'airframe_mass_exponent': 0.95},
+    )
     frac = prob.get_val('airframe_mass') / np.array([5e4, 1e5, 2e5])
     assert np.all(np.diff(frac) < 0.0)
 
 
 def test_airframe_partials():
-    for mtow, c, k in (([4e4, 8e4, 3e5], [0.9, 0.5, 1.2], [0.95, 1.0, 0.9]),
-                       ([1.5e3, 2e4, 6e5], [0.3, 0.7, 2.0], [1.05, 0.97, 0.85])):
-        check_component_partials(AirframeMassComp(vec_size=3),
-                                 {'mtow': mtow, 'airframe_mass_coefficient': c,
-                                  'airframe_mass_exponent': k})
+    for mtow, c, k in (
+        ([4e4, 8e4, 3e5], [0.9, 0.5, 1.2], [0.95, 1.0, 0.9]),
+        ([1.5e3, 2e4, 6e5], [0.3, 0.7, 2.0], [1.05, 0.97, 0.85]),
+    ):
+        check_component_partials(
+            AirframeMassComp(vec_size=3),
+            {'mtow': mtow, 'airframe_mass_coefficient': c, 'airframe_mass_exponent': k},
+        )
 
 
 def test_mass_build_up_sums():
     items = ['engines', 'generators', 'aft_fan']
-    prob = _run(MassBuildUpComp(vec_size=2, propulsion_items=items),
-                {'airframe_mass': [30000.0, 41000.0], 'engines_mass': [6000.0, 7000.0],
-                 'generators_mass': [1500.0, 1200.0], 'aft_fan_mass': [800.0, 900.0],
-                 'payload': [18000.0, 20000.0], 'total_fuel': [12000.0, 15500.0]})
+    prob = _run(
+        MassBuildUpComp(vec_size=2, propulsion_items=items),
+        {
+            'airframe_mass': [30000.0, 41000.0],
+            'engines_mass': [6000.0, 7000.0],
+            'generators_mass': [1500.0, 1200.0],
+            'aft_fan_mass': [800.0, 900.0],
+            'payload': [18000.0, 20000.0],
+            'total_fuel': [12000.0, 15500.0],
+        },
+    )
     np.testing.assert_allclose(prob.get_val('propulsion_mass'), [8300.0, 9100.0], rtol=1e-14)
     np.testing.assert_allclose(prob.get_val('oew'), [38300.0, 50100.0], rtol=1e-14)
     np.testing.assert_allclose(prob.get_val('mtow'), [68300.0, 85600.0], rtol=1e-14)
 
 
 def test_mass_build_up_default_item_and_empty_list():
-    prob = _run(MassBuildUpComp(), {'airframe_mass': 30000.0, 'engines_mass': 6000.0,
-                                    'payload': 18000.0, 'total_fuel': 12000.0})
+    prob = _run(
+        MassBuildUpComp(),
+        {
+            'airframe_mass': 30000.0,
+            'engines_mass': 6000.0,
+            'payload': 18000.0,
+            'total_fuel': 12000.0,
+        },
+    )
     assert prob.get_val('oew')[0] == pytest.approx(36000.0, rel=1e-14)
-    prob = _run(MassBuildUpComp(propulsion_items=[]),
-                {'airframe_mass': 30000.0, 'payload': 18000.0, 'total_fuel': 12000.0})
+    prob = _run(
+        MassBuildUpComp(propulsion_items=[]),
+        {'airframe_mass': 30000.0, 'payload': 18000.0, 'total_fuel': 12000.0},
+    )
     assert prob.get_val('propulsion_mass')[0] == 0.0
     assert prob.get_val('mtow')[0] == pytest.approx(60000.0, rel=1e-14)
 
@@ -81,14 +105,32 @@ def test_mass_build_up_rejects_clashing_items(items):
 
 def test_mass_build_up_partials():
     items = ['engines', 'generators', 'aft_fan']
-    points = ({'airframe_mass': [30000.0, 41000.0, 25000.0], 'engines_mass': [6e3, 7e3, 5e3],
-               'generators_mass': [1500.0, 1200.0, 900.0], 'aft_fan_mass': [800.0, 900.0, 650.0],
-               'payload': [18000.0, 20000.0, 14000.0], 'total_fuel': [12e3, 15.5e3, 9e3]},
-              {'airframe_mass': [1e3, 2e5, 5e4], 'engines_mass': [1e2, 3e4, 8e3],
-               'generators_mass': [10.0, 4e3, 2e3], 'aft_fan_mass': [5.0, 3e3, 1e3],
-               'payload': [500.0, 6e4, 2e4], 'total_fuel': [300.0, 1e5, 2e4]})
+    points = (
+        {
+            'airframe_mass': [30000.0, 41000.0, 25000.0],
+            'engines_mass': [6e3, 7e3, 5e3],
+            'generators_mass': [1500.0, 1200.0, 900.0],
+            'aft_fan_mass': [800.0, 900.0, 650.0],
+            'payload': [18000.0, 20000.0, 14000.0],
+            'total_fuel': [12e3, 15.5e3, 9e3],
+        },
+        {
+            'airframe_mass': [1e3, 2e5, 5e4],
+            'engines_mass': [1e2, 3e4, 8e3],
+            'generators_mass': [10.0, 4e3, 2e3],
+            'aft_fan_mass': [5.0, 3e3, 1e3],
+            'payload': [500.0, 6e4, 2e4],
+            'total_fuel': [300.0, 1e5, 2e4],
+        },
+    )
     for inputs in points:
         check_component_partials(MassBuildUpComp(vec_size=3, propulsion_items=items), inputs)
-    check_component_partials(MassBuildUpComp(vec_size=3),
-                             {'airframe_mass': [3e4, 4e4, 5e4], 'engines_mass': [5e3, 6e3, 7e3],
-                              'payload': [1e4, 2e4, 3e4], 'total_fuel': [9e3, 8e3, 7e3]})
+    check_component_partials(
+        MassBuildUpComp(vec_size=3),
+        {
+            'airframe_mass': [3e4, 4e4, 5e4],
+            'engines_mass': [5e3, 6e3, 7e3],
+            'payload': [1e4, 2e4, 3e4],
+            'total_fuel': [9e3, 8e3, 7e3],
+        },
+    )

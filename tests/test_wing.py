@@ -21,18 +21,24 @@ def _run(component, inputs):
 
 def test_wingspan_hand_values():
     # b = sqrt(A S): sqrt(9 * 100) = 30 m, sqrt(12 * 75) = 30 m, sqrt(8 * 50) = 20 m.
-    prob = _run(WingGeometryComp(vec_size=3),
-                {'wing_area': [100.0, 75.0, 50.0], 'aspect_ratio': [9.0, 12.0, 8.0]})
+    prob = _run(
+        WingGeometryComp(vec_size=3),
+        {'wing_area': [100.0, 75.0, 50.0], 'aspect_ratio': [9.0, 12.0, 8.0]},
+    )
     np.testing.assert_allclose(prob.get_val('wingspan'), [30.0, 30.0, 20.0], rtol=1e-14)
 
 
 def test_lift_coefficient_hand_values():
     # CL = m g0 / (q S): 6e5 N / (1e4 * 120) = 0.5; 4e5 N / (8e3 * 100) = 0.5;
     # 1e5 N / (5e3 * 40) = 0.5, with the masses m = W / 9.80665.
-    prob = _run(LiftCoefficientComp(vec_size=3),
-                {'mass': np.array([6.0e5, 4.0e5, 1.0e5]) / 9.80665,
-                 'dynamic_pressure': [1.0e4, 8.0e3, 5.0e3],
-                 'wing_area': [120.0, 100.0, 40.0]})
+    prob = _run(
+        LiftCoefficientComp(vec_size=3),
+        {
+            'mass': np.array([6.0e5, 4.0e5, 1.0e5]) / 9.80665,
+            'dynamic_pressure': [1.0e4, 8.0e3, 5.0e3],
+            'wing_area': [120.0, 100.0, 40.0],
+        },
+    )
     np.testing.assert_allclose(prob.get_val('lift_coefficient'), [0.5, 0.5, 0.5], rtol=1e-14)
 
 
@@ -46,21 +52,33 @@ def test_lift_coefficient_units():
     assert prob.get_val('lift_coefficient')[0] == pytest.approx(0.5, rel=1e-14)
 
 
-@pytest.mark.parametrize('point', [
-    {'wing_area': [100.0, 122.0, 360.0], 'aspect_ratio': [9.0, 10.5, 8.7]},
-    {'wing_area': [20.0, 60.0, 200.0], 'aspect_ratio': [12.0, 7.0, 14.0]},
-])
+@pytest.mark.parametrize(
+    'point',
+    [
+        {'wing_area': [100.0, 122.0, 360.0], 'aspect_ratio': [9.0, 10.5, 8.7]},
+        {'wing_area': [20.0, 60.0, 200.0], 'aspect_ratio': [12.0, 7.0, 14.0]},
+    ],
+)
 def test_wing_geometry_partials(point):
     # atol=0 so that only the relative error counts (complex step is exact to round-off).
     check_component_partials(WingGeometryComp(vec_size=3), point, atol=0.0)
 
 
-@pytest.mark.parametrize('point', [
-    {'mass': [6.0e4, 7.5e4, 2.0e5], 'dynamic_pressure': [1.0e4, 1.2e4, 9.0e3],
-     'wing_area': [120.0, 130.0, 360.0]},
-    {'mass': [1.0e4, 3.0e4, 5.0e4], 'dynamic_pressure': [3.0e3, 6.0e3, 1.5e4],
-     'wing_area': [40.0, 90.0, 110.0]},
-])
+@pytest.mark.parametrize(
+    'point',
+    [
+        {
+            'mass': [6.0e4, 7.5e4, 2.0e5],
+            'dynamic_pressure': [1.0e4, 1.2e4, 9.0e3],
+            'wing_area': [120.0, 130.0, 360.0],
+        },
+        {
+            'mass': [1.0e4, 3.0e4, 5.0e4],
+            'dynamic_pressure': [3.0e3, 6.0e3, 1.5e4],
+            'wing_area': [40.0, 90.0, 110.0],
+        },
+    ],
+)
 def test_lift_coefficient_partials(point):
     # atol=0 so that only the relative error counts (complex step is exact to round-off).
     check_component_partials(LiftCoefficientComp(vec_size=3), point, atol=0.0)

@@ -10,7 +10,19 @@ from .config import Config, load_config
 from .errors import ConfigError, NotClosedError, OptimizationError, VoltwakeError
 from .optimization import OptimizationResult, build_problem, optimize
 
-__all__ = ['AnalysisResult', 'Config', 'ConfigError', 'NotClosedError', 'OptimizationError',
-           'OptimizationResult', 'VoltwakeError', 'analyze', 'build_model_problem',
-           'build_problem', 'compare', 'load_config', 'optimize']
+__all__ = [
+    'AnalysisResult',
+    'Config',
+    'ConfigError',
+    'NotClosedError',
+    'OptimizationError',
+    'OptimizationResult',
+    'VoltwakeError',
+    'analyze',
+    'build_model_problem',
+    'build_problem',
+    'compare',
+    'load_config',
+    'optimize',
+]
 __version__ = '0.1.0'

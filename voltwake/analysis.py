@@ -130,8 +130,12 @@ class AnalysisResult:
         dict
             ``name``, ``converged``, ``newton_iterations`` and every field.
         """
-        return {'name': self.name, 'converged': self.converged,
-                'newton_iterations': self.iterations, **self.values}
+        return {
+            'name': self.name,
+            'converged': self.converged,
+            'newton_iterations': self.iterations,
+            **self.values,
+        }
 
 
 def build_model_problem(config, vec_size=1, driver=None):
@@ -175,8 +179,10 @@ def set_model_inputs(prob, config, setup=False):
         Declare input defaults, set up the problem, then set values.
     """
     size = prob.model.options['vec_size']
-    inputs = {name: (np.full(size, value), units)
-              for name, (value, units) in config.model_inputs().items()}
+    inputs = {
+        name: (np.full(size, value), units)
+        for name, (value, units) in config.model_inputs().items()
+    }
     if setup:
         for name, (value, units) in inputs.items():
             prob.model.set_input_defaults(name, value, units=units)
@@ -207,9 +213,11 @@ def read_fields(prob, aft_fan, index=0):
     for key, (name, units) in FIELDS.items():
         out[key] = float(np.real(prob.get_val(name, units=units)[index]))
     for key, (name, units) in AFT_FAN_FIELDS.items():
-        out[key] = (float(np.real(prob.get_val(name, units=units)[index])) if aft_fan
-                    else (1.0 if key in ('electrical_chain_efficiency',
-                                         'cable_efficiency') else 0.0))
+        out[key] = (
+            float(np.real(prob.get_val(name, units=units)[index]))
+            if aft_fan
+            else (1.0 if key in ('electrical_chain_efficiency', 'cable_efficiency') else 0.0)
+        )
     return out
 
 
@@ -217,20 +225,32 @@ _CLOSED = 'the sizing loop did not close: '
 
 #: Checks of a converged state, in order: (test of the point, reason when it fails).
 _CHECKS = [
-    (lambda v, aft: v('turbofan_specific_thrust') > 0,
-     'the under-wing fan gives no thrust (jet velocity not above flight speed; raise the fan '
-     'pressure ratio)'),
-    (lambda v, aft: v('aft_specific_thrust') > 0 if aft else True,
-     'the aft fan gives no thrust (jet velocity not above the ingested flow velocity; raise '
-     'its pressure ratio)'),
-    (lambda v, aft: np.isfinite(v('mtow')) & (v('mtow') <= 50.0 * v('payload')),
-     'MTOW ran away (weight grows without bound)'),
-    (lambda v, aft: (v('mtow') > 0) & (v('total_fuel') > 0) & (v('oew') > 0),
-     'no positive MTOW satisfies the mass balance (weight grows without bound)'),
-    (lambda v, aft: v('capture_height') > 0 if aft else True,
-     'no capture height satisfies the aft-fan mass flow'),
-    (lambda v, aft: v('cable_efficiency') > 0 if aft else True,
-     'the cable loses all the power it carries'),
+    (
+        lambda v, aft: v('turbofan_specific_thrust') > 0,
+        'the under-wing fan gives no thrust (jet velocity not above flight speed; raise the fan '
+        'pressure ratio)',
+    ),
+    (
+        lambda v, aft: v('aft_specific_thrust') > 0 if aft else True,
+        'the aft fan gives no thrust (jet velocity not above the ingested flow velocity; raise '
+        'its pressure ratio)',
+    ),
+    (
+        lambda v, aft: np.isfinite(v('mtow')) & (v('mtow') <= 50.0 * v('payload')),
+        'MTOW ran away (weight grows without bound)',
+    ),
+    (
+        lambda v, aft: (v('mtow') > 0) & (v('total_fuel') > 0) & (v('oew') > 0),
+        'no positive MTOW satisfies the mass balance (weight grows without bound)',
+    ),
+    (
+        lambda v, aft: v('capture_height') > 0 if aft else True,
+        'no capture height satisfies the aft-fan mass flow',
+    ),
+    (
+        lambda v, aft: v('cable_efficiency') > 0 if aft else True,
+        'the cable loses all the power it carries',
+    ),
     (lambda v, aft: v('lift_to_drag') > 0, 'no positive lift-to-drag ratio'),
 ]
 
@@ -238,12 +258,16 @@ _CHECKS = [
 #: Extra checks of the last finite state of a solve that failed: fans whose specific thrust
 #: is a small fraction of the flight speed need enormous mass flows, and the design runs away.
 _FAILED_CHECKS = [
-    (lambda v, aft: v('turbofan_specific_thrust') > 0.05 * v('true_airspeed'),
-     'the under-wing fan gives almost no thrust per unit mass flow, so the engines grow '
-     'without bound (raise the fan pressure ratio)'),
-    (lambda v, aft: v('aft_specific_thrust') > 0.05 * v('true_airspeed') if aft else True,
-     'the aft fan gives no thrust worth having (jet barely faster than the ingested flow), so '
-     'it grows without bound (raise its pressure ratio)'),
+    (
+        lambda v, aft: v('turbofan_specific_thrust') > 0.05 * v('true_airspeed'),
+        'the under-wing fan gives almost no thrust per unit mass flow, so the engines grow '
+        'without bound (raise the fan pressure ratio)',
+    ),
+    (
+        lambda v, aft: v('aft_specific_thrust') > 0.05 * v('true_airspeed') if aft else True,
+        'the aft fan gives no thrust worth having (jet barely faster than the ingested flow), so '
+        'it grows without bound (raise its pressure ratio)',
+    ),
 ]
 
 
@@ -265,6 +289,7 @@ def closure_reasons(prob, aft_fan, failed=False):
     list of str or None
         One entry per design point: a one-line reason, or None when the state is physical.
     """
+
     def val(name):
         return np.real(prob.get_val(name))
 
@@ -333,9 +358,11 @@ def run_sizing(prob, aft_fan):
         reason = closure_problem(prob, aft_fan, failed=True)
         if reason is None:
             mtow = np.real(prob.get_val('mtow'))
-            reason = (_CLOSED + 'no convergence within '
-                      f"{solver.options['maxiter']} Newton iterations (MTOW "
-                      f'{np.max(mtow):,.6g} kg at the last finite iterate)')
+            reason = (
+                _CLOSED + 'no convergence within '
+                f"{solver.options['maxiter']} Newton iterations (MTOW "
+                f'{np.max(mtow):,.6g} kg at the last finite iterate)'
+            )
         raise NotClosedError(reason) from None
     reason = closure_problem(prob, aft_fan)
     if reason:
@@ -367,5 +394,4 @@ def analyze(config=None, overrides=None, keep_problem=True):
     values = read_fields(prob, config.has_aft_fan)
     if not all(math.isfinite(v) for v in values.values()):
         raise NotClosedError('the sizing loop returned non-finite values')
-    return AnalysisResult(config.name, True, values, iterations,
-                          prob if keep_problem else None)
+    return AnalysisResult(config.name, True, values, iterations, prob if keep_problem else None)

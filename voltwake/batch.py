@@ -60,16 +60,21 @@ def _targets(config, columns):
     for path, values in columns.items():
         field = field_at(path)
         if field is None or not field.target or field.target not in config.model_inputs():
-            raise ConfigError('not a model input of this design; expected a config key path '
-                              "such as 'aft_fan.thrust_fraction'", source=config.source,
-                              path=path)
+            raise ConfigError(
+                'not a model input of this design; expected a config key path '
+                "such as 'aft_fan.thrust_fraction'",
+                source=config.source,
+                path=path,
+            )
         arr = np.asarray(values, dtype=float).ravel()
         for value in np.unique(arr):
-            _check_field(field, float(value), {'source': config.source, 'line': None,
-                                               'path': path})
+            _check_field(field, float(value), {'source': config.source, 'line': None, 'path': path})
         if size is not None and arr.size != size:
-            raise ConfigError(f'{arr.size} values where the other inputs have {size}',
-                              source=config.source, path=path)
+            raise ConfigError(
+                f'{arr.size} values where the other inputs have {size}',
+                source=config.source,
+                path=path,
+            )
         size = arr.size
         out[path] = (field.target, field.units, arr)
     return out, size
@@ -101,8 +106,10 @@ def _solve(prob, aft_fan):
     ok = (residual < RESIDUAL_TOLERANCE) & ~broken
     for i in np.flatnonzero(~ok):
         if reasons[i] is None:
-            reasons[i] = ('the sizing loop did not close: Newton iterations did not converge '
-                          f'(relative residual {residual[i]:.2g})')
+            reasons[i] = (
+                'the sizing loop did not close: Newton iterations did not converge '
+                f'(relative residual {residual[i]:.2g})'
+            )
     return ok, reasons, broken
 
 
@@ -186,7 +193,7 @@ def _continue(config, targets, names):
     fraction = np.zeros(size)
     _set(prob, targets, fraction, base, every)
     prob.final_setup()
-    _solve(prob, aft)                              # every point at the base design
+    _solve(prob, aft)  # every point at the base design
     first = np.real(prob.get_val('mtow')).copy()
     last = first.copy()
     step = np.full(size, FIRST_STEP)
@@ -211,7 +218,8 @@ def _continue(config, targets, names):
                     'the sizing loop did not close: no solution past '
                     f'{100 * fraction[i]:.0f}% of the way from the configured design (MTOW '
                     f'{first[i]:,.0f} kg there, {last[i]:,.0f} kg at {100 * fraction[i]:.0f}%): '
-                    'weight grows without bound')
+                    'weight grows without bound'
+                )
         if halved.any():
             # Re-converge the stalled points at their last good inputs before the next step.
             _set(prob, targets, fraction, base, halved)

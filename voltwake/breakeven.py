@@ -31,19 +31,30 @@ XTOL_FRACTION = 1e-5
 def _technology_field(config, path):
     """Return the schema field of a numeric aft-fan or electrical input, or raise."""
     field = field_at(path)
-    if field is None or path.split('.')[0] not in TECHNOLOGY_SECTIONS or \
-            field.kind not in ('quantity', 'number') or not field.target:
-        raise ConfigError('expected a numeric input of the aft_fan or electrical section '
-                          "(such as 'electrical.motor.specific_power'); the conventional "
-                          'reference must not depend on it', source=config.source, path=path)
+    if (
+        field is None
+        or path.split('.')[0] not in TECHNOLOGY_SECTIONS
+        or field.kind not in ('quantity', 'number')
+        or not field.target
+    ):
+        raise ConfigError(
+            'expected a numeric input of the aft_fan or electrical section '
+            "(such as 'electrical.motor.specific_power'); the conventional "
+            'reference must not depend on it',
+            source=config.source,
+            path=path,
+        )
     return field
 
 
 def _turbo_electric(config):
     config = load_config(config)
     if not config.has_aft_fan:
-        raise ConfigError('this design has no aft fan; a technology study needs the '
-                          "'aft_fan' and 'electrical' sections", source=config.source)
+        raise ConfigError(
+            'this design has no aft fan; a technology study needs the '
+            "'aft_fan' and 'electrical' sections",
+            source=config.source,
+        )
     return config
 
 
@@ -91,25 +102,29 @@ def breakeven(config, path, lower, upper, jobs=None, xtol=None):
     field = _technology_field(config, path)
     lower, upper = float(lower), float(upper)
     if not lower < upper:
-        raise ConfigError(f'lower bound {lower:g} is not below upper bound {upper:g}',
-                          source=config.source, path=path)
+        raise ConfigError(
+            f'lower bound {lower:g} is not below upper bound {upper:g}',
+            source=config.source,
+            path=path,
+        )
     xtol = XTOL_FRACTION * (upper - lower) if xtol is None else float(xtol)
 
     reference = config.without_aft_fan()
-    jobs_list = [{'data': reference.data}] + \
-        [{'data': fixed_config(config, {path: x}).data} for x in (lower, upper)]
+    jobs_list = [{'data': reference.data}] + [
+        {'data': fixed_config(config, {path: x}).data} for x in (lower, upper)
+    ]
     ref, at_lower, at_upper = map_jobs(optimize_job, jobs_list, jobs=jobs)
     if not ref['success']:
-        raise OptimizationError(f"optimising the conventional reference failed: "
-                                f"{ref['message']}")
+        raise OptimizationError(f"optimising the conventional reference failed: {ref['message']}")
     ref_fuel = ref['outputs']['block_fuel_kg']
     evaluations, cache = [], {}
     units = f' {field.units}' if field.units else ''
 
     def record(x, res):
         if not res['success']:
-            raise OptimizationError(f"optimising the design with {path} = {x:g}{units} "
-                                    f"failed: {res['message']}")
+            raise OptimizationError(
+                f"optimising the design with {path} = {x:g}{units} failed: {res['message']}"
+            )
         fuel = res['outputs']['block_fuel_kg']
         diff = 100.0 * (fuel - ref_fuel) / ref_fuel
         evaluations.append({'value': x, 'difference': diff, 'block_fuel_kg': fuel})
@@ -119,25 +134,39 @@ def breakeven(config, path, lower, upper, jobs=None, xtol=None):
     def difference(x):
         x = float(x)
         if x not in cache:
-            [res] = map_jobs(optimize_job, [{'data': fixed_config(config, {path: x}).data}],
-                             jobs=1)
+            [res] = map_jobs(optimize_job, [{'data': fixed_config(config, {path: x}).data}], jobs=1)
             record(x, res)
         return cache[x]
 
     d_lower, d_upper = record(lower, at_lower), record(upper, at_upper)
-    out = {'found': False, 'path': path, 'units': field.units, 'value': math.nan,
-           'difference_at_value': math.nan, 'lower': lower, 'upper': upper,
-           'difference_at_lower': d_lower, 'difference_at_upper': d_upper,
-           'reference_block_fuel_kg': ref_fuel, 'evaluations': evaluations}
+    out = {
+        'found': False,
+        'path': path,
+        'units': field.units,
+        'value': math.nan,
+        'difference_at_value': math.nan,
+        'lower': lower,
+        'upper': upper,
+        'difference_at_lower': d_lower,
+        'difference_at_upper': d_upper,
+        'reference_block_fuel_kg': ref_fuel,
+        'evaluations': evaluations,
+    }
     if d_lower * d_upper > 0.0:
         side = 'more' if d_lower > 0.0 else 'less'
-        out['message'] = (f'no break-even on [{lower:g}, {upper:g}]{units}: the '
-                          f'turbo-electric design burns {side} fuel than the reference at both '
-                          f'ends ({d_lower:+.4g} % and {d_upper:+.4g} %)')
+        out['message'] = (
+            f'no break-even on [{lower:g}, {upper:g}]{units}: the '
+            f'turbo-electric design burns {side} fuel than the reference at both '
+            f'ends ({d_lower:+.4g} % and {d_upper:+.4g} %)'
+        )
         return out
     value = brentq(difference, lower, upper, xtol=xtol)
-    out.update(found=True, value=value, difference_at_value=difference(value),
-               message=f'break-even at {path} = {value:.6g}{units}')
+    out.update(
+        found=True,
+        value=value,
+        difference_at_value=difference(value),
+        message=f'break-even at {path} = {value:.6g}{units}',
+    )
     return out
 
 
@@ -160,8 +189,10 @@ def default_technology_paths(config):
     for path in config.values:
         parts = path.split('.')
         section, key = parts[0], parts[-1]
-        if (section == 'electrical' and key in ('specific_power', 'efficiency')) or \
-                path in ('electrical.cable.voltage', 'aft_fan.fan_efficiency'):
+        if (section == 'electrical' and key in ('specific_power', 'efficiency')) or path in (
+            'electrical.cable.voltage',
+            'aft_fan.fan_efficiency',
+        ):
             out.append(path)
     return out
 
@@ -196,8 +227,7 @@ def technology_sensitivities(config, paths=None):
     prob = build_model_problem(config)
     run_sizing(prob, True)
     fuel = float(np.real(prob.get_val('block_fuel', units='kg')[0]))
-    meta = prob.model.get_io_metadata(iotypes='output', metadata_keys=['units'],
-                                      get_remote=True)
+    meta = prob.model.get_io_metadata(iotypes='output', metadata_keys=['units'], get_remote=True)
     units = next(info['units'] for info in meta.values() if info['prom_name'] == 'block_fuel')
     factor = unit_conversion(units, 'kg')[0] if units else 1.0
     totals = prob.compute_totals(of=['block_fuel'], wrt=list(targets.values()))
@@ -205,6 +235,11 @@ def technology_sensitivities(config, paths=None):
     for path, target in targets.items():
         value = config.values[path]
         deriv = factor * float(np.real(totals['block_fuel', target][0, 0]))
-        out[path] = {'value': value, 'units': field_at(path).units, 'derivative': deriv,
-                     'elasticity': deriv * value / fuel, 'block_fuel_kg': fuel}
+        out[path] = {
+            'value': value,
+            'units': field_at(path).units,
+            'derivative': deriv,
+            'elasticity': deriv * value / fuel,
+            'block_fuel_kg': fuel,
+        }
     return out

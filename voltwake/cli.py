@@ -17,18 +17,28 @@ from .errors import VoltwakeError
 
 
 def _config_arg(parser):
-    parser.add_argument('config', nargs='?', default=None,
-                        help='aircraft YAML file (default: the packaged turbo-electric demo)')
-    parser.add_argument('--set', dest='overrides', action='append', default=[],
-                        metavar='KEY.PATH=VALUE',
-                        help="override one config value, e.g. --set 'mission.range=1200 nmi'")
+    parser.add_argument(
+        'config',
+        nargs='?',
+        default=None,
+        help='aircraft YAML file (default: the packaged turbo-electric demo)',
+    )
+    parser.add_argument(
+        '--set',
+        dest='overrides',
+        action='append',
+        default=[],
+        metavar='KEY.PATH=VALUE',
+        help="override one config value, e.g. --set 'mission.range=1200 nmi'",
+    )
 
 
 def _parser():
     parser = argparse.ArgumentParser(
         prog='voltwake',
         description='Conceptual sizing and optimisation of turbo-electric airliners with a '
-                    'wake-ingesting aft fan. Conceptual estimates only.')
+        'wake-ingesting aft fan. Conceptual estimates only.',
+    )
     sub = parser.add_subparsers(dest='command', required=True)
 
     p = sub.add_parser('analyze', help='close the sizing loop of one design and summarise it')
@@ -38,52 +48,87 @@ def _parser():
     p = sub.add_parser('compare', help='compare a design with its conventional reference')
     _config_arg(p)
     p.add_argument('--json', action='store_true', help='print one JSON object')
-    p.add_argument('--optimize', action='store_true',
-                   help='optimise both designs with the same objective and constraints first')
+    p.add_argument(
+        '--optimize',
+        action='store_true',
+        help='optimise both designs with the same objective and constraints first',
+    )
 
-    p = sub.add_parser('optimize', help='minimise fuel burn (or the configured objective) '
-                                        'under the configured constraints')
+    p = sub.add_parser(
+        'optimize',
+        help='minimise fuel burn (or the configured objective) under the configured constraints',
+    )
     _config_arg(p)
-    p.add_argument('--out', metavar='DIR', help='write results (JSON, YAML) and the OpenMDAO '
-                                               'case file (cases.sql) to DIR')
+    p.add_argument(
+        '--out',
+        metavar='DIR',
+        help='write results (JSON, YAML) and the OpenMDAO case file (cases.sql) to DIR',
+    )
     p.add_argument('--force', action='store_true', help='allow a non-empty --out DIR')
     p.add_argument('--json', action='store_true', help='print one JSON object at the end')
 
-    p = sub.add_parser('sweep', help='trade studies: design-space map, target sweep with '
-                                     'optimisations, technology break-even, Monte Carlo')
+    p = sub.add_parser(
+        'sweep',
+        help='trade studies: design-space map, target sweep with '
+        'optimisations, technology break-even, Monte Carlo',
+    )
     _config_arg(p)
-    p.add_argument('--map', action='append', default=[], metavar='PATH=LO:HI:N',
-                   help='an axis of a vectorised design-space map (analysis only)')
-    p.add_argument('--targets', action='append', default=[], metavar='PATH=LO:HI:N',
-                   help='an axis of a target sweep (an optimisation at every point)')
-    p.add_argument('--breakeven', metavar='PATH=LO:HI',
-                   help='technology input at which the design burns as much fuel as the '
-                        'optimised reference')
-    p.add_argument('--monte-carlo', dest='samples', type=int, metavar='N',
-                   help='Monte Carlo samples over study.uncertainty.distributions')
+    p.add_argument(
+        '--map',
+        action='append',
+        default=[],
+        metavar='PATH=LO:HI:N',
+        help='an axis of a vectorised design-space map (analysis only)',
+    )
+    p.add_argument(
+        '--targets',
+        action='append',
+        default=[],
+        metavar='PATH=LO:HI:N',
+        help='an axis of a target sweep (an optimisation at every point)',
+    )
+    p.add_argument(
+        '--breakeven',
+        metavar='PATH=LO:HI',
+        help='technology input at which the design burns as much fuel as the optimised reference',
+    )
+    p.add_argument(
+        '--monte-carlo',
+        dest='samples',
+        type=int,
+        metavar='N',
+        help='Monte Carlo samples over study.uncertainty.distributions',
+    )
     p.add_argument('--seed', type=int, help='Monte Carlo seed')
-    p.add_argument('--jobs', type=int, default=None,
-                   help='local processes for the optimisations (default: all cores)')
+    p.add_argument(
+        '--jobs',
+        type=int,
+        default=None,
+        help='local processes for the optimisations (default: all cores)',
+    )
     p.add_argument('--out', metavar='DIR', help='write CSV, summaries, plots and report.html')
     p.add_argument('--force', action='store_true', help='allow a non-empty --out DIR')
     p.add_argument('--json', action='store_true', help='print one JSON object at the end')
 
-    p = sub.add_parser('report', help='write one self-contained HTML report of a results '
-                                      'directory')
+    p = sub.add_parser('report', help='write one self-contained HTML report of a results directory')
     p.add_argument('results_dir', help='a directory written by optimize or sweep --out')
     p.add_argument('--output', help='HTML file (default: RESULTS_DIR/report.html)')
 
-    p = sub.add_parser('derivs', help='check partial and total derivatives against '
-                                      'complex step')
+    p = sub.add_parser('derivs', help='check partial and total derivatives against complex step')
     _config_arg(p)
-    p.add_argument('--tolerance', type=float, default=1e-6,
-                   help='largest relative error accepted (default 1e-6)')
+    p.add_argument(
+        '--tolerance',
+        type=float,
+        default=1e-6,
+        help='largest relative error accepted (default 1e-6)',
+    )
     return parser
 
 
 def _cmd_analyze(args):
     from .analysis import analyze
     from .summary import analysis_text
+
     result = analyze(args.config, args.overrides, keep_problem=False)
     print(json.dumps(result.to_dict(), indent=2) if args.json else analysis_text(result))
     return errors.EXIT_OK
@@ -92,19 +137,26 @@ def _cmd_analyze(args):
 def _cmd_compare(args):
     from .compare import compare
     from .summary import comparison_text
+
     comp = compare(args.config, args.overrides, optimized=args.optimize)
-    print(json.dumps(comp.to_dict(), indent=2) if args.json
-          else comparison_text(comp.design, comp.reference, comp.change_percent))
+    print(
+        json.dumps(comp.to_dict(), indent=2)
+        if args.json
+        else comparison_text(comp.design, comp.reference, comp.change_percent)
+    )
     return errors.EXIT_OK
 
 
 def _cmd_derivs(args):
     from .config import load_config
     from .derivatives import check_derivatives
+
     worst = check_derivatives(load_config(args.config, args.overrides))
     if max(worst['worst_partial'], worst['worst_total']) > args.tolerance:
-        print(f'voltwake: derivative check failed: relative error above {args.tolerance:g}',
-              file=sys.stderr)
+        print(
+            f'voltwake: derivative check failed: relative error above {args.tolerance:g}',
+            file=sys.stderr,
+        )
         return errors.EXIT_DERIVATIVE_CHECK
     print(f'derivative check passed (tolerance {args.tolerance:g})')
     return errors.EXIT_OK
@@ -114,34 +166,47 @@ def _optimization_plots(result, out_dir):
     """Convergence history, mass breakdown and power flow of an optimum (needs matplotlib)."""
     try:
         from . import plots
-        plots.plot_history(result.history, os.path.join(out_dir, 'convergence.png'),
-                           objective_label=result.objective)
+
+        plots.plot_history(
+            result.history,
+            os.path.join(out_dir, 'convergence.png'),
+            objective_label=result.objective,
+        )
         if result.outputs:
-            plots.plot_mass_breakdown(result.outputs, result.start,
-                                      os.path.join(out_dir, 'mass_breakdown.png'),
-                                      design_label='optimum', reference_label='start')
+            plots.plot_mass_breakdown(
+                result.outputs,
+                result.start,
+                os.path.join(out_dir, 'mass_breakdown.png'),
+                design_label='optimum',
+                reference_label='start',
+            )
             if result.outputs.get('aft_thrust_fraction', 0.0) > 0:
                 plots.plot_power_flow(result.outputs, os.path.join(out_dir, 'power_flow.png'))
     except errors.ConfigError:
-        pass   # no matplotlib: the results files and the report still stand
+        pass  # no matplotlib: the results files and the report still stand
 
 
 def _cmd_optimize(args):
     from .optimization import optimize
     from .results_io import prepare_out_dir, write_results
     from .summary import optimization_text
+
     out_dir = prepare_out_dir(args.out, args.force) if args.out else None
     recorder = os.path.join(out_dir, 'cases.sql') if out_dir else None
 
     def progress(entry):
         if not args.json:
             flag = '' if entry['closed'] else '  (did not close)'
-            print(f"eval {entry['evaluation']:4d}  objective {entry['objective']:14.6g}  "
-                  f"worst violation {entry['max_violation']:.3e}{flag}", flush=True)
+            print(
+                f"eval {entry['evaluation']:4d}  objective {entry['objective']:14.6g}  "
+                f"worst violation {entry['max_violation']:.3e}{flag}",
+                flush=True,
+            )
 
     try:
-        result = optimize(args.config, args.overrides, recorder_path=recorder,
-                          on_evaluation=progress)
+        result = optimize(
+            args.config, args.overrides, recorder_path=recorder, on_evaluation=progress
+        )
     except errors.InterruptedRun as stop:
         if out_dir and stop.partial is not None:
             write_results(out_dir, 'results', stop.partial)
@@ -151,6 +216,7 @@ def _cmd_optimize(args):
         write_results(out_dir, 'results', {'status': 'complete', **data})
         _optimization_plots(result, out_dir)
         from .report import write_report
+
         write_report(out_dir)
     print(json.dumps(data, indent=2) if args.json else optimization_text(result))
     if not result.success:
@@ -164,6 +230,7 @@ def _cmd_sweep(args):
     from .parallel import ProgressBar, is_root
     from .results_io import prepare_out_dir
     from .sweep import _clean, run_sweep, study_spec
+
     if args.jobs is not None and args.jobs < 1:
         raise errors.ConfigError(f'--jobs {args.jobs}: expected a whole number >= 1')
     config = load_config(args.config, args.overrides)
@@ -178,18 +245,26 @@ def _cmd_sweep(args):
         print(json.dumps(_clean(summaries), indent=2, sort_keys=True))
     else:
         from .summary import sweep_text
+
         print(sweep_text(summaries, out_dir))
     return errors.EXIT_OK
 
 
 def _cmd_report(args):
     from .report import write_report
+
     print(write_report(args.results_dir, args.output))
     return errors.EXIT_OK
 
 
-COMMANDS = {'analyze': _cmd_analyze, 'compare': _cmd_compare, 'derivs': _cmd_derivs,
-            'optimize': _cmd_optimize, 'sweep': _cmd_sweep, 'report': _cmd_report}
+COMMANDS = {
+    'analyze': _cmd_analyze,
+    'compare': _cmd_compare,
+    'derivs': _cmd_derivs,
+    'optimize': _cmd_optimize,
+    'sweep': _cmd_sweep,
+    'report': _cmd_report,
+}
 
 
 def main(argv=None):
@@ -230,8 +305,11 @@ def _run(args):
     except Exception as err:  # noqa: BLE001 - last resort: one line, not a traceback
         if os.environ.get('VOLTWAKE_DEBUG'):
             raise
-        print(f'voltwake: internal error: {type(err).__name__}: {err} '
-              '(set VOLTWAKE_DEBUG=1 for the traceback)', file=sys.stderr)
+        print(
+            f'voltwake: internal error: {type(err).__name__}: {err} '
+            '(set VOLTWAKE_DEBUG=1 for the traceback)',
+            file=sys.stderr,
+        )
         return errors.EXIT_INTERNAL
 
 

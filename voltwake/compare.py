@@ -6,9 +6,20 @@ from .analysis import analyze
 from .config import load_config
 
 #: Fields whose percentage change is reported.
-CHANGED = ('block_fuel_kg', 'total_fuel_kg', 'mtow_kg', 'oew_kg', 'cruise_lift_to_drag',
-           'tsfc_g_per_kN_s', 'overall_efficiency', 'block_energy_MJ', 'propulsion_mass_kg',
-           'engines_mass_kg', 'turbofan_fan_diameter_m', 'cruise_drag_kN')
+CHANGED = (
+    'block_fuel_kg',
+    'total_fuel_kg',
+    'mtow_kg',
+    'oew_kg',
+    'cruise_lift_to_drag',
+    'tsfc_g_per_kN_s',
+    'overall_efficiency',
+    'block_energy_MJ',
+    'propulsion_mass_kg',
+    'engines_mass_kg',
+    'turbofan_fan_diameter_m',
+    'cruise_drag_kN',
+)
 
 
 @dataclasses.dataclass
@@ -44,9 +55,12 @@ class Comparison:
         dict
             ``design``, ``reference``, ``change_percent`` and ``fuel_burn_change_percent``.
         """
-        return {'design': self.design.to_dict(), 'reference': self.reference.to_dict(),
-                'change_percent': dict(self.change_percent),
-                'fuel_burn_change_percent': self.fuel_burn_change_percent}
+        return {
+            'design': self.design.to_dict(),
+            'reference': self.reference.to_dict(),
+            'change_percent': dict(self.change_percent),
+            'fuel_burn_change_percent': self.fuel_burn_change_percent,
+        }
 
 
 def percent_changes(design_values, reference_values):
@@ -63,8 +77,11 @@ def percent_changes(design_values, reference_values):
     dict
         Field -> percent change.
     """
-    return {key: 100.0 * (design_values[key] - reference_values[key]) / reference_values[key]
-            for key in CHANGED if reference_values[key] != 0.0}
+    return {
+        key: 100.0 * (design_values[key] - reference_values[key]) / reference_values[key]
+        for key in CHANGED
+        if reference_values[key] != 0.0
+    }
 
 
 def compare(config=None, overrides=None, optimized=False):
@@ -100,6 +117,7 @@ def _compare_optima(config):
     from .analysis import AnalysisResult
     from .errors import OptimizationError
     from .optimization import optimize
+
     results = []
     for cfg in (config, config.without_aft_fan()):
         opt = optimize(cfg)

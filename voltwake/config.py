@@ -30,8 +30,10 @@ OVERRIDE_SOURCE = '--set'
 
 _UNIT_NAME = r'[A-Za-z][A-Za-z0-9_]*'
 _UNIT_POWER = r'(?:\s*\*\*\s*(?:-?[0-9]{1,2}|\(\s*-?[0-9]{1,2}\s*\)))?'
-_UNIT_TERM = (rf'(?:1\s*/\s*)?{_UNIT_NAME}{_UNIT_POWER}'
-              rf'(?:\s*[*/]\s*{_UNIT_NAME}{_UNIT_POWER})*')
+_UNIT_TERM = (
+    rf'(?:1\s*/\s*)?{_UNIT_NAME}{_UNIT_POWER}'
+    rf'(?:\s*[*/]\s*{_UNIT_NAME}{_UNIT_POWER})*'
+)
 _UNIT_GROUP = re.compile(rf'\(\s*{_UNIT_TERM}\s*\){_UNIT_POWER}')
 _UNIT_EXPR = re.compile(_UNIT_TERM)
 _MAX_UNIT_CHARS = 64
@@ -50,8 +52,7 @@ _CHECKS = {
     'at_least_one': (lambda v: v >= 1, 'a value >= 1'),
     'above_one': (lambda v: v > 1, 'a value > 1'),
     'above_two': (lambda v: v > 2, 'a value > 2'),
-    'isa_altitude': (lambda v: 0 <= v <= 20000,
-                     'a value from 0 to 20 km (the ISA range modelled)'),
+    'isa_altitude': (lambda v: 0 <= v <= 20000, 'a value from 0 to 20 km (the ISA range modelled)'),
 }
 
 
@@ -112,8 +113,9 @@ class Config:
         """
         out = {}
         for path, value in self.values.items():
-            if not self.has_aft_fan and (path.split('.')[0] in ('aft_fan', 'electrical')
-                                         or path in _AFT_ONLY):
+            if not self.has_aft_fan and (
+                path.split('.')[0] in ('aft_fan', 'electrical') or path in _AFT_ONLY
+            ):
                 continue
             field = field_at(path)
             if field is not None and field.target:
@@ -133,10 +135,12 @@ class Config:
         dict
             Option name -> value.
         """
-        opts = {'num_engines': self.values['turbofans.count'],
-                'aft_fan': self.has_aft_fan,
-                'max_iterations': self.values.get('solver.max_iterations', 30),
-                'tolerance': self.values.get('solver.tolerance', 1e-10)}
+        opts = {
+            'num_engines': self.values['turbofans.count'],
+            'aft_fan': self.has_aft_fan,
+            'max_iterations': self.values.get('solver.max_iterations', 30),
+            'tolerance': self.values.get('solver.tolerance', 1e-10),
+        }
         if self.has_aft_fan:
             opts['profile_exponent'] = self.values['aft_fan.profile_exponent']
         return opts
@@ -155,8 +159,13 @@ class Config:
         Config
             The new configuration.
         """
-        return _validate(copy.deepcopy(self.data), self.source, self.origins_lines(), overrides,
-                         self._overridden())
+        return _validate(
+            copy.deepcopy(self.data),
+            self.source,
+            self.origins_lines(),
+            overrides,
+            self._overridden(),
+        )
 
     def without_aft_fan(self):
         """
@@ -175,8 +184,9 @@ class Config:
 
     def _overridden(self):
         """Return the tuple key paths whose values were given as overrides."""
-        return {tuple(p.split('.')) for p, (src, _) in self.origins.items()
-                if src == OVERRIDE_SOURCE}
+        return {
+            tuple(p.split('.')) for p, (src, _) in self.origins.items() if src == OVERRIDE_SOURCE
+        }
 
     def origins_lines(self):
         """
@@ -187,8 +197,11 @@ class Config:
         dict
             Tuple key path -> 1-based line.
         """
-        return {tuple(p.split('.')): line for p, (src, line) in self.origins.items()
-                if src == self.source and line is not None}
+        return {
+            tuple(p.split('.')): line
+            for p, (src, line) in self.origins.items()
+            if src == self.source and line is not None
+        }
 
     def value(self, path):
         """
@@ -207,8 +220,9 @@ class Config:
         try:
             return self.values[path]
         except KeyError:
-            raise ConfigError('no such key in this configuration', source=self.source,
-                              path=path) from None
+            raise ConfigError(
+                'no such key in this configuration', source=self.source, path=path
+            ) from None
 
 
 def field_at(path):
@@ -247,8 +261,13 @@ def _expectation(field):
     """Return what a field expects, for the message of a missing key."""
     if field.kind == 'quantity':
         return f"a number in {field.units} or a string with units such as '12 {field.units}'"
-    kinds = {'number': 'a number', 'integer': 'a whole number', 'text': 'text',
-             'mapping': 'a mapping', 'choice': f"one of {', '.join(field.choices)}"}
+    kinds = {
+        'number': 'a number',
+        'integer': 'a whole number',
+        'text': 'text',
+        'mapping': 'a mapping',
+        'choice': f"one of {', '.join(field.choices)}",
+    }
     return kinds[field.kind]
 
 
@@ -313,11 +332,15 @@ def parse_quantity(value, units, where):
         number = _to_float(number, where)
         unit = unit.strip() or units
         if not _known_unit(unit):
-            raise ConfigError(f"got {_show(value)}: unknown unit {_show(unit)}; "
-                              f"expected {expect}", **where)
+            raise ConfigError(
+                f"got {_show(value)}: unknown unit {_show(unit)}; expected {expect}", **where
+            )
         if not is_compatible(unit, units):
-            raise ConfigError(f"got {_show(value)}: unit {unit!r} cannot be converted to "
-                              f"{units}; expected {expect}", **where)
+            raise ConfigError(
+                f"got {_show(value)}: unit {unit!r} cannot be converted to "
+                f"{units}; expected {expect}",
+                **where,
+            )
         return _to_float(convert_units(number, unit, units), where)
     if isinstance(value, (bool, complex)) or not isinstance(value, numbers.Real):
         raise ConfigError(f'got {_show(value)}; expected {expect}', **where)
@@ -339,18 +362,21 @@ def _check_field(field, value, where):
         value = _to_float(value, where)
     elif field.kind == 'integer':
         if isinstance(value, bool) or not isinstance(value, numbers.Integral):
-            raise ConfigError(f'got {_show(value)}; expected a whole number ({field.doc})',
-                              **where)
+            raise ConfigError(f'got {_show(value)}; expected a whole number ({field.doc})', **where)
         value = int(value)
         if abs(value) > _MAX_INTEGER:
             # The model takes counts and limits as floats or C integers.
-            raise ConfigError(f'got {_show(value)}; expected a whole number of at most '
-                              f'{_MAX_INTEGER} ({field.doc})', **where)
+            raise ConfigError(
+                f'got {_show(value)}; expected a whole number of at most '
+                f'{_MAX_INTEGER} ({field.doc})',
+                **where,
+            )
     elif field.kind == 'choice':
         if not isinstance(value, str) or value not in field.choices:
             hint = _suggest(value, field.choices) if isinstance(value, str) else ''
-            raise ConfigError(f"got {_show(value)}; expected one of "
-                              f"{', '.join(field.choices)}{hint}", **where)
+            raise ConfigError(
+                f"got {_show(value)}; expected one of {', '.join(field.choices)}{hint}", **where
+            )
     elif field.kind == 'mapping':
         if not isinstance(value, dict) or not value:
             raise ConfigError(f'got {_show(value)}; expected a mapping ({field.doc})', **where)
@@ -377,8 +403,10 @@ def _where(sub, lines, source, overridden):
 
 
 def _all_default(schema):
-    return all(_all_default(f) if isinstance(f, dict) else f.default is not REQUIRED
-               for f in schema.values())
+    return all(
+        _all_default(f) if isinstance(f, dict) else f.default is not REQUIRED
+        for f in schema.values()
+    )
 
 
 def _walk(schema, data, path, lines, source, values, origins, overridden):
@@ -388,8 +416,11 @@ def _walk(schema, data, path, lines, source, values, origins, overridden):
             sub = path + (str(key),)
             where = _where(sub, lines, source, overridden)
             where['line'] = None if where['line'] is None else lines.get(sub)
-            raise ConfigError(f'unknown key{_suggest(str(key), known)}; expected one of the '
-                              f"known keys here: {', '.join(known)}", **where)
+            raise ConfigError(
+                f'unknown key{_suggest(str(key), known)}; expected one of the '
+                f"known keys here: {', '.join(known)}",
+                **where,
+            )
     for key, field in schema.items():
         sub = path + (key,)
         dotted = '.'.join(sub)
@@ -401,18 +432,22 @@ def _walk(schema, data, path, lines, source, values, origins, overridden):
                     continue
                 if not path and key in OPTIONAL_SECTIONS:
                     continue
-                raise ConfigError(f"missing section; expected a mapping with keys "
-                                  f"{', '.join(field)}", **where)
+                raise ConfigError(
+                    f"missing section; expected a mapping with keys {', '.join(field)}", **where
+                )
             if not isinstance(data[key], dict):
-                raise ConfigError(f'got {_show(data[key])}; expected a mapping with keys '
-                                  f"{', '.join(field)}", **where)
+                raise ConfigError(
+                    f'got {_show(data[key])}; expected a mapping with keys {", ".join(field)}',
+                    **where,
+                )
             _walk(field, data[key], sub, lines, source, values, origins, overridden)
         elif key in data:
             values[dotted] = _check_field(field, data[key], where)
             origins[dotted] = (where['source'], where['line'])
         elif field.default is REQUIRED:
-            raise ConfigError(f'missing required key ({field.doc}); expected '
-                              f'{_expectation(field)}', **where)
+            raise ConfigError(
+                f'missing required key ({field.doc}); expected {_expectation(field)}', **where
+            )
         else:
             values[dotted] = field.default
             origins[dotted] = ('default', None)
@@ -436,24 +471,30 @@ def _apply_overrides(data, overrides, overridden):
         for text in overrides:
             path, sep, raw = str(text).partition('=')
             if not sep or not path.strip():
-                raise ConfigError(f"got {_show(text)}; expected key.path=value",
-                                  source=OVERRIDE_SOURCE)
+                raise ConfigError(
+                    f"got {_show(text)}; expected key.path=value", source=OVERRIDE_SOURCE
+                )
             value = parse_value(raw, OVERRIDE_SOURCE) if raw.strip() else raw
             items.append((path.strip(), value))
     for path, value in items:
         parts = tuple(part.strip() for part in str(path).split('.'))
         if not all(parts):
-            raise ConfigError(f"got {_show(str(path))}; expected a dotted key path such as "
-                              "'wing.area'", source=OVERRIDE_SOURCE)
+            raise ConfigError(
+                f"got {_show(str(path))}; expected a dotted key path such as 'wing.area'",
+                source=OVERRIDE_SOURCE,
+            )
         parts = _regroup_design_variable(parts)
         node = data
         for i, part in enumerate(parts[:-1]):
             if not isinstance(node.get(part), dict):
                 if part in node:
-                    raise ConfigError(f"'{part}' is not a section", source=OVERRIDE_SOURCE,
-                                      path=key_path(parts[:i + 1]))
+                    raise ConfigError(
+                        f"'{part}' is not a section",
+                        source=OVERRIDE_SOURCE,
+                        path=key_path(parts[: i + 1]),
+                    )
                 node[part] = {}
-                overridden.add(parts[:i + 1])
+                overridden.add(parts[: i + 1])
             node = node[part]
         node[parts[-1]] = value
         overridden.add(parts)
@@ -461,20 +502,25 @@ def _apply_overrides(data, overrides, overridden):
 
 def _validate(data, source, lines, overrides, overridden=()):
     if not isinstance(data, dict):
-        raise ConfigError(f'got {type(data).__name__}; expected a mapping of sections',
-                          source=source)
+        raise ConfigError(
+            f'got {type(data).__name__}; expected a mapping of sections', source=source
+        )
     overridden = set(overridden)
     if overrides:
         _apply_overrides(data, overrides, overridden)
     values, origins = {}, {}
     _walk(SECTIONS, data, (), lines, source, values, origins, overridden)
     if ('aft_fan' in data) != ('electrical' in data):
-        present, missing = ('aft_fan', 'electrical') if 'aft_fan' in data else ('electrical',
-                                                                               'aft_fan')
+        present, missing = (
+            ('aft_fan', 'electrical') if 'aft_fan' in data else ('electrical', 'aft_fan')
+        )
         where = _where((present,), lines, source, overridden)
-        raise ConfigError(f"missing section '{missing}'; expected both 'aft_fan' and "
-                          f"'electrical' sections for a design with an aft fan (only "
-                          f"'{present}' is given)", **where)
+        raise ConfigError(
+            f"missing section '{missing}'; expected both 'aft_fan' and "
+            f"'electrical' sections for a design with an aft fan (only "
+            f"'{present}' is given)",
+            **where,
+        )
     return Config(data, values, origins, source)
 
 
@@ -520,10 +566,12 @@ def demo_path(name='turbo_electric'):
         Path of the YAML file.
     """
     from importlib import resources
+
     path = resources.files('voltwake.configs') / f'demo_{name}.yaml'
     if not path.is_file():
-        raise ConfigError(f"no packaged demo named {name!r}; expected 'turbo_electric' or "
-                          "'conventional'")
+        raise ConfigError(
+            f"no packaged demo named {name!r}; expected 'turbo_electric' or 'conventional'"
+        )
     return str(path)
 
 

@@ -17,8 +17,12 @@ from .config import load_config
 TOTALS_OF = ['block_fuel', 'mtow', 'lift_to_drag', 'overall_efficiency', 'wingspan']
 TOTALS_WRT = ['wing_area', 'aspect_ratio', 'turbofan_fan_pressure_ratio', 'range', 'payload']
 AFT_TOTALS_OF = ['power_saving_coefficient', 'electrical_mass', 'aft_fan_diameter']
-AFT_TOTALS_WRT = ['aft_thrust_fraction', 'aft_fan_pressure_ratio', 'cable_voltage',
-                  'motor_specific_power']
+AFT_TOTALS_WRT = [
+    'aft_thrust_fraction',
+    'aft_fan_pressure_ratio',
+    'cable_voltage',
+    'motor_specific_power',
+]
 
 
 def _spread(prob, config, vec_size):
@@ -55,14 +59,19 @@ def check_totals_cs(prob, of=None, wrt=None, driver_scaling=False):
         The data of ``Problem.check_totals``.
     """
     newton = prob.model.sizing.nonlinear_solver
-    saved = {key: newton.options[key] for key in ('atol', 'rtol', 'maxiter',
-                                                  'err_on_non_converge')}
+    saved = {key: newton.options[key] for key in ('atol', 'rtol', 'maxiter', 'err_on_non_converge')}
     newton.options['atol'] = newton.options['rtol'] = 1e-300
     newton.options['maxiter'] = 25
     newton.options['err_on_non_converge'] = False
     try:
-        return prob.check_totals(of=of, wrt=wrt, method='cs', compact_print=True,
-                                 out_stream=None, driver_scaling=driver_scaling)
+        return prob.check_totals(
+            of=of,
+            wrt=wrt,
+            method='cs',
+            compact_print=True,
+            out_stream=None,
+            driver_scaling=driver_scaling,
+        )
     finally:
         for key, value in saved.items():
             newton.options[key] = value
@@ -81,7 +90,7 @@ def _worst(data):
     worst = (0.0, '', '', 0.0)
     for comp, pairs in data.items():
         for (of, wrt), entry in pairs.items():
-            if 'J_fwd' not in entry and 'J_rev' not in entry:   # undeclared: zero by design
+            if 'J_fwd' not in entry and 'J_rev' not in entry:  # undeclared: zero by design
                 continue
             rel, err = _relative(entry)
             if rel > worst[0]:
@@ -115,8 +124,10 @@ def check_derivatives(config=None, vec_size=3, out=print):
     partials = prob.check_partials(method='cs', compact_print=True, out_stream=None)
     rel, comp, pair, err = _worst(partials)
     count = sum(len(pairs) for pairs in partials.values())
-    out(f'partials: {len(partials)} components, {count} sub-Jacobians checked against '
-        f'complex step at vec_size {vec_size}')
+    out(
+        f'partials: {len(partials)} components, {count} sub-Jacobians checked against '
+        f'complex step at vec_size {vec_size}'
+    )
     out(f'  worst relative error {rel:.3e} ({comp}: {pair}; absolute {err:.3e})')
     of = TOTALS_OF + (AFT_TOTALS_OF if config.has_aft_fan else [])
     wrt = TOTALS_WRT + (AFT_TOTALS_WRT if config.has_aft_fan else [])
@@ -128,5 +139,9 @@ def check_derivatives(config=None, vec_size=3, out=print):
             t_worst = (trel, f'{o} wrt {w}')
     out(f'totals: {len(totals)} pairs of the converged model against complex step')
     out(f'  worst relative error {t_worst[0]:.3e} ({t_worst[1]})')
-    return {'worst_partial': rel, 'worst_partial_at': f'{comp}: {pair}',
-            'worst_total': t_worst[0], 'worst_total_at': t_worst[1]}
+    return {
+        'worst_partial': rel,
+        'worst_partial_at': f'{comp}: {pair}',
+        'worst_total': t_worst[0],
+        'worst_total_at': t_worst[1],
+    }

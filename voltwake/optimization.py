@@ -29,8 +29,13 @@ from .config import field_at, load_config, parse_quantity
 from .errors import ConfigError, InterruptedRun, NotClosedError
 
 #: Objective shortcuts -> promoted model output.
-OBJECTIVES = {'block_fuel': 'block_fuel', 'mtow': 'mtow', 'block_energy': 'block_energy',
-              'total_energy': 'block_energy', 'total_fuel': 'total_fuel'}
+OBJECTIVES = {
+    'block_fuel': 'block_fuel',
+    'mtow': 'mtow',
+    'block_energy': 'block_energy',
+    'total_energy': 'block_energy',
+    'total_fuel': 'total_fuel',
+}
 
 #: Largest scaled constraint violation accepted as feasible.
 FEASIBILITY_TOLERANCE = 1e-5
@@ -137,35 +142,49 @@ def design_variables(config, model_inputs):
         where = _where(config, f'optimization.design_variables.{path}')
         field = field_at(path)
         if field is None or not field.target:
-            raise ConfigError('not a configurable model input; expected a config key path '
-                              "such as 'wing.area'", **where)
+            raise ConfigError(
+                'not a configurable model input; expected a config key path such as \'wing.area\'',
+                **where,
+            )
         if field.target not in model_inputs:
             if path.split('.')[0] in ('aft_fan', 'electrical'):
-                continue   # the conventional reference has no aft-fan variables
+                continue  # the conventional reference has no aft-fan variables
             raise ConfigError('this input is not in the model', **where)
-        if not isinstance(bounds, dict) or set(bounds) - {'lower', 'upper', 'ref0', 'ref'} or \
-                not {'lower', 'upper'} <= set(bounds):
-            raise ConfigError(f'got {bounds!r}; expected {{lower: ..., upper: ...}} and '
-                              'optionally ref0 and ref (scaling)', **where)
+        if (
+            not isinstance(bounds, dict)
+            or set(bounds) - {'lower', 'upper', 'ref0', 'ref'}
+            or not {'lower', 'upper'} <= set(bounds)
+        ):
+            raise ConfigError(
+                f'got {bounds!r}; expected {{lower: ..., upper: ...}} and '
+                'optionally ref0 and ref (scaling)',
+                **where,
+            )
         units = field.units
-        vals = {key: (parse_quantity(val, units, where) if units else _number(val, where))
-                for key, val in bounds.items()}
+        vals = {
+            key: (parse_quantity(val, units, where) if units else _number(val, where))
+            for key, val in bounds.items()
+        }
         if not vals['lower'] < vals['upper']:
-            raise ConfigError(f"lower bound {vals['lower']:g} is not below upper bound "
-                              f"{vals['upper']:g}", **where)
-        if ('ref' in vals or 'ref0' in vals) and \
-                vals.get('ref', vals['upper']) == vals.get('ref0', vals['lower']):
+            raise ConfigError(
+                f"lower bound {vals['lower']:g} is not below upper bound {vals['upper']:g}", **where
+            )
+        if ('ref' in vals or 'ref0' in vals) and vals.get('ref', vals['upper']) == vals.get(
+            'ref0', vals['lower']
+        ):
             raise ConfigError('ref must differ from ref0', **where)
         out.append(DesignVariable(path, field.target, units=units, **vals))
     if not out:
-        raise ConfigError('no design variables for this design', source=config.source,
-                          path='optimization.design_variables')
+        raise ConfigError(
+            'no design variables for this design',
+            source=config.source,
+            path='optimization.design_variables',
+        )
     return out
 
 
 def _number(value, where):
-    if isinstance(value, bool) or not isinstance(value, (int, float)) or \
-            not math.isfinite(value):
+    if isinstance(value, bool) or not isinstance(value, (int, float)) or not math.isfinite(value):
         raise ConfigError(f'got {value!r}; expected a finite number', **where)
     return float(value)
 
@@ -187,8 +206,9 @@ def constraints(config, prob):
         Constraints on outputs of this model (aft-fan ones are dropped for a conventional
         design).
     """
-    meta = prob.model.get_io_metadata(iotypes='output', metadata_keys=['units'],
-                                      get_remote=True, return_rel_names=False)
+    meta = prob.model.get_io_metadata(
+        iotypes='output', metadata_keys=['units'], get_remote=True, return_rel_names=False
+    )
     units_of = {}
     for abs_name, info in meta.items():
         units_of[info['prom_name']] = info['units']
@@ -196,18 +216,22 @@ def constraints(config, prob):
     for name, bounds in config.values['optimization.constraints'].items():
         where = _where(config, f'optimization.constraints.{name}')
         if name not in units_of:
-            if name in ('aft_fan_diameter_margin', 'motor_power_margin',
-                        'cable_current_density_margin') and not config.has_aft_fan:
+            if (
+                name
+                in ('aft_fan_diameter_margin', 'motor_power_margin', 'cable_current_density_margin')
+                and not config.has_aft_fan
+            ):
                 continue
             close = difflib.get_close_matches(name, list(units_of), n=1)
             hint = f" (did you mean '{close[0]}'?)" if close else ''
             raise ConfigError(f'not a model output{hint}', **where)
-        if not isinstance(bounds, dict) or not bounds or \
-                set(bounds) - {'lower', 'upper', 'equals'}:
+        if not isinstance(bounds, dict) or not bounds or set(bounds) - {'lower', 'upper', 'equals'}:
             raise ConfigError(f'got {bounds!r}; expected lower, upper and/or equals', **where)
         units = units_of[name]
-        conv = {key: (parse_quantity(val, units, where) if units else _number(val, where))
-                for key, val in bounds.items()}
+        conv = {
+            key: (parse_quantity(val, units, where) if units else _number(val, where))
+            for key, val in bounds.items()
+        }
         out.append(Constraint(name, units=units, **conv))
     return out
 
@@ -240,7 +264,7 @@ class SizingOptimizeDriver(om.ScipyOptimizeDriver):
         model = self._problem().model
         loop = model.sizing
         self.evaluations += 1
-        if self._last_good is not None:   # the loop's states only, not the design variables
+        if self._last_good is not None:  # the loop's states only, not the design variables
             loop._outputs.set_val(self._last_good)
         closed = True
         try:
@@ -258,16 +282,23 @@ class SizingOptimizeDriver(om.ScipyOptimizeDriver):
     def _log(self, closed):
         prob = self._problem()
         paths = {dv.target: dv.path for dv in self.design_variables}
-        objective = float(np.real(list(
-            self.get_objective_values(driver_scaling=False).values())[0][0]))
+        objective = float(
+            np.real(list(self.get_objective_values(driver_scaling=False).values())[0][0])
+        )
         worst = 0.0
         for con in self.spec_constraints:
             value = float(np.real(prob.get_val(con.name, units=con.units)[0]))
             worst = max(worst, con.violation(value))
-        entry = {'evaluation': self.evaluations, 'objective': objective,
-                 'max_violation': worst, 'closed': closed,
-                 'design': {paths.get(name, name): float(np.real(val[0])) for name, val in
-                            self.get_design_var_values(driver_scaling=False).items()}}
+        entry = {
+            'evaluation': self.evaluations,
+            'objective': objective,
+            'max_violation': worst,
+            'closed': closed,
+            'design': {
+                paths.get(name, name): float(np.real(val[0]))
+                for name, val in self.get_design_var_values(driver_scaling=False).items()
+            },
+        }
         self.history.append(entry)
         if self.on_evaluation is not None:
             self.on_evaluation(entry)
@@ -294,8 +325,10 @@ def build_problem(config, overrides=None, recorder_path=None):
     """
     config = load_config(config, overrides)
     if 'optimization.design_variables' not in config.values:
-        raise ConfigError("no 'optimization' section; expected design_variables, "
-                          'constraints and an objective', source=config.source)
+        raise ConfigError(
+            "no 'optimization' section; expected design_variables, constraints and an objective",
+            source=config.source,
+        )
     probe = build_model_problem(config)
     cons = constraints(config, probe)
     dvs = design_variables(config, config.model_inputs())
@@ -305,27 +338,39 @@ def build_problem(config, overrides=None, recorder_path=None):
     if target not in outputs:
         close = difflib.get_close_matches(target, list(outputs), n=1)
         hint = f" (did you mean '{close[0]}'?)" if close else ''
-        raise ConfigError(f'not a model output{hint}',
-                          **_where(config, 'optimization.objective'))
+        raise ConfigError(f'not a model output{hint}', **_where(config, 'optimization.objective'))
     probe, config, note = _closing_start(probe, config, dvs)
     start = abs(float(np.real(probe.get_val(target)[0])))
 
-    driver = SizingOptimizeDriver(optimizer=config.values['optimization.optimizer.method'],
-                                  tol=config.values['optimization.optimizer.tolerance'],
-                                  maxiter=config.values['optimization.optimizer.max_iterations'],
-                                  disp=False)
+    driver = SizingOptimizeDriver(
+        optimizer=config.values['optimization.optimizer.method'],
+        tol=config.values['optimization.optimizer.tolerance'],
+        maxiter=config.values['optimization.optimizer.max_iterations'],
+        disp=False,
+    )
     driver.design_variables, driver.spec_constraints, driver.config = dvs, cons, config
     driver.start_note = note
     prob = om.Problem(AircraftModel(vec_size=1, **config.model_options()), reports=False)
     prob.driver = driver
     for dv in dvs:
-        prob.model.add_design_var(dv.target, lower=dv.lower, upper=dv.upper, units=dv.units,
-                                  ref0=dv.lower if dv.ref0 is None else dv.ref0,
-                                  ref=dv.upper if dv.ref is None else dv.ref)
+        prob.model.add_design_var(
+            dv.target,
+            lower=dv.lower,
+            upper=dv.upper,
+            units=dv.units,
+            ref0=dv.lower if dv.ref0 is None else dv.ref0,
+            ref=dv.upper if dv.ref is None else dv.ref,
+        )
     for con in cons:
         scale = max(abs(b) for b in (con.lower, con.upper, con.equals) if b is not None)
-        prob.model.add_constraint(con.name, lower=con.lower, upper=con.upper,
-                                  equals=con.equals, units=con.units, ref=max(scale, 1.0))
+        prob.model.add_constraint(
+            con.name,
+            lower=con.lower,
+            upper=con.upper,
+            equals=con.equals,
+            units=con.units,
+            ref=max(scale, 1.0),
+        )
     prob.model.add_objective(target, ref=start if start > 0 else 1.0)
     if recorder_path:
         driver.add_recorder(om.SqliteRecorder(recorder_path))
@@ -349,18 +394,28 @@ def _closing_start(probe, config, dvs):
         first = err.message
     values = {dv.path: float(config.values[dv.path]) for dv in dvs}
     for step in (0.25, 0.5, 0.75, 1.0):
-        moved = {dv.path: values[dv.path] + step * (0.5 * (dv.lower + dv.upper)
-                                                     - values[dv.path]) for dv in dvs}
+        moved = {
+            dv.path: values[dv.path] + step * (0.5 * (dv.lower + dv.upper) - values[dv.path])
+            for dv in dvs
+        }
         trial = config.with_overrides(moved)
         probe = build_model_problem(trial)
         try:
             run_sizing(probe, trial.has_aft_fan)
         except NotClosedError:
             continue
-        return probe, trial, (f'the configured start does not close ({first}); started '
-                              f'{100 * step:.0f}% of the way to the centre of the bounds')
-    raise NotClosedError(f'the starting design does not close ({first}), nor does any point '
-                         'between it and the centre of the design-variable bounds')
+        return (
+            probe,
+            trial,
+            (
+                f'the configured start does not close ({first}); started '
+                f'{100 * step:.0f}% of the way to the centre of the bounds'
+            ),
+        )
+    raise NotClosedError(
+        f'the starting design does not close ({first}), nor does any point '
+        'between it and the centre of the design-variable bounds'
+    )
 
 
 def _outputs(prob):
@@ -433,8 +488,10 @@ class OptimizationResult:
 
 def _active(value, lower, upper, tol=1e-4):
     span = max(abs(upper - lower), 1e-12) if lower is not None and upper is not None else 1.0
-    return bool((lower is not None and abs(value - lower) <= tol * max(span, abs(lower)))
-                or (upper is not None and abs(value - upper) <= tol * max(span, abs(upper))))
+    return bool(
+        (lower is not None and abs(value - lower) <= tol * max(span, abs(lower)))
+        or (upper is not None and abs(value - upper) <= tol * max(span, abs(upper)))
+    )
 
 
 def optimize(config=None, overrides=None, recorder_path=None, on_evaluation=None):
@@ -476,18 +533,25 @@ def optimize(config=None, overrides=None, recorder_path=None, on_evaluation=None
         with np.errstate(all='ignore'), contextlib.redirect_stdout(io.StringIO()):
             prob.run_driver()
     except KeyboardInterrupt:
-        prob.cleanup()   # flush and close the case recorder
+        prob.cleanup()  # flush and close the case recorder
         history = list(driver.history)
-        feasible = [e for e in history
-                    if e['closed'] and e['max_violation'] <= FEASIBILITY_TOLERANCE]
+        feasible = [
+            e for e in history if e['closed'] and e['max_violation'] <= FEASIBILITY_TOLERANCE
+        ]
         raise InterruptedRun(
             f'optimisation interrupted after {driver.evaluations} model evaluations',
-            {'status': 'partial', 'success': False,
-             'message': 'interrupted by the user; these results are partial',
-             'history': history, 'evaluations': driver.evaluations,
-             'failed_points': driver.failed_points, 'start': start,
-             'best_feasible': min(feasible, key=lambda e: e['objective']) if feasible
-             else None, 'inputs': config.data}) from None
+            {
+                'status': 'partial',
+                'success': False,
+                'message': 'interrupted by the user; these results are partial',
+                'history': history,
+                'evaluations': driver.evaluations,
+                'failed_points': driver.failed_points,
+                'start': start,
+                'best_feasible': min(feasible, key=lambda e: e['objective']) if feasible else None,
+                'inputs': config.data,
+            },
+        ) from None
     # Final evaluation at the optimiser's last design, from the last converged state.
     driver._run_solve_nonlinear()
     reason = closure_problem(prob, config.has_aft_fan)
@@ -495,31 +559,57 @@ def optimize(config=None, overrides=None, recorder_path=None, on_evaluation=None
     design = {}
     for dv in driver.design_variables:
         value = float(np.real(prob.get_val(dv.target, units=dv.units)[0]))
-        design[dv.path] = {'value': value, 'lower': dv.lower, 'upper': dv.upper,
-                           'units': dv.units, 'active': _active(value, dv.lower, dv.upper)}
+        design[dv.path] = {
+            'value': value,
+            'lower': dv.lower,
+            'upper': dv.upper,
+            'units': dv.units,
+            'active': _active(value, dv.lower, dv.upper),
+        }
     cons, worst = {}, 0.0
     for con in driver.spec_constraints:
         value = float(np.real(prob.get_val(con.name, units=con.units)[0]))
         viol = con.violation(value)
         worst = max(worst, viol)
-        cons[con.name] = {'value': value, 'lower': con.lower, 'upper': con.upper,
-                          'equals': con.equals, 'units': con.units, 'violation': viol,
-                          'active': con.equals is not None
-                          or _active(value, con.lower, con.upper)}
+        cons[con.name] = {
+            'value': value,
+            'lower': con.lower,
+            'upper': con.upper,
+            'equals': con.equals,
+            'units': con.units,
+            'violation': viol,
+            'active': con.equals is not None or _active(value, con.lower, con.upper),
+        }
     message = str(result.message) if result is not None else 'no optimiser result'
     if driver.start_note:
         message += f'; {driver.start_note}'
-    success = bool(result is not None and result.success) and reason is None \
+    success = (
+        bool(result is not None and result.success)
+        and reason is None
         and worst <= FEASIBILITY_TOLERANCE
+    )
     if reason is not None:
         message += f'; final design does not close ({reason})'
     elif worst > FEASIBILITY_TOLERANCE:
         message += f'; final design infeasible (worst relative violation {worst:.3g})'
     outputs = read_fields(prob, config.has_aft_fan) if reason is None else {}
     objective = config.values['optimization.objective']
-    feasible = [e for e in driver.history
-                if e['closed'] and e['max_violation'] <= FEASIBILITY_TOLERANCE]
+    feasible = [
+        e for e in driver.history if e['closed'] and e['max_violation'] <= FEASIBILITY_TOLERANCE
+    ]
     best = min(feasible, key=lambda e: e['objective']) if feasible else None
-    return OptimizationResult(success, message, design, cons, outputs, start,
-                              list(driver.history), driver.failed_points,
-                              driver.evaluations, objective, best, config.data, prob)
+    return OptimizationResult(
+        success,
+        message,
+        design,
+        cons,
+        outputs,
+        start,
+        list(driver.history),
+        driver.failed_points,
+        driver.evaluations,
+        objective,
+        best,
+        config.data,
+        prob,
+    )

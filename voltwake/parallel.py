@@ -37,6 +37,7 @@ def mpi_comm():
         ``COMM_WORLD`` when it has more than one rank, else None.
     """
     from openmdao.utils.mpi import MPI
+
     if MPI is None:
         return None
     comm = MPI.COMM_WORLD
@@ -132,9 +133,9 @@ def map_jobs(func, items, jobs=None, progress=None):
                 counter.add(_failed(results[-1]))
         return results
     results = [None] * len(items)
-    with concurrent.futures.ProcessPoolExecutor(max_workers=min(jobs, len(items)),
-                                                mp_context=_pool_context(),
-                                                initializer=_init_worker) as pool:
+    with concurrent.futures.ProcessPoolExecutor(
+        max_workers=min(jobs, len(items)), mp_context=_pool_context(), initializer=_init_worker
+    ) as pool:
         futures = {pool.submit(_call, func, item): index for index, item in enumerate(items)}
         try:
             for future in concurrent.futures.as_completed(futures):
@@ -197,8 +198,9 @@ def _map_mpi(comm, func, items, progress):
                 while comm.iprobe(source=MPI.ANY_SOURCE, tag=_PROGRESS_TAG):
                     counter.add(comm.recv(source=MPI.ANY_SOURCE, tag=_PROGRESS_TAG))
             else:
-                sends.append(comm.isend(error is not None or _failed(result), dest=0,
-                                        tag=_PROGRESS_TAG))
+                sends.append(
+                    comm.isend(error is not None or _failed(result), dest=0, tag=_PROGRESS_TAG)
+                )
     if rank == 0:
         while counter.done < len(items):
             counter.add(comm.recv(source=MPI.ANY_SOURCE, tag=_PROGRESS_TAG))

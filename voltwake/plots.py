@@ -21,14 +21,22 @@ POWER_BALANCE_RTOL = 1e-6
 #: Relative tolerance of the mass build-up checked by :func:`plot_mass_breakdown`.
 MASS_BALANCE_RTOL = 1e-6
 
-_MASS_PARTS = [('airframe_mass_kg', 'airframe'), ('engines_mass_kg', 'turbofans'),
-               ('aft_fan_mass_kg', 'aft fan'),
-               ('electrical_mass_kg', 'electrical (incl. thermal)'),
-               ('payload_kg', 'payload'), ('total_fuel_kg', 'fuel (trip + reserve)')]
+_MASS_PARTS = [
+    ('airframe_mass_kg', 'airframe'),
+    ('engines_mass_kg', 'turbofans'),
+    ('aft_fan_mass_kg', 'aft fan'),
+    ('electrical_mass_kg', 'electrical (incl. thermal)'),
+    ('payload_kg', 'payload'),
+    ('total_fuel_kg', 'fuel (trip + reserve)'),
+]
 
-_CHAIN = [('generator', 'generator_loss_kW'), ('rectifier', 'rectifier_loss_kW'),
-          ('cable', 'cable_loss_kW'), ('inverter', 'inverter_loss_kW'),
-          ('motor', 'motor_loss_kW')]
+_CHAIN = [
+    ('generator', 'generator_loss_kW'),
+    ('rectifier', 'rectifier_loss_kW'),
+    ('cable', 'cable_loss_kW'),
+    ('inverter', 'inverter_loss_kW'),
+    ('motor', 'motor_loss_kW'),
+]
 
 
 class PlotFile(str):
@@ -136,17 +144,19 @@ def _grid(x, y, z, closed):
     z = np.asarray(z, dtype=float)
     closed = np.asarray(closed, dtype=bool)
     if x.ndim != 1 or y.ndim != 1 or x.size < 2 or y.size < 2:
-        raise ValueError(f'map axes must be 1-D with at least 2 values each; got shapes '
-                         f'{x.shape} and {y.shape}')
+        raise ValueError(
+            f'map axes must be 1-D with at least 2 values each; got shapes {x.shape} and {y.shape}'
+        )
     shape = (y.size, x.size)
     if z.shape != shape or closed.shape != shape:
-        raise ValueError(f'map values and closed flags must have shape (ny, nx) = {shape}; '
-                         f'got {z.shape} and {closed.shape}')
+        raise ValueError(
+            f'map values and closed flags must have shape (ny, nx) = {shape}; '
+            f'got {z.shape} and {closed.shape}'
+        )
     return x, y, z, closed & np.isfinite(z)
 
 
-def _contour_map(x, y, z, closed, x_label, y_label, path, title, bar_label, cmap,
-                 break_even):
+def _contour_map(x, y, z, closed, x_label, y_label, path, title, bar_label, cmap, break_even):
     """
     Draw a filled contour map with failed points masked grey and marked.
 
@@ -185,9 +195,16 @@ def _contour_map(x, y, z, closed, x_label, y_label, path, title, bar_label, cmap
     ax.set_facecolor('0.85')
     details = {'failed_points': failed, 'break_even_drawn': False, 'levels': []}
     if failed == good.size:
-        ax.text(0.5, 0.5, 'no point closed', transform=ax.transAxes, ha='center',
-                va='center', fontsize=14,
-                bbox={'facecolor': 'white', 'edgecolor': 'k'})
+        ax.text(
+            0.5,
+            0.5,
+            'no point closed',
+            transform=ax.transAxes,
+            ha='center',
+            va='center',
+            fontsize=14,
+            bbox={'facecolor': 'white', 'edgecolor': 'k'},
+        )
         ax.set_xlim(x.min(), x.max())
         ax.set_ylim(y.min(), y.max())
     else:
@@ -208,20 +225,37 @@ def _contour_map(x, y, z, closed, x_label, y_label, path, title, bar_label, cmap
                 details['break_even_drawn'] = True
     if failed:
         grid_x, grid_y = np.meshgrid(x, y)
-        ax.plot(grid_x[~good], grid_y[~good], 'x', color='0.3', linestyle='none',
-                label=f'did not close ({failed})')
+        ax.plot(
+            grid_x[~good],
+            grid_y[~good],
+            'x',
+            color='0.3',
+            linestyle='none',
+            label=f'did not close ({failed})',
+        )
     if failed or details['break_even_drawn']:
         ax.legend(loc='best', fontsize=9)
     ax.set_xlabel(x_label)
     ax.set_ylabel(y_label)
-    note = (f'{failed} of {good.size} points did not close' if failed
-            else f'all {good.size} points closed')
+    note = (
+        f'{failed} of {good.size} points did not close'
+        if failed
+        else f'all {good.size} points closed'
+    )
     ax.set_title(f'{title}\n({note})')
     return _save(fig, path, details)
 
 
-def plot_fuel_map(x, y, change_percent, closed, x_label, y_label, path,
-                  title='Fuel-burn change versus the reference'):
+def plot_fuel_map(
+    x,
+    y,
+    change_percent,
+    closed,
+    x_label,
+    y_label,
+    path,
+    title='Fuel-burn change versus the reference',
+):
     """
     Draw a filled contour of the fuel-burn change over two swept quantities.
 
@@ -252,12 +286,22 @@ def plot_fuel_map(x, y, change_percent, closed, x_label, y_label, path,
         The path; ``details`` holds 'failed_points' (int), 'break_even_drawn' (bool)
         and 'levels' (the filled contour levels, percent).
     """
-    return _contour_map(x, y, change_percent, closed, x_label, y_label, path, title,
-                        'fuel-burn change versus the reference [%]', 'RdBu_r', True)
+    return _contour_map(
+        x,
+        y,
+        change_percent,
+        closed,
+        x_label,
+        y_label,
+        path,
+        title,
+        'fuel-burn change versus the reference [%]',
+        'RdBu_r',
+        True,
+    )
 
 
-def plot_psc_map(x, y, psc, closed, x_label, y_label, path,
-                 title='Power saving coefficient'):
+def plot_psc_map(x, y, psc, closed, x_label, y_label, path, title='Power saving coefficient'):
     """
     Draw a filled contour of the power saving coefficient over two swept quantities.
 
@@ -285,8 +329,19 @@ def plot_psc_map(x, y, psc, closed, x_label, y_label, path,
     PlotFile
         The path; ``details`` holds 'failed_points' and 'levels'.
     """
-    return _contour_map(x, y, psc, closed, x_label, y_label, path, title,
-                        'power saving coefficient [-]', 'viridis', False)
+    return _contour_map(
+        x,
+        y,
+        psc,
+        closed,
+        x_label,
+        y_label,
+        path,
+        title,
+        'power saving coefficient [-]',
+        'viridis',
+        False,
+    )
 
 
 def _mass_parts(masses, name):
@@ -309,13 +364,15 @@ def _mass_parts(masses, name):
     if 'mtow_kg' in masses:
         mtow = float(masses['mtow_kg'])
         if abs(mtow - sum(parts)) > MASS_BALANCE_RTOL * abs(mtow):
-            raise ValueError(f'{name}: the mass parts add up to {sum(parts):.6g} kg but '
-                             f'mtow_kg is {mtow:.6g} kg')
+            raise ValueError(
+                f'{name}: the mass parts add up to {sum(parts):.6g} kg but mtow_kg is {mtow:.6g} kg'
+            )
     return parts
 
 
-def plot_mass_breakdown(design, reference, path, design_label='optimum',
-                        reference_label='reference'):
+def plot_mass_breakdown(
+    design, reference, path, design_label='optimum', reference_label='reference'
+):
     """
     Draw stacked bars of the mass breakdown of a design and its reference.
 
@@ -340,8 +397,10 @@ def plot_mass_breakdown(design, reference, path, design_label='optimum',
     PlotFile
         The path; ``details`` holds 'totals_kg' (design, reference).
     """
-    bars = [(design_label, _mass_parts(design, design_label)),
-            (reference_label, _mass_parts(reference, reference_label))]
+    bars = [
+        (design_label, _mass_parts(design, design_label)),
+        (reference_label, _mass_parts(reference, reference_label)),
+    ]
     fig = _new_figure((7.0, 5.5))
     ax = fig.add_subplot()
     positions = np.arange(len(bars))
@@ -381,16 +440,16 @@ def power_chain(outputs):
     list of float
         P_0 ... P_5 in kW.
     """
-    needed = ['turbofan_power_extraction_kW', 'aft_fan_shaft_power_kW'] + \
-        [key for _, key in _CHAIN]
+    needed = ['turbofan_power_extraction_kW', 'aft_fan_shaft_power_kW'] + [key for _, key in _CHAIN]
     missing = [key for key in needed if key not in outputs]
     if missing:
         raise ValueError(f'power flow needs the fields {missing}')
     extraction = float(outputs['turbofan_power_extraction_kW'])
     delivered = float(outputs['aft_fan_shaft_power_kW'])
     if not extraction > 0.0:
-        raise ValueError('no electrical power flow to draw: the turbofan power extraction '
-                         f'is {extraction:g} kW')
+        raise ValueError(
+            f'no electrical power flow to draw: the turbofan power extraction is {extraction:g} kW'
+        )
     powers = [extraction]
     for device, key in _CHAIN:
         loss = float(outputs[key])
@@ -398,10 +457,12 @@ def power_chain(outputs):
             raise ValueError(f'{device} loss is negative ({loss:g} kW)')
         powers.append(powers[-1] - loss)
     if abs(powers[-1] - delivered) > POWER_BALANCE_RTOL * extraction:
-        raise ValueError(f'power balance does not close: extraction {extraction:.6g} kW '
-                         f'minus losses {extraction - powers[-1]:.6g} kW is '
-                         f'{powers[-1]:.6g} kW, but the aft-fan shaft power is '
-                         f'{delivered:.6g} kW')
+        raise ValueError(
+            f'power balance does not close: extraction {extraction:.6g} kW '
+            f'minus losses {extraction - powers[-1]:.6g} kW is '
+            f'{powers[-1]:.6g} kW, but the aft-fan shaft power is '
+            f'{delivered:.6g} kW'
+        )
     return powers
 
 
@@ -437,8 +498,7 @@ def plot_power_flow(outputs, path):
     from matplotlib.patches import FancyBboxPatch
 
     powers = power_chain(outputs)
-    names = ['turbofan shaft\nextraction'] + [device for device, _ in _CHAIN] + \
-        ['aft-fan\nshaft']
+    names = ['turbofan shaft\nextraction'] + [device for device, _ in _CHAIN] + ['aft-fan\nshaft']
     losses = [None] + [float(outputs[key]) for _, key in _CHAIN] + [None]
     fig = _new_figure((14.0, 4.2))
     ax = fig.add_subplot()
@@ -449,23 +509,40 @@ def plot_power_flow(outputs, path):
     for i, (name, loss) in enumerate(zip(names, losses)):
         cx = 2.0 * i
         source_or_sink = loss is None
-        ax.add_patch(FancyBboxPatch((cx - half_w, -half_h), 2 * half_w, 2 * half_h,
-                                    boxstyle='round,pad=0.05',
-                                    facecolor='#cfe3f5' if source_or_sink else '#f3f3f3',
-                                    edgecolor='k'))
+        ax.add_patch(
+            FancyBboxPatch(
+                (cx - half_w, -half_h),
+                2 * half_w,
+                2 * half_h,
+                boxstyle='round,pad=0.05',
+                facecolor='#cfe3f5' if source_or_sink else '#f3f3f3',
+                edgecolor='k',
+            )
+        )
         ax.text(cx, 0.0, name, ha='center', va='center', fontsize=10)
         if not source_or_sink:
-            ax.annotate('', xy=(cx, -1.15), xytext=(cx, -half_h - 0.05),
-                        arrowprops={'arrowstyle': '-|>', 'color': 'tab:red', 'lw': 1.5})
-            ax.text(cx, -1.3, f'loss {loss:,.1f} kW', ha='center', va='top',
-                    color='tab:red', fontsize=9)
+            ax.annotate(
+                '',
+                xy=(cx, -1.15),
+                xytext=(cx, -half_h - 0.05),
+                arrowprops={'arrowstyle': '-|>', 'color': 'tab:red', 'lw': 1.5},
+            )
+            ax.text(
+                cx, -1.3, f'loss {loss:,.1f} kW', ha='center', va='top', color='tab:red', fontsize=9
+            )
     for i, power in enumerate(powers):
         start, end = 2.0 * i + half_w + 0.08, 2.0 * (i + 1) - half_w - 0.08
-        ax.annotate('', xy=(end, 0.0), xytext=(start, 0.0),
-                    arrowprops={'arrowstyle': '-|>', 'color': 'tab:blue',
-                                'lw': 1.0 + 5.0 * power / powers[0]})
-        ax.text(0.5 * (start + end), 0.25, f'{power:,.1f} kW', ha='center', va='bottom',
-                fontsize=9)
+        ax.annotate(
+            '',
+            xy=(end, 0.0),
+            xytext=(start, 0.0),
+            arrowprops={
+                'arrowstyle': '-|>',
+                'color': 'tab:blue',
+                'lw': 1.0 + 5.0 * power / powers[0],
+            },
+        )
+        ax.text(0.5 * (start + end), 0.25, f'{power:,.1f} kW', ha='center', va='bottom', fontsize=9)
     title = 'Electrical power flow (power carried between devices, loss of each device)'
     extra = []
     if 'electrical_chain_efficiency' in outputs:
@@ -510,22 +587,35 @@ def plot_history(history, path, objective_label='objective'):
     fig = _new_figure((8.0, 5.0))
     ax = fig.add_subplot()
     ok = closed & np.isfinite(objective)
-    ax.plot(evals[ok], objective[ok], 'o-', color='tab:blue', markersize=3,
-            label='objective (closed)')
+    ax.plot(
+        evals[ok], objective[ok], 'o-', color='tab:blue', markersize=3, label='objective (closed)'
+    )
     ax.set_xlabel('evaluation')
     ax.set_ylabel(objective_label, color='tab:blue')
     right = ax.twinx()
     shown = np.where(np.isfinite(violation), violation, np.nan)
-    right.semilogy(evals, np.maximum(shown, VIOLATION_FLOOR), 's--', color='tab:orange',
-                   markersize=3, linewidth=1.0, label='worst constraint violation')
-    right.set_ylabel(f'worst constraint violation (floor {VIOLATION_FLOOR:g})',
-                     color='tab:orange')
+    right.semilogy(
+        evals,
+        np.maximum(shown, VIOLATION_FLOOR),
+        's--',
+        color='tab:orange',
+        markersize=3,
+        linewidth=1.0,
+        label='worst constraint violation',
+    )
+    right.set_ylabel(f'worst constraint violation (floor {VIOLATION_FLOOR:g})', color='tab:orange')
     handles = ax.get_legend_handles_labels()[0] + right.get_legend_handles_labels()[0]
     failed = int((~closed).sum())
     if failed:
-        handles += ax.plot(evals[~closed], np.zeros(failed), 'x', color='tab:red',
-                           transform=ax.get_xaxis_transform(), clip_on=False,
-                           label=f'did not close ({failed})')
+        handles += ax.plot(
+            evals[~closed],
+            np.zeros(failed),
+            'x',
+            color='tab:red',
+            transform=ax.get_xaxis_transform(),
+            clip_on=False,
+            label=f'did not close ({failed})',
+        )
     ax.legend(handles=handles, loc='upper right', fontsize=9)
     ax.set_title(f'Optimisation history: {len(history)} evaluations, {failed} did not close')
     return _save(fig, path, {'evaluations': len(history), 'failed': failed})
@@ -564,8 +654,13 @@ def plot_histogram(values, path, x_label, title, vertical_line=0.0):
     share = float(np.mean(finite < vertical_line))
     fig = _new_figure((7.0, 5.0))
     ax = fig.add_subplot()
-    ax.hist(finite, bins=min(40, max(5, int(np.sqrt(finite.size)))), color='tab:blue',
-            edgecolor='white', label=f'{finite.size} samples')
+    ax.hist(
+        finite,
+        bins=min(40, max(5, int(np.sqrt(finite.size)))),
+        color='tab:blue',
+        edgecolor='white',
+        label=f'{finite.size} samples',
+    )
     ax.axvline(vertical_line, color='k', linewidth=2.0, label=f'break-even ({vertical_line:g})')
     ax.set_xlabel(x_label)
     ax.set_ylabel('samples')
@@ -575,8 +670,7 @@ def plot_histogram(values, path, x_label, title, vertical_line=0.0):
         note += f'; {dropped} samples not finite, left out'
     ax.set_title(f'{title}\n({note})')
     ax.legend(fontsize=9)
-    return _save(fig, path, {'share_below': share, 'samples': int(finite.size),
-                             'dropped': dropped})
+    return _save(fig, path, {'share_below': share, 'samples': int(finite.size), 'dropped': dropped})
 
 
 def plot_line(x, ys, x_label, y_label, path, title=None):

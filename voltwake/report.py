@@ -75,8 +75,11 @@ def _text(value):
     if isinstance(value, float):
         return f'{value:.6g}'
     if isinstance(value, list):
-        more = (f' ... ({len(value)} values, first {MAX_LIST_VALUES} shown)'
-                if len(value) > MAX_LIST_VALUES else '')
+        more = (
+            f' ... ({len(value)} values, first {MAX_LIST_VALUES} shown)'
+            if len(value) > MAX_LIST_VALUES
+            else ''
+        )
         if any(isinstance(v, (dict, list)) for v in value):
             return json.dumps(value[:MAX_LIST_VALUES], sort_keys=True) + more
         return '[' + ', '.join(_text(v) for v in value[:MAX_LIST_VALUES]) + ']' + more
@@ -162,8 +165,9 @@ def _key_value_table(flat):
     str
         The table.
     """
-    return _table(['quantity', 'value'],
-                  [[f'<td>{_esc(k)}</td>', _cell(v)] for k, v in flat.items()])
+    return _table(
+        ['quantity', 'value'], [[f'<td>{_esc(k)}</td>', _cell(v)] for k, v in flat.items()]
+    )
 
 
 def _records_table(records):
@@ -185,8 +189,10 @@ def _records_table(records):
     rows = [[_cell(row.get(c)) for c in columns] for row in shown]
     out = _table(columns, rows)
     if len(records) > MAX_ROWS:
-        out += (f'\n<p class="note">First {MAX_ROWS} of {len(records)} rows shown; '
-                'the full list is in the JSON file.</p>')
+        out += (
+            f'\n<p class="note">First {MAX_ROWS} of {len(records)} rows shown; '
+            'the full list is in the JSON file.</p>'
+        )
     return out
 
 
@@ -205,8 +211,11 @@ def _is_design(value):
         Whether it has the shape of the optimum's design variables.
     """
     keys = {'value', 'lower', 'upper', 'active'}
-    return isinstance(value, dict) and bool(value) and all(
-        isinstance(v, dict) and keys <= set(v) for v in value.values())
+    return (
+        isinstance(value, dict)
+        and bool(value)
+        and all(isinstance(v, dict) and keys <= set(v) for v in value.values())
+    )
 
 
 def _is_constraints(value):
@@ -223,8 +232,11 @@ def _is_constraints(value):
     bool
         Whether it has the shape of the optimum's constraints.
     """
-    return isinstance(value, dict) and bool(value) and all(
-        isinstance(v, dict) and 'active' in v for v in value.values())
+    return (
+        isinstance(value, dict)
+        and bool(value)
+        and all(isinstance(v, dict) and 'active' in v for v in value.values())
+    )
 
 
 def _mark(active):
@@ -260,11 +272,20 @@ def _design_section(title, design):
     str
         The section.
     """
-    rows = [[f'<td>{_esc(name)}</td>', _cell(dv['value']), _cell(dv['lower']),
-             _cell(dv['upper']), f"<td>{_esc(dv.get('units') or '')}</td>",
-             _mark(dv['active'])] for name, dv in design.items()]
-    return (f'<h3>{_esc(title)}</h3>\n'
-            + _table(['design variable', 'value', 'lower', 'upper', 'units', 'bound'], rows))
+    rows = [
+        [
+            f'<td>{_esc(name)}</td>',
+            _cell(dv['value']),
+            _cell(dv['lower']),
+            _cell(dv['upper']),
+            f"<td>{_esc(dv.get('units') or '')}</td>",
+            _mark(dv['active']),
+        ]
+        for name, dv in design.items()
+    ]
+    return f'<h3>{_esc(title)}</h3>\n' + _table(
+        ['design variable', 'value', 'lower', 'upper', 'units', 'bound'], rows
+    )
 
 
 def _constraints_section(title, constraints):
@@ -283,15 +304,23 @@ def _constraints_section(title, constraints):
     str
         The section.
     """
-    rows = [[f'<td>{_esc(name)}</td>', _cell(con.get('value')), _cell(con.get('lower')),
-             _cell(con.get('upper')), _cell(con.get('equals')),
-             f"<td>{_esc(con.get('units') or '')}</td>", _mark(con['active'])]
-            for name, con in constraints.items()]
+    rows = [
+        [
+            f'<td>{_esc(name)}</td>',
+            _cell(con.get('value')),
+            _cell(con.get('lower')),
+            _cell(con.get('upper')),
+            _cell(con.get('equals')),
+            f"<td>{_esc(con.get('units') or '')}</td>",
+            _mark(con['active']),
+        ]
+        for name, con in constraints.items()
+    ]
     active = [name for name, con in constraints.items() if con['active']]
     listing = ', '.join(active) if active else 'none'
-    return (f'<h3>{_esc(title)}</h3>\n<p>Active constraints: {_esc(listing)}</p>\n'
-            + _table(['constraint', 'value', 'lower', 'upper', 'equals', 'units', 'active'],
-                     rows))
+    return f'<h3>{_esc(title)}</h3>\n<p>Active constraints: {_esc(listing)}</p>\n' + _table(
+        ['constraint', 'value', 'lower', 'upper', 'equals', 'units', 'active'], rows
+    )
 
 
 def _walk(data, prefix, parts):
@@ -375,8 +404,10 @@ def _figure(path):
     with open(path, 'rb') as handle:
         data = base64.b64encode(handle.read()).decode('ascii')
     caption = os.path.splitext(os.path.basename(path))[0].replace('_', ' ').replace('-', ' ')
-    return (f'<figure><img src="data:image/png;base64,{data}" alt="{_esc(caption)}">'
-            f'<figcaption>{_esc(caption)}</figcaption></figure>')
+    return (
+        f'<figure><img src="data:image/png;base64,{data}" alt="{_esc(caption)}">'
+        f'<figcaption>{_esc(caption)}</figcaption></figure>'
+    )
 
 
 def write_report(results_dir, out_path=None):
@@ -406,8 +437,10 @@ def write_report(results_dir, out_path=None):
     pngs = sorted(glob.glob(os.path.join(glob.escape(results_dir), '*.png')))
     jsons = sorted(glob.glob(os.path.join(glob.escape(results_dir), '*.json')))
     if not pngs and not jsons:
-        raise ConfigError('the results directory holds no results (no .png or .json files)',
-                          source=str(results_dir))
+        raise ConfigError(
+            'the results directory holds no results (no .png or .json files)',
+            source=str(results_dir),
+        )
     out_path = out_path or os.path.join(results_dir, 'report.html')
     if not os.path.isdir(os.path.dirname(os.path.abspath(out_path))):
         raise ConfigError('the directory of the report does not exist', source=str(out_path))
@@ -423,10 +456,26 @@ def write_report(results_dir, out_path=None):
         sections.append('<h2>Figures</h2>\n' + '\n'.join(_figure(p) for p in pngs))
     title = f'voltwake results: {os.path.basename(os.path.abspath(results_dir))}'
     caution = f'<p class="caution">{_esc(CAUTION)}</p>'
-    text = '\n'.join(['<!DOCTYPE html>', '<html lang="en">', '<head>',
-                      '<meta charset="utf-8">', f'<title>{_esc(title)}</title>',
-                      f'<style>{_STYLE}</style>', '</head>', '<body>',
-                      f'<h1>{_esc(title)}</h1>', caution, *sections, caution,
-                      '</body>', '</html>']) + '\n'
+    text = (
+        '\n'.join(
+            [
+                '<!DOCTYPE html>',
+                '<html lang="en">',
+                '<head>',
+                '<meta charset="utf-8">',
+                f'<title>{_esc(title)}</title>',
+                f'<style>{_STYLE}</style>',
+                '</head>',
+                '<body>',
+                f'<h1>{_esc(title)}</h1>',
+                caution,
+                *sections,
+                caution,
+                '</body>',
+                '</html>',
+            ]
+        )
+        + '\n'
+    )
     write_atomic(out_path, text)
     return out_path

@@ -29,13 +29,14 @@ def prepare_out_dir(path, force=False):
     if os.path.exists(path) and not os.path.isdir(path):
         raise ConfigError(f'--out {path!r} exists and is not a directory')
     if os.path.isdir(path) and os.listdir(path) and not force:
-        raise ConfigError(f'--out {path!r} already holds results; expected a new or empty '
-                          'directory (or --force to overwrite)')
+        raise ConfigError(
+            f'--out {path!r} already holds results; expected a new or empty '
+            'directory (or --force to overwrite)'
+        )
     try:
         os.makedirs(path, exist_ok=True)
     except OSError as err:
-        raise ConfigError(f'--out {path!r}: cannot create the directory ({err.strerror})') \
-            from None
+        raise ConfigError(f'--out {path!r}: cannot create the directory ({err.strerror})') from None
     return path
 
 
@@ -75,7 +76,10 @@ def write_results(out_dir, name, data):
     data : dict
         JSON-ready results.
     """
-    write_atomic(os.path.join(out_dir, f'{name}.json'),
-                 json.dumps(data, indent=2, sort_keys=True) + '\n')
-    write_atomic(os.path.join(out_dir, f'{name}.yaml'),
-                 yaml.safe_dump(data, sort_keys=True, default_flow_style=False))
+    write_atomic(
+        os.path.join(out_dir, f'{name}.json'), json.dumps(data, indent=2, sort_keys=True) + '\n'
+    )
+    write_atomic(
+        os.path.join(out_dir, f'{name}.yaml'),
+        yaml.safe_dump(data, sort_keys=True, default_flow_style=False),
+    )

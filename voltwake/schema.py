@@ -71,8 +71,10 @@ _DEVICE = {
 
 
 def _device(name):
-    return {key: Field(f.kind, f.doc, f.units, f.default, f.check, f'{name}_{key}')
-            for key, f in _DEVICE.items()}
+    return {
+        key: Field(f.kind, f.doc, f.units, f.default, f.check, f'{name}_{key}')
+        for key, f in _DEVICE.items()
+    }
 
 
 SECTIONS = {
@@ -81,21 +83,30 @@ SECTIONS = {
         'range': _q('m', 'design range (cruise distance)', 'range'),
         'payload': _q('kg', 'design payload', 'payload'),
         'cruise_mach': _n('cruise Mach number', 'mach', check='open_fraction'),
-        'cruise_altitude': _q('m', 'cruise altitude (geopotential, ISA), 0 to 20 km',
-                              'altitude', check='isa_altitude'),
-        'takeoff_fraction': _n('mass fraction over engine start, taxi and take-off',
-                               'takeoff_fraction', check='fraction'),
+        'cruise_altitude': _q(
+            'm', 'cruise altitude (geopotential, ISA), 0 to 20 km', 'altitude', check='isa_altitude'
+        ),
+        'takeoff_fraction': _n(
+            'mass fraction over engine start, taxi and take-off',
+            'takeoff_fraction',
+            check='fraction',
+        ),
         'climb_fraction': _n('mass fraction over the climb', 'climb_fraction', check='fraction'),
-        'landing_fraction': _n('mass fraction over descent, landing and taxi',
-                               'landing_fraction', check='fraction'),
+        'landing_fraction': _n(
+            'mass fraction over descent, landing and taxi', 'landing_fraction', check='fraction'
+        ),
     },
     'reserves': {
-        'diversion_range': _q('m', 'distance to the alternate aerodrome', 'diversion_range',
-                              check='nonnegative'),
+        'diversion_range': _q(
+            'm', 'distance to the alternate aerodrome', 'diversion_range', check='nonnegative'
+        ),
         'hold_time': _q('s', 'holding time', 'hold_time', check='nonnegative'),
         'hold_speed': _q('m/s', 'true airspeed in the hold', 'hold_speed'),
-        'contingency_fraction': _n('contingency fuel as a fraction of trip fuel',
-                                   'contingency_fraction', check='unit_fraction'),
+        'contingency_fraction': _n(
+            'contingency fuel as a fraction of trip fuel',
+            'contingency_fraction',
+            check='unit_fraction',
+        ),
     },
     'fuel': {
         'heating_value': _q('J/kg', 'lower heating value of the fuel', 'fuel_heating_value'),
@@ -107,43 +118,68 @@ SECTIONS = {
     },
     'fuselage': {
         'diameter': _q('m', 'maximum fuselage diameter', 'fuselage_diameter'),
-        'fineness_ratio': _n('fuselage length / diameter (above 2 for the wetted-area formula)',
-                             'fuselage_fineness_ratio', check='above_two'),
-        'interference_factor': _n('interference factor of the fuselage drag',
-                                  'fuselage_interference_factor', default=1.0),
+        'fineness_ratio': _n(
+            'fuselage length / diameter (above 2 for the wetted-area formula)',
+            'fuselage_fineness_ratio',
+            check='above_two',
+        ),
+        'interference_factor': _n(
+            'interference factor of the fuselage drag', 'fuselage_interference_factor', default=1.0
+        ),
     },
     'drag': {
-        'cd0_other': _n('zero-lift drag coefficient of wing, tails and the rest (on wing area)',
-                        'cd0_other', check='nonnegative'),
+        'cd0_other': _n(
+            'zero-lift drag coefficient of wing, tails and the rest (on wing area)',
+            'cd0_other',
+            check='nonnegative',
+        ),
     },
     'structure': {
-        'airframe_mass_coefficient': _n('c in airframe mass = c * MTOW**k (kg)',
-                                        'airframe_mass_coefficient'),
-        'airframe_mass_exponent': _n('k in airframe mass = c * MTOW**k (kg)',
-                                     'airframe_mass_exponent'),
+        'airframe_mass_coefficient': _n(
+            'c in airframe mass = c * MTOW**k (kg)', 'airframe_mass_coefficient'
+        ),
+        'airframe_mass_exponent': _n(
+            'k in airframe mass = c * MTOW**k (kg)', 'airframe_mass_exponent'
+        ),
     },
     'turbofans': {
-        'count': Field('integer', 'number of under-wing turbofans', default=2,
-                       check='at_least_one'),
-        'fan_pressure_ratio': _n('fan pressure ratio', 'turbofan_fan_pressure_ratio',
-                                 check='above_one'),
-        'fan_efficiency': _n('fan isentropic efficiency', 'turbofan_fan_efficiency',
-                             check='fraction'),
-        'fan_face_mach': _n('axial Mach number at the fan face', 'turbofan_fan_face_mach',
-                            check='open_fraction'),
-        'hub_to_tip_ratio': _n('fan hub-to-tip radius ratio', 'turbofan_hub_to_tip_ratio',
-                               check='unit_fraction'),
-        'core_thermal_efficiency': _n('core shaft power delivered / fuel power',
-                                      'core_thermal_efficiency', check='fraction'),
-        'rated_to_cruise_thrust': _n('rated sea-level static thrust / cruise thrust',
-                                     'rated_to_cruise_thrust', check='at_least_one'),
+        'count': Field(
+            'integer', 'number of under-wing turbofans', default=2, check='at_least_one'
+        ),
+        'fan_pressure_ratio': _n(
+            'fan pressure ratio', 'turbofan_fan_pressure_ratio', check='above_one'
+        ),
+        'fan_efficiency': _n(
+            'fan isentropic efficiency', 'turbofan_fan_efficiency', check='fraction'
+        ),
+        'fan_face_mach': _n(
+            'axial Mach number at the fan face', 'turbofan_fan_face_mach', check='open_fraction'
+        ),
+        'hub_to_tip_ratio': _n(
+            'fan hub-to-tip radius ratio', 'turbofan_hub_to_tip_ratio', check='unit_fraction'
+        ),
+        'core_thermal_efficiency': _n(
+            'core shaft power delivered / fuel power', 'core_thermal_efficiency', check='fraction'
+        ),
+        'rated_to_cruise_thrust': _n(
+            'rated sea-level static thrust / cruise thrust',
+            'rated_to_cruise_thrust',
+            check='at_least_one',
+        ),
         'thrust_to_weight': _n('rated thrust / installed engine weight', 'thrust_to_weight'),
-        'nacelle_diameter_ratio': _n('nacelle maximum diameter / fan diameter',
-                                     'turbofan_nacelle_diameter_ratio', check='at_least_one'),
-        'nacelle_fineness_ratio': _n('nacelle length / nacelle diameter',
-                                     'turbofan_nacelle_fineness_ratio'),
-        'nacelle_interference_factor': _n('interference factor of the nacelle drag',
-                                          'turbofan_nacelle_interference_factor', default=1.3),
+        'nacelle_diameter_ratio': _n(
+            'nacelle maximum diameter / fan diameter',
+            'turbofan_nacelle_diameter_ratio',
+            check='at_least_one',
+        ),
+        'nacelle_fineness_ratio': _n(
+            'nacelle length / nacelle diameter', 'turbofan_nacelle_fineness_ratio'
+        ),
+        'nacelle_interference_factor': _n(
+            'interference factor of the nacelle drag',
+            'turbofan_nacelle_interference_factor',
+            default=1.3,
+        ),
     },
 }
 
@@ -153,58 +189,105 @@ OPTIONAL_SECTIONS = {'aft_fan', 'electrical', 'optimization', 'solver', 'perform
 DEFAULTED_SECTIONS = {'solver', 'performance'}
 
 SECTIONS['performance'] = {
-    'takeoff_max_lift_coefficient': _n('maximum lift coefficient, take-off configuration',
-                                       'takeoff_max_lift_coefficient', default=2.2),
-    'landing_max_lift_coefficient': _n('maximum lift coefficient, landing configuration',
-                                       'landing_max_lift_coefficient', default=2.7),
-    'buffet_lift_coefficient': _n('buffet-onset lift coefficient at the cruise Mach number',
-                                  'buffet_lift_coefficient', default=0.8),
-    'buffet_margin_load_factor': _n('load factor to buffet onset to be kept at cruise',
-                                    'buffet_margin_load_factor', default=1.3,
-                                    check='at_least_one'),
-    'residual_climb_rate': _q('m/s', 'rate of climb still available at top of climb',
-                              'residual_climb_rate', check='nonnegative', default=1.524),
-    'throttle_ratio': _n('engine throttle ratio of the thrust-lapse model', 'throttle_ratio',
-                         default=1.05, check='at_least_one'),
-    'aft_fan_max_diameter_ratio': _n('largest aft-fan diameter / maximum fuselage diameter',
-                                     'aft_fan_max_diameter_ratio', default=0.6),
-    'motor_power_limit': _q('W', 'largest rated power of one aft-fan motor',
-                            'motor_power_limit', default=4.0e6),
+    'takeoff_max_lift_coefficient': _n(
+        'maximum lift coefficient, take-off configuration',
+        'takeoff_max_lift_coefficient',
+        default=2.2,
+    ),
+    'landing_max_lift_coefficient': _n(
+        'maximum lift coefficient, landing configuration',
+        'landing_max_lift_coefficient',
+        default=2.7,
+    ),
+    'buffet_lift_coefficient': _n(
+        'buffet-onset lift coefficient at the cruise Mach number',
+        'buffet_lift_coefficient',
+        default=0.8,
+    ),
+    'buffet_margin_load_factor': _n(
+        'load factor to buffet onset to be kept at cruise',
+        'buffet_margin_load_factor',
+        default=1.3,
+        check='at_least_one',
+    ),
+    'residual_climb_rate': _q(
+        'm/s',
+        'rate of climb still available at top of climb',
+        'residual_climb_rate',
+        check='nonnegative',
+        default=1.524,
+    ),
+    'throttle_ratio': _n(
+        'engine throttle ratio of the thrust-lapse model',
+        'throttle_ratio',
+        default=1.05,
+        check='at_least_one',
+    ),
+    'aft_fan_max_diameter_ratio': _n(
+        'largest aft-fan diameter / maximum fuselage diameter',
+        'aft_fan_max_diameter_ratio',
+        default=0.6,
+    ),
+    'motor_power_limit': _q(
+        'W', 'largest rated power of one aft-fan motor', 'motor_power_limit', default=4.0e6
+    ),
 }
 
 SECTIONS['aft_fan'] = {
-    'thrust_fraction': _n('share of the cruise net thrust produced by the aft fan',
-                          'aft_thrust_fraction', check='unit_fraction'),
-    'fan_pressure_ratio': _n('aft-fan pressure ratio', 'aft_fan_pressure_ratio',
-                             check='above_one'),
-    'fan_efficiency': _n('aft-fan isentropic efficiency', 'aft_fan_efficiency',
-                         check='fraction'),
-    'fan_face_mach': _n('axial Mach number at the aft-fan face', 'aft_fan_face_mach',
-                        check='open_fraction'),
-    'hub_to_tip_ratio': _n('aft-fan hub-to-tip radius ratio', 'aft_fan_hub_to_tip_ratio',
-                           check='unit_fraction'),
-    'station_diameter_ratio': _n('fuselage diameter at the fan station / maximum diameter',
-                                 'station_diameter_ratio', check='fraction'),
-    'profile_exponent': Field('number', 'n of the power-law boundary-layer profile (1 or '
-                              'more; 1 is the linear profile)', default=7.0,
-                              check='at_least_one'),
-    'fan_areal_mass': _q('kg/m**2', 'fan, casing and shaft mass per fan face area',
-                         'aft_fan_areal_mass'),
-    'nacelle_areal_mass': _q('kg/m**2', 'aft nacelle mass per wetted area',
-                             'aft_nacelle_areal_mass'),
-    'structure_fraction': _n('extra tail-cone structure / (fan + nacelle mass)',
-                             'aft_structure_fraction', check='nonnegative'),
-    'nacelle_diameter_ratio': _n('aft nacelle diameter / fan diameter',
-                                 'aft_nacelle_diameter_ratio', check='at_least_one'),
-    'nacelle_fineness_ratio': _n('aft nacelle length / nacelle diameter',
-                                 'aft_nacelle_fineness_ratio'),
-    'nacelle_interference_factor': _n('interference factor of the aft nacelle drag',
-                                      'aft_nacelle_interference_factor', default=1.0),
+    'thrust_fraction': _n(
+        'share of the cruise net thrust produced by the aft fan',
+        'aft_thrust_fraction',
+        check='unit_fraction',
+    ),
+    'fan_pressure_ratio': _n('aft-fan pressure ratio', 'aft_fan_pressure_ratio', check='above_one'),
+    'fan_efficiency': _n('aft-fan isentropic efficiency', 'aft_fan_efficiency', check='fraction'),
+    'fan_face_mach': _n(
+        'axial Mach number at the aft-fan face', 'aft_fan_face_mach', check='open_fraction'
+    ),
+    'hub_to_tip_ratio': _n(
+        'aft-fan hub-to-tip radius ratio', 'aft_fan_hub_to_tip_ratio', check='unit_fraction'
+    ),
+    'station_diameter_ratio': _n(
+        'fuselage diameter at the fan station / maximum diameter',
+        'station_diameter_ratio',
+        check='fraction',
+    ),
+    'profile_exponent': Field(
+        'number',
+        'n of the power-law boundary-layer profile (1 or more; 1 is the linear profile)',
+        default=7.0,
+        check='at_least_one',
+    ),
+    'fan_areal_mass': _q(
+        'kg/m**2', 'fan, casing and shaft mass per fan face area', 'aft_fan_areal_mass'
+    ),
+    'nacelle_areal_mass': _q(
+        'kg/m**2', 'aft nacelle mass per wetted area', 'aft_nacelle_areal_mass'
+    ),
+    'structure_fraction': _n(
+        'extra tail-cone structure / (fan + nacelle mass)',
+        'aft_structure_fraction',
+        check='nonnegative',
+    ),
+    'nacelle_diameter_ratio': _n(
+        'aft nacelle diameter / fan diameter', 'aft_nacelle_diameter_ratio', check='at_least_one'
+    ),
+    'nacelle_fineness_ratio': _n(
+        'aft nacelle length / nacelle diameter', 'aft_nacelle_fineness_ratio'
+    ),
+    'nacelle_interference_factor': _n(
+        'interference factor of the aft nacelle drag',
+        'aft_nacelle_interference_factor',
+        default=1.0,
+    ),
 }
 
 SECTIONS['electrical'] = {
-    'sizing_factor': _n('rated power / cruise power of the electrical devices',
-                        'electrical_sizing_factor', check='at_least_one'),
+    'sizing_factor': _n(
+        'rated power / cruise power of the electrical devices',
+        'electrical_sizing_factor',
+        check='at_least_one',
+    ),
     'generator': _device('generator'),
     'rectifier': _device('rectifier'),
     'inverter': _device('inverter'),
@@ -212,41 +295,63 @@ SECTIONS['electrical'] = {
     'cable': {
         'voltage': _q('V', 'DC bus voltage', 'cable_voltage'),
         'length': _q('m', 'one-way cable length from generators to motor', 'cable_length'),
-        'conductor': Field('choice', 'conductor material', default='copper',
-                           choices=tuple(CONDUCTORS)),
-        'current_density_limit': _q('A/m**2', 'conductor current density at rated current',
-                                    'cable_current_density_limit'),
-        'mass_factor': _n('cable mass / conductor mass (insulation, shield, supports)',
-                          'cable_mass_factor', check='at_least_one'),
+        'conductor': Field(
+            'choice', 'conductor material', default='copper', choices=tuple(CONDUCTORS)
+        ),
+        'current_density_limit': _q(
+            'A/m**2', 'conductor current density at rated current', 'cable_current_density_limit'
+        ),
+        'mass_factor': _n(
+            'cable mass / conductor mass (insulation, shield, supports)',
+            'cable_mass_factor',
+            check='at_least_one',
+        ),
     },
     'thermal': {
-        'specific_mass': _q('kg/W', 'thermal-management mass per unit heat load',
-                            'thermal_specific_mass', check='nonnegative'),
-        'drag_per_power': _q('N/W', 'drag penalty per unit heat rejected',
-                             'thermal_drag_per_power', check='nonnegative', default=0.0),
+        'specific_mass': _q(
+            'kg/W',
+            'thermal-management mass per unit heat load',
+            'thermal_specific_mass',
+            check='nonnegative',
+        ),
+        'drag_per_power': _q(
+            'N/W',
+            'drag penalty per unit heat rejected',
+            'thermal_drag_per_power',
+            check='nonnegative',
+            default=0.0,
+        ),
     },
 }
 
 SECTIONS['optimization'] = {
-    'objective': Field('text', 'model output to minimise: block_fuel, mtow, block_energy or '
-                       'any scalar model output', default='block_fuel'),
+    'objective': Field(
+        'text',
+        'model output to minimise: block_fuel, mtow, block_energy or any scalar model output',
+        default='block_fuel',
+    ),
     'design_variables': Field('mapping', 'config key path -> {lower, upper[, scaler]}'),
-    'constraints': Field('mapping', 'model output -> {lower | upper | equals}',
-                         default={}),
+    'constraints': Field('mapping', 'model output -> {lower | upper | equals}', default={}),
     'optimizer': {
-        'method': Field('choice', 'SciPy optimizer', default='SLSQP',
-                        choices=('SLSQP', 'trust-constr')),
+        'method': Field(
+            'choice', 'SciPy optimizer', default='SLSQP', choices=('SLSQP', 'trust-constr')
+        ),
         'tolerance': _n('optimizer convergence tolerance', None, default=1e-8),
-        'max_iterations': Field('integer', 'optimizer iteration limit', default=100,
-                                check='at_least_one'),
+        'max_iterations': Field(
+            'integer', 'optimizer iteration limit', default=100, check='at_least_one'
+        ),
     },
 }
 
-SECTIONS['study'] = Field('mapping', 'trade study for voltwake sweep: map, targets, breakeven '
-                          'and/or uncertainty (see README)', default={})
+SECTIONS['study'] = Field(
+    'mapping',
+    'trade study for voltwake sweep: map, targets, breakeven and/or uncertainty (see README)',
+    default={},
+)
 
 SECTIONS['solver'] = {
-    'max_iterations': Field('integer', 'Newton iteration limit of the sizing loop',
-                            default=30, check='at_least_one'),
+    'max_iterations': Field(
+        'integer', 'Newton iteration limit of the sizing loop', default=30, check='at_least_one'
+    ),
     'tolerance': _n('relative residual tolerance of the sizing loop', None, default=1e-10),
 }

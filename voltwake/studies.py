@@ -18,11 +18,21 @@ from .errors import ConfigError
 
 #: Fields written for every point of a study, with their units for the CSV header.
 POINT_FIELDS = {
-    'block_fuel_kg': 'kg', 'total_fuel_kg': 'kg', 'mtow_kg': 'kg', 'oew_kg': 'kg',
-    'cruise_lift_to_drag': '-', 'tsfc_g_per_kN_s': 'g/(kN*s)', 'overall_efficiency': '-',
-    'power_saving_coefficient': '-', 'aft_fan_diameter_m': 'm', 'aft_fan_shaft_power_kW': 'kW',
-    'electrical_mass_kg': 'kg', 'aft_fan_mass_kg': 'kg', 'engines_mass_kg': 'kg',
-    'electrical_chain_efficiency': '-', 'capture_height_m': 'm',
+    'block_fuel_kg': 'kg',
+    'total_fuel_kg': 'kg',
+    'mtow_kg': 'kg',
+    'oew_kg': 'kg',
+    'cruise_lift_to_drag': '-',
+    'tsfc_g_per_kN_s': 'g/(kN*s)',
+    'overall_efficiency': '-',
+    'power_saving_coefficient': '-',
+    'aft_fan_diameter_m': 'm',
+    'aft_fan_shaft_power_kW': 'kW',
+    'electrical_mass_kg': 'kg',
+    'aft_fan_mass_kg': 'kg',
+    'engines_mass_kg': 'kg',
+    'electrical_chain_efficiency': '-',
+    'capture_height_m': 'm',
 }
 
 
@@ -51,10 +61,14 @@ def parse_axis(text, count_required=True):
     path = path.strip()
     field = field_at(path)
     if field is None or not field.target:
-        raise ConfigError('not a model input; expected a config key path such as '
-                          "'aft_fan.thrust_fraction'", **where)
-    lower, upper = (parse_quantity(p.strip(), field.units, where) if field.units
-                    else _float(p, where) for p in parts[:2])
+        raise ConfigError(
+            'not a model input; expected a config key path such as \'aft_fan.thrust_fraction\'',
+            **where,
+        )
+    lower, upper = (
+        parse_quantity(p.strip(), field.units, where) if field.units else _float(p, where)
+        for p in parts[:2]
+    )
     count = None
     if len(parts) == 3:
         try:
@@ -92,8 +106,9 @@ def _rows(batch, reference):
         for key in POINT_FIELDS:
             row[key] = float(batch.values[key][i])
         fuel = row['block_fuel_kg']
-        row['fuel_burn_change_percent'] = (100.0 * (fuel - ref_fuel) / ref_fuel
-                                           if row['closed'] else float('nan'))
+        row['fuel_burn_change_percent'] = (
+            100.0 * (fuel - ref_fuel) / ref_fuel if row['closed'] else float('nan')
+        )
         rows.append(row)
     return rows
 
@@ -119,10 +134,15 @@ def design_space_map(config, axes):
     config = load_config(config)
     batch = analyze_points(config, full_factorial(axes), list(POINT_FIELDS))
     reference = _reference(config)
-    return {'kind': 'map', 'axes': {p: [float(v) for v in vals] for p, vals in axes.items()},
-            'points': _rows(batch, reference), 'reference': reference,
-            'closure_rate': batch.closure_rate, 'recovered': batch.recovered,
-            'design': config.name}
+    return {
+        'kind': 'map',
+        'axes': {p: [float(v) for v in vals] for p, vals in axes.items()},
+        'points': _rows(batch, reference),
+        'reference': reference,
+        'closure_rate': batch.closure_rate,
+        'recovered': batch.recovered,
+        'design': config.name,
+    }
 
 
 def sample_distributions(distributions, samples, seed):
@@ -153,20 +173,28 @@ def sample_distributions(distributions, samples, seed):
         if field is None or not field.target:
             raise ConfigError('not a model input; expected a config key path', **where)
         if not isinstance(spec, dict) or len(spec) != 1:
-            raise ConfigError(f'got {spec!r}; expected {{uniform: [lo, hi]}} or '
-                              '{triangular: [lo, mode, hi]}', **where)
-        (kind, params), = spec.items()
+            raise ConfigError(
+                f'got {spec!r}; expected {{uniform: [lo, hi]}} or {{triangular: [lo, mode, hi]}}',
+                **where,
+            )
+        ((kind, params),) = spec.items()
         sizes = {'uniform': 2, 'triangular': 3}
         if kind not in sizes or not isinstance(params, list) or len(params) != sizes[kind]:
-            raise ConfigError(f'got {spec!r}; expected {{uniform: [lo, hi]}} or '
-                              '{triangular: [lo, mode, hi]}', **where)
-        vals = [parse_quantity(p, field.units, where) if field.units else _float(p, where)
-                for p in params]
+            raise ConfigError(
+                f'got {spec!r}; expected {{uniform: [lo, hi]}} or {{triangular: [lo, mode, hi]}}',
+                **where,
+            )
+        vals = [
+            parse_quantity(p, field.units, where) if field.units else _float(p, where)
+            for p in params
+        ]
         if vals != sorted(vals) or vals[0] == vals[-1]:
-            raise ConfigError(f'got {params!r}; expected lo < hi (and lo <= mode <= hi)',
-                              **where)
-        out[path] = (rng.uniform(vals[0], vals[1], samples) if kind == 'uniform'
-                     else rng.triangular(vals[0], vals[1], vals[2], samples))
+            raise ConfigError(f'got {params!r}; expected lo < hi (and lo <= mode <= hi)', **where)
+        out[path] = (
+            rng.uniform(vals[0], vals[1], samples)
+            if kind == 'uniform'
+            else rng.triangular(vals[0], vals[1], vals[2], samples)
+        )
     return out
 
 
@@ -194,8 +222,10 @@ def monte_carlo(config, distributions, samples=1000, seed=1):
     """
     config = load_config(config)
     if not config.has_aft_fan:
-        raise ConfigError('a Monte Carlo study needs a turbo-electric design (aft_fan section)',
-                          source=config.source)
+        raise ConfigError(
+            'a Monte Carlo study needs a turbo-electric design (aft_fan section)',
+            source=config.source,
+        )
     columns = sample_distributions(distributions, samples, seed)
     batch = analyze_points(config, columns, list(POINT_FIELDS))
     reference = _reference(config)
@@ -203,15 +233,25 @@ def monte_carlo(config, distributions, samples=1000, seed=1):
     change = np.array([r['fuel_burn_change_percent'] for r in rows if r['closed']])
     stats = {}
     if change.size:
-        stats = {'mean': float(change.mean()), 'std': float(change.std(ddof=1))
-                 if change.size > 1 else 0.0,
-                 'p05': float(np.percentile(change, 5)), 'p50': float(np.percentile(change, 50)),
-                 'p95': float(np.percentile(change, 95))}
-    return {'kind': 'montecarlo', 'samples': samples, 'seed': seed,
-            'distributions': distributions, 'points': rows, 'reference': reference,
-            'fuel_burn_change_percent': stats,
-            'probability_of_win': float(np.mean(change < 0.0)) if change.size else float('nan'),
-            'closure_rate': batch.closure_rate, 'design': config.name}
+        stats = {
+            'mean': float(change.mean()),
+            'std': float(change.std(ddof=1)) if change.size > 1 else 0.0,
+            'p05': float(np.percentile(change, 5)),
+            'p50': float(np.percentile(change, 50)),
+            'p95': float(np.percentile(change, 95)),
+        }
+    return {
+        'kind': 'montecarlo',
+        'samples': samples,
+        'seed': seed,
+        'distributions': distributions,
+        'points': rows,
+        'reference': reference,
+        'fuel_burn_change_percent': stats,
+        'probability_of_win': float(np.mean(change < 0.0)) if change.size else float('nan'),
+        'closure_rate': batch.closure_rate,
+        'design': config.name,
+    }
 
 
 def points_csv(rows, units=None):
@@ -233,9 +273,12 @@ def points_csv(rows, units=None):
     if not rows:
         return ''
     columns = list(rows[0])
-    units = {**POINT_FIELDS, 'fuel_burn_change_percent': '%',
-             **{c: (field_at(c).units or '-') for c in columns if field_at(c) is not None},
-             **(units or {})}
+    units = {
+        **POINT_FIELDS,
+        'fuel_burn_change_percent': '%',
+        **{c: (field_at(c).units or '-') for c in columns if field_at(c) is not None},
+        **(units or {}),
+    }
     buf = io.StringIO()
     writer = csv.writer(buf, lineterminator='\n')
     writer.writerow([f'{c} [{units[c]}]' if units.get(c) else c for c in columns])

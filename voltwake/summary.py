@@ -1,40 +1,67 @@
 """Plain-text summaries of results for the terminal."""
 
-CAUTION = ('Conceptual estimates only: not for certification, flight or operational decisions; '
-           'defer to the applicable airworthiness regulations and licensed engineering practice.')
+CAUTION = (
+    'Conceptual estimates only: not for certification, flight or operational decisions; '
+    'defer to the applicable airworthiness regulations and licensed engineering practice.'
+)
 
 _ROWS = [
-    ('Masses', [('MTOW', 'mtow_kg', 'kg', '{:,.0f}'), ('OEW', 'oew_kg', 'kg', '{:,.0f}'),
-                ('  airframe', 'airframe_mass_kg', 'kg', '{:,.0f}'),
-                ('  propulsion', 'propulsion_mass_kg', 'kg', '{:,.0f}'),
-                ('    turbofans', 'engines_mass_kg', 'kg', '{:,.0f}'),
-                ('    aft fan', 'aft_fan_mass_kg', 'kg', '{:,.0f}'),
-                ('    electrical (incl. thermal)', 'electrical_mass_kg', 'kg', '{:,.0f}'),
-                ('Payload', 'payload_kg', 'kg', '{:,.0f}')]),
-    ('Fuel', [('Block (trip) fuel', 'block_fuel_kg', 'kg', '{:,.0f}'),
-              ('Reserve fuel', 'reserve_fuel_kg', 'kg', '{:,.0f}'),
-              ('Total fuel', 'total_fuel_kg', 'kg', '{:,.0f}'),
-              ('Block energy', 'block_energy_MJ', 'MJ', '{:,.0f}')]),
-    ('Cruise', [('Lift coefficient', 'cruise_cl', '', '{:.4f}'),
-                ('Lift-to-drag ratio', 'cruise_lift_to_drag', '', '{:.3f}'),
-                ('Drag', 'cruise_drag_kN', 'kN', '{:.3f}'),
-                ('TSFC', 'tsfc_g_per_kN_s', 'g/(kN s)', '{:.3f}'),
-                ('Overall efficiency', 'overall_efficiency', '', '{:.4f}'),
-                ('Wing span', 'wingspan_m', 'm', '{:.2f}')]),
-    ('Turbofans (each)', [('Fan diameter', 'turbofan_fan_diameter_m', 'm', '{:.3f}'),
-                          ('Cruise net thrust', 'turbofan_cruise_thrust_kN', 'kN', '{:.3f}'),
-                          ('Rated thrust', 'turbofan_rated_thrust_kN', 'kN', '{:.2f}')]),
-    ('Aft fan and electrical chain', [
-        ('Thrust fraction', 'aft_thrust_fraction', '', '{:.4f}'),
-        ('Power saving coefficient', 'power_saving_coefficient', '', '{:.4f}'),
-        ('Shaft power', 'aft_fan_shaft_power_kW', 'kW', '{:,.1f}'),
-        ('Fan diameter', 'aft_fan_diameter_m', 'm', '{:.3f}'),
-        ('Capture height', 'capture_height_m', 'm', '{:.4f}'),
-        ('Boundary-layer thickness', 'boundary_layer_thickness_m', 'm', '{:.4f}'),
-        ('Turbofan power extraction', 'turbofan_power_extraction_kW', 'kW', '{:,.1f}'),
-        ('Chain efficiency', 'electrical_chain_efficiency', '', '{:.4f}'),
-        ('Thermal load', 'thermal_load_kW', 'kW', '{:,.1f}'),
-        ('Cable current', 'cable_current_A', 'A', '{:,.1f}')]),
+    (
+        'Masses',
+        [
+            ('MTOW', 'mtow_kg', 'kg', '{:,.0f}'),
+            ('OEW', 'oew_kg', 'kg', '{:,.0f}'),
+            ('  airframe', 'airframe_mass_kg', 'kg', '{:,.0f}'),
+            ('  propulsion', 'propulsion_mass_kg', 'kg', '{:,.0f}'),
+            ('    turbofans', 'engines_mass_kg', 'kg', '{:,.0f}'),
+            ('    aft fan', 'aft_fan_mass_kg', 'kg', '{:,.0f}'),
+            ('    electrical (incl. thermal)', 'electrical_mass_kg', 'kg', '{:,.0f}'),
+            ('Payload', 'payload_kg', 'kg', '{:,.0f}'),
+        ],
+    ),
+    (
+        'Fuel',
+        [
+            ('Block (trip) fuel', 'block_fuel_kg', 'kg', '{:,.0f}'),
+            ('Reserve fuel', 'reserve_fuel_kg', 'kg', '{:,.0f}'),
+            ('Total fuel', 'total_fuel_kg', 'kg', '{:,.0f}'),
+            ('Block energy', 'block_energy_MJ', 'MJ', '{:,.0f}'),
+        ],
+    ),
+    (
+        'Cruise',
+        [
+            ('Lift coefficient', 'cruise_cl', '', '{:.4f}'),
+            ('Lift-to-drag ratio', 'cruise_lift_to_drag', '', '{:.3f}'),
+            ('Drag', 'cruise_drag_kN', 'kN', '{:.3f}'),
+            ('TSFC', 'tsfc_g_per_kN_s', 'g/(kN s)', '{:.3f}'),
+            ('Overall efficiency', 'overall_efficiency', '', '{:.4f}'),
+            ('Wing span', 'wingspan_m', 'm', '{:.2f}'),
+        ],
+    ),
+    (
+        'Turbofans (each)',
+        [
+            ('Fan diameter', 'turbofan_fan_diameter_m', 'm', '{:.3f}'),
+            ('Cruise net thrust', 'turbofan_cruise_thrust_kN', 'kN', '{:.3f}'),
+            ('Rated thrust', 'turbofan_rated_thrust_kN', 'kN', '{:.2f}'),
+        ],
+    ),
+    (
+        'Aft fan and electrical chain',
+        [
+            ('Thrust fraction', 'aft_thrust_fraction', '', '{:.4f}'),
+            ('Power saving coefficient', 'power_saving_coefficient', '', '{:.4f}'),
+            ('Shaft power', 'aft_fan_shaft_power_kW', 'kW', '{:,.1f}'),
+            ('Fan diameter', 'aft_fan_diameter_m', 'm', '{:.3f}'),
+            ('Capture height', 'capture_height_m', 'm', '{:.4f}'),
+            ('Boundary-layer thickness', 'boundary_layer_thickness_m', 'm', '{:.4f}'),
+            ('Turbofan power extraction', 'turbofan_power_extraction_kW', 'kW', '{:,.1f}'),
+            ('Chain efficiency', 'electrical_chain_efficiency', '', '{:.4f}'),
+            ('Thermal load', 'thermal_load_kW', 'kW', '{:,.1f}'),
+            ('Cable current', 'cable_current_A', 'A', '{:,.1f}'),
+        ],
+    ),
 ]
 
 
@@ -86,8 +113,10 @@ def comparison_text(design, reference, diff):
         for label, key, unit, fmt in rows:
             a, b = design.values[key], reference.values[key]
             change = f'{diff[key]:+.2f}%' if key in diff else ''
-            lines.append(f'  {label + (" [" + unit + "]" if unit else ""):<32s}'
-                         f'{fmt.format(a):>16s}{fmt.format(b):>16s}{change:>10s}')
+            lines.append(
+                f'  {label + (" [" + unit + "]" if unit else ""):<32s}'
+                f'{fmt.format(a):>16s}{fmt.format(b):>16s}{change:>10s}'
+            )
     lines.append(f'Block fuel change versus the reference: {diff["block_fuel_kg"]:+.2f}%')
     lines.append(CAUTION)
     return '\n'.join(lines)
@@ -108,37 +137,55 @@ def optimization_text(result):
         Design variables (active bounds marked), constraints (active ones marked),
         objective and its change from the starting design.
     """
-    lines = [f"{'optimum' if result.success else 'NOT a successful optimum'}: {result.message}",
-             f'{result.evaluations} model evaluations, {result.failed_points} trial points '
-             'did not close',
-             'Design variables                         value        lower        upper']
+    lines = [
+        f"{'optimum' if result.success else 'NOT a successful optimum'}: {result.message}",
+        f'{result.evaluations} model evaluations, {result.failed_points} trial points '
+        'did not close',
+        'Design variables                         value        lower        upper',
+    ]
     for path, dv in result.design.items():
         mark = '  <- active bound' if dv['active'] else ''
-        lines.append(f"  {path:<34s}{dv['value']:>12.5g}{dv['lower']:>13.5g}"
-                     f"{dv['upper']:>13.5g} {dv['units'] or ''}{mark}")
+        lines.append(
+            f"  {path:<34s}{dv['value']:>12.5g}{dv['lower']:>13.5g}"
+            f"{dv['upper']:>13.5g} {dv['units'] or ''}{mark}"
+        )
     lines.append('Constraints                              value        bound')
     for name, con in result.constraints.items():
-        bound = ' '.join(f'{k} {con[k]:g}' for k in ('lower', 'upper', 'equals')
-                         if con[k] is not None)
+        bound = ' '.join(
+            f'{k} {con[k]:g}' for k in ('lower', 'upper', 'equals') if con[k] is not None
+        )
         mark = '  <- active' if con['active'] else ''
-        lines.append(f"  {name:<34s}{con['value']:>12.5g}   {bound} {con['units'] or ''}"
-                     f"{mark}")
+        lines.append(f"  {name:<34s}{con['value']:>12.5g}   {bound} {con['units'] or ''}{mark}")
     if result.outputs:
-        key = {'block_fuel': 'block_fuel_kg', 'mtow': 'mtow_kg',
-               'block_energy': 'block_energy_MJ', 'total_fuel': 'total_fuel_kg'}
+        key = {
+            'block_fuel': 'block_fuel_kg',
+            'mtow': 'mtow_kg',
+            'block_energy': 'block_energy_MJ',
+            'total_fuel': 'total_fuel_kg',
+        }
         field = key.get(result.objective, 'block_fuel_kg')
         start, end = result.start[field], result.outputs[field]
-        lines.append(f'Objective {result.objective}: {end:,.6g} (start {start:,.6g}, '
-                     f'{100 * (end - start) / start:+.2f}%)')
-        lines.append(f"Block fuel {result.outputs['block_fuel_kg']:,.1f} kg, MTOW "
-                     f"{result.outputs['mtow_kg']:,.1f} kg, L/D "
-                     f"{result.outputs['cruise_lift_to_drag']:.3f}")
+        lines.append(
+            f'Objective {result.objective}: {end:,.6g} (start {start:,.6g}, '
+            f'{100 * (end - start) / start:+.2f}%)'
+        )
+        lines.append(
+            f"Block fuel {result.outputs['block_fuel_kg']:,.1f} kg, MTOW "
+            f"{result.outputs['mtow_kg']:,.1f} kg, L/D "
+            f"{result.outputs['cruise_lift_to_drag']:.3f}"
+        )
     if not result.success:
         best = result.best_feasible
-        lines.append('Best feasible point found: ' + (
-            'none' if best is None else f"evaluation {best['evaluation']}, objective "
-            f"{best['objective']:,.6g}, design " + ', '.join(
-                f'{k} = {v:.5g}' for k, v in best['design'].items())))
+        lines.append(
+            'Best feasible point found: '
+            + (
+                'none'
+                if best is None
+                else f"evaluation {best['evaluation']}, objective "
+                f"{best['objective']:,.6g}, design "
+                + ', '.join(f'{k} = {v:.5g}' for k, v in best['design'].items())
+            )
+        )
     lines.append(CAUTION)
     return '\n'.join(lines)
 
@@ -162,29 +209,39 @@ def sweep_text(summaries, out_dir=None):
     lines = []
     for name, res in summaries.items():
         if name == 'map':
-            lines.append(f"design-space map of {res.get('design', '')}: "
-                         f"{100 * res['closure_rate']:.2f}% of the points closed "
-                         f"({res.get('recovered', 0)} by continuation)")
+            lines.append(
+                f"design-space map of {res.get('design', '')}: "
+                f"{100 * res['closure_rate']:.2f}% of the points closed "
+                f"({res.get('recovered', 0)} by continuation)"
+            )
         elif name == 'targets':
             ref = (res.get('reference') or {}).get('outputs') or {}
-            lines.append(f"target sweep: {res.get('closed_count', 0)} of "
-                         f"{res.get('points_count', 0)} optimisations succeeded; optimised "
-                         f"reference block fuel {ref.get('block_fuel_kg', float('nan')):,.1f} kg")
+            lines.append(
+                f"target sweep: {res.get('closed_count', 0)} of "
+                f"{res.get('points_count', 0)} optimisations succeeded; optimised "
+                f"reference block fuel {ref.get('block_fuel_kg', float('nan')):,.1f} kg"
+            )
         elif name == 'breakeven':
             if res.get('found'):
-                lines.append(f"break-even {res['path']} = {res['value']:.6g} "
-                             f"{res.get('units') or ''} (fuel-burn difference there "
-                             f"{res['difference_at_value']:+.4f}%)")
+                lines.append(
+                    f"break-even {res['path']} = {res['value']:.6g} "
+                    f"{res.get('units') or ''} (fuel-burn difference there "
+                    f"{res['difference_at_value']:+.4f}%)"
+                )
             else:
-                lines.append(f"no break-even of {res['path']} in [{res['lower']:g}, "
-                             f"{res['upper']:g}]: {res.get('message', '')}")
+                lines.append(
+                    f"no break-even of {res['path']} in [{res['lower']:g}, "
+                    f"{res['upper']:g}]: {res.get('message', '')}"
+                )
         elif name == 'montecarlo':
             stats = res['fuel_burn_change_percent']
-            lines.append(f"Monte Carlo, {res['samples']} samples: fuel-burn change mean "
-                         f"{stats.get('mean', float('nan')):+.3f}% (5-95%: "
-                         f"{stats.get('p05', float('nan')):+.3f}% to "
-                         f"{stats.get('p95', float('nan')):+.3f}%), probability that the "
-                         f"turbo-electric design wins {100 * res['probability_of_win']:.1f}%")
+            lines.append(
+                f"Monte Carlo, {res['samples']} samples: fuel-burn change mean "
+                f"{stats.get('mean', float('nan')):+.3f}% (5-95%: "
+                f"{stats.get('p05', float('nan')):+.3f}% to "
+                f"{stats.get('p95', float('nan')):+.3f}%), probability that the "
+                f"turbo-electric design wins {100 * res['probability_of_win']:.1f}%"
+            )
     if out_dir:
         lines.append(f'results written to {out_dir}')
     lines.append(CAUTION)

@@ -22,14 +22,19 @@ def _axis_from_spec(path, spec, where_path, need_count=True):
     if field is None or not field.target:
         raise ConfigError('not a model input; expected a config key path', **where)
     if 'values' in spec and isinstance(spec['values'], list) and spec['values']:
-        return [parse_quantity(v, field.units, where) if field.units else float(v)
-                for v in spec['values']]
+        return [
+            parse_quantity(v, field.units, where) if field.units else float(v)
+            for v in spec['values']
+        ]
     keys = {'lower', 'upper', 'count'} if need_count else {'lower', 'upper'}
     if not isinstance(spec, dict) or set(spec) != keys:
-        raise ConfigError(f'got {spec!r}; expected {{{", ".join(sorted(keys))}}} or '
-                          '{values: [...]}', **where)
-    lo, hi = (parse_quantity(spec[k], field.units, where) if field.units else float(spec[k])
-              for k in ('lower', 'upper'))
+        raise ConfigError(
+            f'got {spec!r}; expected {{{", ".join(sorted(keys))}}} or {{values: [...]}}', **where
+        )
+    lo, hi = (
+        parse_quantity(spec[k], field.units, where) if field.units else float(spec[k])
+        for k in ('lower', 'upper')
+    )
     if not need_count:
         return lo, hi
     count = spec['count']
@@ -64,8 +69,11 @@ def study_spec(config, maps=(), targets=(), breakeven=None, samples=None, seed=N
     study = config.values.get('study') or {}
     unknown = set(study) - set(_STUDY_KEYS)
     if unknown:
-        raise ConfigError(f"unknown key {sorted(unknown)[0]!r}; expected {', '.join(_STUDY_KEYS)}",
-                          source=config.source, path='study')
+        raise ConfigError(
+            f"unknown key {sorted(unknown)[0]!r}; expected {', '.join(_STUDY_KEYS)}",
+            source=config.source,
+            path='study',
+        )
     spec = {}
     if maps or targets or breakeven or samples:
         for key, axes in (('map', maps), ('targets', targets)):
@@ -80,38 +88,60 @@ def study_spec(config, maps=(), targets=(), breakeven=None, samples=None, seed=N
         if samples:
             unc = study.get('uncertainty') or {}
             if not unc.get('distributions'):
-                raise ConfigError('--monte-carlo needs study.uncertainty.distributions in the '
-                                  'config', source=config.source, path='study.uncertainty')
-            spec['uncertainty'] = {'distributions': unc['distributions'], 'samples': samples,
-                                   'seed': seed if seed is not None else unc.get('seed', 1)}
+                raise ConfigError(
+                    '--monte-carlo needs study.uncertainty.distributions in the config',
+                    source=config.source,
+                    path='study.uncertainty',
+                )
+            spec['uncertainty'] = {
+                'distributions': unc['distributions'],
+                'samples': samples,
+                'seed': seed if seed is not None else unc.get('seed', 1),
+            }
         return spec
     for key in ('map', 'targets'):
         if key in study:
             if not isinstance(study[key], dict) or not study[key]:
-                raise ConfigError('expected a mapping of config key paths to axes',
-                                  source=config.source, path=f'study.{key}')
-            spec[key] = {path: _axis_from_spec(path, axis, f'study.{key}.{path}')
-                         for path, axis in study[key].items()}
+                raise ConfigError(
+                    'expected a mapping of config key paths to axes',
+                    source=config.source,
+                    path=f'study.{key}',
+                )
+            spec[key] = {
+                path: _axis_from_spec(path, axis, f'study.{key}.{path}')
+                for path, axis in study[key].items()
+            }
     if 'breakeven' in study:
         entry = study['breakeven']
         if not isinstance(entry, dict) or len(entry) != 1:
-            raise ConfigError('expected one config key path with {lower, upper}',
-                              source=config.source, path='study.breakeven')
-        (path, axis), = entry.items()
+            raise ConfigError(
+                'expected one config key path with {lower, upper}',
+                source=config.source,
+                path='study.breakeven',
+            )
+        ((path, axis),) = entry.items()
         lo, hi = _axis_from_spec(path, axis, f'study.breakeven.{path}', need_count=False)
         spec['breakeven'] = (path, lo, hi)
     if 'uncertainty' in study:
         unc = study['uncertainty']
         if not isinstance(unc, dict) or not unc.get('distributions'):
-            raise ConfigError('expected distributions (and optionally samples, seed)',
-                              source=config.source, path='study.uncertainty')
-        spec['uncertainty'] = {'distributions': unc['distributions'],
-                               'samples': int(samples or unc.get('samples', 1000)),
-                               'seed': int(seed if seed is not None else unc.get('seed', 1))}
+            raise ConfigError(
+                'expected distributions (and optionally samples, seed)',
+                source=config.source,
+                path='study.uncertainty',
+            )
+        spec['uncertainty'] = {
+            'distributions': unc['distributions'],
+            'samples': int(samples or unc.get('samples', 1000)),
+            'seed': int(seed if seed is not None else unc.get('seed', 1)),
+        }
     if not spec:
-        raise ConfigError('nothing to sweep: give --map, --targets, --breakeven or '
-                          '--monte-carlo, or a study section in the config',
-                          source=config.source, path='study')
+        raise ConfigError(
+            'nothing to sweep: give --map, --targets, --breakeven or '
+            '--monte-carlo, or a study section in the config',
+            source=config.source,
+            path='study',
+        )
     return spec
 
 
@@ -125,15 +155,16 @@ def _grid_arrays(axes, rows, key):
     paths = list(axes)
     ny, nx = len(axes[paths[0]]), len(axes[paths[1]])
     z = np.array([r.get(key, math.nan) for r in rows], dtype=float).reshape(ny, nx)
-    closed = np.array([bool(r.get('closed', r.get('success', False))) for r in rows]
-                      ).reshape(ny, nx)
+    closed = np.array([bool(r.get('closed', r.get('success', False))) for r in rows]).reshape(
+        ny, nx
+    )
     return np.asarray(axes[paths[1]]), np.asarray(axes[paths[0]]), z, closed
 
 
 def _plots(kind, result, out_dir):
     try:
         from . import plots
-    except ImportError:   # pragma: no cover - the module itself has no hard dependency
+    except ImportError:  # pragma: no cover - the module itself has no hard dependency
         return []
     made = []
     try:
@@ -141,33 +172,66 @@ def _plots(kind, result, out_dir):
         if kind in ('map', 'targets') and axes and len(axes) == 2:
             x, y, z, closed = _grid_arrays(axes, result['points'], 'fuel_burn_change_percent')
             paths = list(axes)
-            made.append(plots.plot_fuel_map(x, y, z, closed, _label(paths[1]), _label(paths[0]),
-                                            os.path.join(out_dir, f'{kind}_fuel_change.png')))
+            made.append(
+                plots.plot_fuel_map(
+                    x,
+                    y,
+                    z,
+                    closed,
+                    _label(paths[1]),
+                    _label(paths[0]),
+                    os.path.join(out_dir, f'{kind}_fuel_change.png'),
+                )
+            )
             _, _, psc, _ = _grid_arrays(axes, result['points'], 'power_saving_coefficient')
-            made.append(plots.plot_psc_map(x, y, psc, closed, _label(paths[1]),
-                                           _label(paths[0]),
-                                           os.path.join(out_dir, f'{kind}_psc.png')))
+            made.append(
+                plots.plot_psc_map(
+                    x,
+                    y,
+                    psc,
+                    closed,
+                    _label(paths[1]),
+                    _label(paths[0]),
+                    os.path.join(out_dir, f'{kind}_psc.png'),
+                )
+            )
         if kind == 'targets' and axes and len(axes) == 1:
-            (path, values), = axes.items()
+            ((path, values),) = axes.items()
             change = [r.get('fuel_burn_change_percent', math.nan) for r in result['points']]
-            made.append(plots.plot_line(values, {'optimised design vs optimised reference':
-                                                 change}, _label(path),
-                                        'block-fuel change [%]',
-                                        os.path.join(out_dir, 'targets_fuel_change.png')))
+            made.append(
+                plots.plot_line(
+                    values,
+                    {'optimised design vs optimised reference': change},
+                    _label(path),
+                    'block-fuel change [%]',
+                    os.path.join(out_dir, 'targets_fuel_change.png'),
+                )
+            )
         if kind == 'targets':
             best = _best_row(result['points'])
             ref = (result.get('reference') or {}).get('outputs')
             if best is not None and ref:
-                made.append(plots.plot_mass_breakdown(
-                    _row_masses(best), ref, os.path.join(out_dir, 'targets_mass_breakdown.png'),
-                    design_label='best target point', reference_label='reference'))
+                made.append(
+                    plots.plot_mass_breakdown(
+                        _row_masses(best),
+                        ref,
+                        os.path.join(out_dir, 'targets_mass_breakdown.png'),
+                        design_label='best target point',
+                        reference_label='reference',
+                    )
+                )
         if kind == 'montecarlo':
             change = [r['fuel_burn_change_percent'] for r in result['points'] if r['closed']]
-            made.append(plots.plot_histogram(change, os.path.join(out_dir, 'montecarlo.png'),
-                                             'block-fuel change versus reference [%]',
-                                             'Monte Carlo over technology inputs'))
+            made.append(
+                plots.plot_histogram(
+                    change,
+                    os.path.join(out_dir, 'montecarlo.png'),
+                    'block-fuel change versus reference [%]',
+                    'Monte Carlo over technology inputs',
+                )
+            )
     except ConfigError:
-        return made   # matplotlib missing: the study still has its CSV and summaries
+        return made  # matplotlib missing: the study still has its CSV and summaries
     return made
 
 
@@ -178,10 +242,19 @@ def _best_row(rows):
 
 def _row_masses(row):
     """Mass breakdown of a target-sweep row (airframe and payload from the balances)."""
-    parts = {k: row[k] for k in ('engines_mass_kg', 'aft_fan_mass_kg', 'electrical_mass_kg',
-                                 'total_fuel_kg', 'mtow_kg')}
-    parts['airframe_mass_kg'] = (row['oew_kg'] - row['engines_mass_kg'] - row['aft_fan_mass_kg']
-                                 - row['electrical_mass_kg'])
+    parts = {
+        k: row[k]
+        for k in (
+            'engines_mass_kg',
+            'aft_fan_mass_kg',
+            'electrical_mass_kg',
+            'total_fuel_kg',
+            'mtow_kg',
+        )
+    }
+    parts['airframe_mass_kg'] = (
+        row['oew_kg'] - row['engines_mass_kg'] - row['aft_fan_mass_kg'] - row['electrical_mass_kg']
+    )
     parts['payload_kg'] = row['mtow_kg'] - row['oew_kg'] - row['total_fuel_kg']
     return parts
 
@@ -210,6 +283,7 @@ def run_sweep(config, spec, jobs=None, out_dir=None, progress=None):
     """
     from .errors import InterruptedRun
     from .results_io import write_atomic, write_results
+
     config = load_config(config)
     summaries = {}
     for kind in ('map', 'targets', 'breakeven', 'uncertainty'):
@@ -220,13 +294,20 @@ def run_sweep(config, spec, jobs=None, out_dir=None, progress=None):
             result = _run_study(kind, config, spec, jobs, progress)
         except KeyboardInterrupt:
             if out_dir:
-                write_results(out_dir, f'{name}_summary', {
-                    'status': 'partial', 'kind': kind,
-                    'message': f'interrupted by the user during the {kind} study; the '
-                               'studies before it are complete, this one has no results',
-                    'completed_studies': list(summaries)})
-            raise InterruptedRun(f'sweep interrupted during the {kind} study',
-                                 {'completed_studies': list(summaries)}) from None
+                write_results(
+                    out_dir,
+                    f'{name}_summary',
+                    {
+                        'status': 'partial',
+                        'kind': kind,
+                        'message': f'interrupted by the user during the {kind} study; the '
+                        'studies before it are complete, this one has no results',
+                        'completed_studies': list(summaries),
+                    },
+                )
+            raise InterruptedRun(
+                f'sweep interrupted during the {kind} study', {'completed_studies': list(summaries)}
+            ) from None
         points = result.pop('points', None)
         summaries[name] = result
         if points is not None:
@@ -242,6 +323,7 @@ def run_sweep(config, spec, jobs=None, out_dir=None, progress=None):
             write_results(out_dir, f'{name}_summary', {'status': 'complete', **_clean(result)})
     if out_dir:
         from .report import write_report
+
         write_report(out_dir)
     return summaries
 
@@ -252,13 +334,14 @@ def _run_study(kind, config, spec, jobs, progress):
         return design_space_map(config, spec['map'])
     if kind == 'targets':
         from .target_sweep import target_sweep
+
         result = target_sweep(config, spec['targets'], jobs=jobs, progress=progress)
         result['kind'] = 'targets'
-        result['target_axes'] = {p: [float(v) for v in vals]
-                                 for p, vals in spec['targets'].items()}
+        result['target_axes'] = {p: [float(v) for v in vals] for p, vals in spec['targets'].items()}
         return result
     if kind == 'breakeven':
         from .breakeven import breakeven, technology_sensitivities
+
         path, lo, hi = spec['breakeven']
         result = breakeven(config, path, lo, hi, jobs=jobs)
         result['kind'] = 'breakeven'

@@ -20,8 +20,16 @@ from .errors import ConfigError
 from .parallel import map_jobs
 
 #: Result fields copied into every row (NaN for a failed point).
-ROW_FIELDS = ('block_fuel_kg', 'total_fuel_kg', 'mtow_kg', 'oew_kg', 'power_saving_coefficient',
-              'electrical_mass_kg', 'aft_fan_mass_kg', 'engines_mass_kg')
+ROW_FIELDS = (
+    'block_fuel_kg',
+    'total_fuel_kg',
+    'mtow_kg',
+    'oew_kg',
+    'power_saving_coefficient',
+    'electrical_mass_kg',
+    'aft_fan_mass_kg',
+    'engines_mass_kg',
+)
 
 
 def is_config_input(path):
@@ -87,8 +95,10 @@ def fixed_config(config, inputs=None, outputs=None):
     """
     config = load_config(config)
     if 'optimization.design_variables' not in config.values:
-        raise ConfigError("no 'optimization' section; expected design_variables, "
-                          'constraints and an objective', source=config.source)
+        raise ConfigError(
+            "no 'optimization' section; expected design_variables, constraints and an objective",
+            source=config.source,
+        )
     data = copy.deepcopy(config.data)
     opt = data['optimization']
     dvs = dict(opt.get('design_variables') or {})
@@ -96,8 +106,11 @@ def fixed_config(config, inputs=None, outputs=None):
         _set_path(data, path, value, config.source)
         dvs.pop(path, None)
     if not dvs:
-        raise ConfigError('every design variable is fixed; nothing is left to optimise',
-                          source=config.source, path='optimization.design_variables')
+        raise ConfigError(
+            'every design variable is fixed; nothing is left to optimise',
+            source=config.source,
+            path='optimization.design_variables',
+        )
     opt['design_variables'] = dvs
     cons = dict(opt.get('constraints') or {})
     for name, value in (outputs or {}).items():
@@ -111,8 +124,9 @@ def _set_path(data, path, value, source):
     parts = path.split('.')
     for i, part in enumerate(parts[:-1]):
         if not isinstance(node.setdefault(part, {}), dict):
-            raise ConfigError(f"'{part}' is not a section", source=source,
-                              path='.'.join(parts[:i + 1]))
+            raise ConfigError(
+                f"'{part}' is not a section", source=source, path='.'.join(parts[: i + 1])
+            )
         node = node[part]
     node[parts[-1]] = value
 
@@ -128,8 +142,11 @@ def _check_outputs(config, names):
         if name not in known:
             close = difflib.get_close_matches(name, sorted(known), n=1)
             hint = f" (did you mean '{close[0]}'?)" if close else ''
-            raise ConfigError(f'neither a config key nor a model output of this design{hint}',
-                              source=config.source, path=name)
+            raise ConfigError(
+                f'neither a config key nor a model output of this design{hint}',
+                source=config.source,
+                path=name,
+            )
 
 
 def optimize_job(job):
@@ -150,17 +167,28 @@ def optimize_job(job):
         error as its message.
     """
     from .optimization import optimize
+
     try:
         result = optimize(load_config(job['data']))
     except Exception as exc:  # noqa: BLE001 - a failed point is reported in its row
-        return {'success': False, 'message': f'{type(exc).__name__}: {exc}', 'outputs': {},
-                'design': {}, 'active': [], 'evaluations': 0}
+        return {
+            'success': False,
+            'message': f'{type(exc).__name__}: {exc}',
+            'outputs': {},
+            'design': {},
+            'active': [],
+            'evaluations': 0,
+        }
     active = [name for name, con in result.constraints.items() if con['active']]
     active += [f'bound:{path}' for path, dv in result.design.items() if dv['active']]
-    return {'success': result.success, 'message': result.message,
-            'outputs': dict(result.outputs),
-            'design': {path: dv['value'] for path, dv in result.design.items()},
-            'active': active, 'evaluations': result.evaluations}
+    return {
+        'success': result.success,
+        'message': result.message,
+        'outputs': dict(result.outputs),
+        'design': {path: dv['value'] for path, dv in result.design.items()},
+        'active': active,
+        'evaluations': result.evaluations,
+    }
 
 
 def target_sweep(config, targets, jobs=None, progress=None):
@@ -201,8 +229,10 @@ def target_sweep(config, targets, jobs=None, progress=None):
         raise ConfigError('no targets to sweep', source=config.source)
     grids = []
     for name in names:
-        values = [float(v) if isinstance(v, numbers.Real) and not isinstance(v, bool) else v
-                  for v in targets[name]]
+        values = [
+            float(v) if isinstance(v, numbers.Real) and not isinstance(v, bool) else v
+            for v in targets[name]
+        ]
         if not values:
             raise ConfigError('no values to sweep', source=config.source, path=name)
         grids.append(values)
@@ -219,20 +249,26 @@ def target_sweep(config, targets, jobs=None, progress=None):
         points.append((point, fixed_config(config, inputs, outputs), ref_index))
     ref_configs = [fixed_config(reference, dict(key)) if key else reference for key in ref_keys]
 
-    jobs_list = [{'data': cfg.data} for cfg in ref_configs] + \
-                [{'data': cfg.data} for _, cfg, _ in points]
+    jobs_list = [{'data': cfg.data} for cfg in ref_configs] + [
+        {'data': cfg.data} for _, cfg, _ in points
+    ]
     results = map_jobs(optimize_job, jobs_list, jobs=jobs, progress=progress)
-    ref_results, point_results = results[:len(ref_configs)], results[len(ref_configs):]
+    ref_results, point_results = results[: len(ref_configs)], results[len(ref_configs) :]
 
-    references = [{'targets': dict(key), 'success': res['success'],
-                   'message': res['message'], 'outputs': res['outputs'],
-                   'design': res['design']}
-                  for key, res in zip(ref_keys, ref_results)]
+    references = [
+        {
+            'targets': dict(key),
+            'success': res['success'],
+            'message': res['message'],
+            'outputs': res['outputs'],
+            'design': res['design'],
+        }
+        for key, res in zip(ref_keys, ref_results)
+    ]
     rows = []
     for (point, cfg, ref_index), res in zip(points, point_results):
         rows.append(_row(point, cfg, res, references[ref_index], ref_index))
-    return {'targets': names, 'points': rows, 'reference': references[0],
-            'references': references}
+    return {'targets': names, 'points': rows, 'reference': references[0], 'references': references}
 
 
 def _row(point, cfg, res, reference, ref_index):
@@ -247,7 +283,8 @@ def _row(point, cfg, res, reference, ref_index):
     row['active_constraints'] = list(res['active']) if ok else []
     row['evaluations'] = res['evaluations']
     row['reference'] = ref_index
-    ref_fuel = reference['outputs'].get('block_fuel_kg', math.nan) \
-        if reference['success'] else math.nan
+    ref_fuel = (
+        reference['outputs'].get('block_fuel_kg', math.nan) if reference['success'] else math.nan
+    )
     row['fuel_burn_change_percent'] = 100.0 * (row['block_fuel_kg'] - ref_fuel) / ref_fuel
     return row

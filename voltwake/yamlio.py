@@ -63,9 +63,11 @@ class _LineLoader(yaml.SafeLoader):
         self._depth += 1
         try:
             if self._depth > MAX_DEPTH:
-                raise ConfigError(f'nesting deeper than {MAX_DEPTH} levels; refusing it',
-                                  source=self._source,
-                                  line=self.peek_event().start_mark.line + 1)
+                raise ConfigError(
+                    f'nesting deeper than {MAX_DEPTH} levels; refusing it',
+                    source=self._source,
+                    line=self.peek_event().start_mark.line + 1,
+                )
             return super().compose_node(parent, index)
         finally:
             self._depth -= 1
@@ -75,7 +77,8 @@ class _LineLoader(yaml.SafeLoader):
 _LineLoader.add_implicit_resolver(
     'tag:yaml.org,2002:float',
     re.compile(r'^[-+]?(?:[0-9][0-9_]*(?:\.[0-9_]*)?|\.[0-9_]+)[eE][-+]?[0-9]+$'),
-    list('-+0123456789.'))
+    list('-+0123456789.'),
+)
 
 
 #: What PyYAML's safe constructors raise for a scalar that does not fit its type (e.g.
@@ -108,8 +111,10 @@ def key_path(parts):
     str or None
         E.g. ``'wing.area'`` or ``"wing.'area\n'"``.
     """
-    shown = [part if part and part.isprintable() and part.strip() == part else repr(part)
-             for part in map(str, parts)]
+    shown = [
+        part if part and part.isprintable() and part.strip() == part else repr(part)
+        for part in map(str, parts)
+    ]
     return '.'.join(shown) or None
 
 
@@ -132,19 +137,29 @@ def _yaml_problem(err, text):
 def _build(node, loader, path, lines, budget, source, active=None):
     budget[0] -= 1
     if budget[0] < 0:
-        raise ConfigError(f'document expands to more than {MAX_NODES} nodes (alias expansion '
-                          'too large); refusing it', source=source, line=node.start_mark.line + 1)
+        raise ConfigError(
+            f'document expands to more than {MAX_NODES} nodes (alias expansion '
+            'too large); refusing it',
+            source=source,
+            line=node.start_mark.line + 1,
+        )
     if isinstance(node, (yaml.MappingNode, yaml.SequenceNode)):
         if node.tag not in _PLAIN_COLLECTIONS:
-            raise ConfigError(f'unsupported tag {node.tag!r}; expected a plain mapping or list',
-                              source=source, line=node.start_mark.line + 1,
-                              path=key_path(path))
+            raise ConfigError(
+                f'unsupported tag {node.tag!r}; expected a plain mapping or list',
+                source=source,
+                line=node.start_mark.line + 1,
+                path=key_path(path),
+            )
         active = set() if active is None else active
         if id(node) in active:
-            raise ConfigError('recursive alias (a mapping or list contains itself); expected '
-                              'a tree of mappings and lists',
-                              source=source, line=node.start_mark.line + 1,
-                              path=key_path(path))
+            raise ConfigError(
+                'recursive alias (a mapping or list contains itself); expected '
+                'a tree of mappings and lists',
+                source=source,
+                line=node.start_mark.line + 1,
+                path=key_path(path),
+            )
         active.add(id(node))
         try:
             return _build_collection(node, loader, path, lines, budget, source, active)
@@ -158,15 +173,20 @@ def _build(node, loader, path, lines, budget, source, active=None):
         # Python refuses to read integers of more than a few thousand digits; explicit tags
         # (!!float, !!int, !!bool, !!timestamp) on text that is not of that type fail too.
         if 'digits' in str(err):
-            problem = ('a number with too many digits; expected a number of ordinary size '
-                       '(a float reaches about 1.8e308)')
+            problem = (
+                'a number with too many digits; expected a number of ordinary size '
+                '(a float reaches about 1.8e308)'
+            )
         else:
             kind = node.tag.rpartition(':')[2] or node.tag
-            problem = (f'got {_show_text(node.value)}, which YAML reads as a {kind} (!!{kind}) '
-                       f'but is not a valid one; expected a valid {kind}, or quotes around '
-                       'the value to keep it as text')
-        raise ConfigError(problem, source=source, line=node.start_mark.line + 1,
-                          path=key_path(path)) from None
+            problem = (
+                f'got {_show_text(node.value)}, which YAML reads as a {kind} (!!{kind}) '
+                f'but is not a valid one; expected a valid {kind}, or quotes around '
+                'the value to keep it as text'
+            )
+        raise ConfigError(
+            problem, source=source, line=node.start_mark.line + 1, path=key_path(path)
+        ) from None
 
 
 def _build_collection(node, loader, path, lines, budget, source, active):
@@ -174,25 +194,37 @@ def _build_collection(node, loader, path, lines, budget, source, active):
         out = {}
         for key_node, value_node in node.value:
             if not isinstance(key_node, yaml.ScalarNode):
-                raise ConfigError('mapping keys must be plain words; expected a word, not a '
-                                  'list or mapping', source=source,
-                                  line=key_node.start_mark.line + 1, path=key_path(path))
+                raise ConfigError(
+                    'mapping keys must be plain words; expected a word, not a list or mapping',
+                    source=source,
+                    line=key_node.start_mark.line + 1,
+                    path=key_path(path),
+                )
             if key_node.tag == 'tag:yaml.org,2002:merge':
-                raise ConfigError('merge keys (<<) are not supported; expected plain keys',
-                                  source=source, line=key_node.start_mark.line + 1,
-                                  path=key_path(path))
+                raise ConfigError(
+                    'merge keys (<<) are not supported; expected plain keys',
+                    source=source,
+                    line=key_node.start_mark.line + 1,
+                    path=key_path(path),
+                )
             key = _build(key_node, loader, path, lines, budget, source, active)
             try:
                 key = str(key)
-            except ValueError:       # an integer key of more than a few thousand digits
-                raise ConfigError('a key with too many digits; expected a plain word',
-                                  source=source, line=key_node.start_mark.line + 1,
-                                  path=key_path(path)) from None
+            except ValueError:  # an integer key of more than a few thousand digits
+                raise ConfigError(
+                    'a key with too many digits; expected a plain word',
+                    source=source,
+                    line=key_node.start_mark.line + 1,
+                    path=key_path(path),
+                ) from None
             sub = path + (key,)
             if key in out:
-                raise ConfigError(f'duplicate key (first given on line {lines[sub]})',
-                                  source=source, line=key_node.start_mark.line + 1,
-                                  path=key_path(sub))
+                raise ConfigError(
+                    f'duplicate key (first given on line {lines[sub]})',
+                    source=source,
+                    line=key_node.start_mark.line + 1,
+                    path=key_path(sub),
+                )
             lines[sub] = key_node.start_mark.line + 1
             out[key] = _build(value_node, loader, sub, lines, budget, source, active)
         return out
@@ -233,8 +265,11 @@ def parse_yaml(text, source='<string>'):
     finally:
         if loader is not None:
             loader.dispose()
-    if node is None or (isinstance(node, yaml.ScalarNode) and node.value == ''
-                        and node.tag == 'tag:yaml.org,2002:null'):
+    if node is None or (
+        isinstance(node, yaml.ScalarNode)
+        and node.value == ''
+        and node.tag == 'tag:yaml.org,2002:null'
+    ):
         # No document at all, or a document marker with nothing under it ('---').
         raise ConfigError('the file is empty; expected a mapping of sections', source=source)
     lines = {}
@@ -301,8 +336,9 @@ def read_yaml_file(path):
     try:
         size = os.path.getsize(source)
         if size > MAX_FILE_BYTES:
-            raise ConfigError(f'file is {size} bytes; the limit is {MAX_FILE_BYTES} bytes',
-                              source=source)
+            raise ConfigError(
+                f'file is {size} bytes; the limit is {MAX_FILE_BYTES} bytes', source=source
+            )
         with open(source, 'rb') as handle:
             raw = handle.read()
     except OSError as err:
