@@ -264,15 +264,24 @@ class SizingOptimizeDriver(om.ScipyOptimizeDriver):
         model = self._problem().model
         loop = model.sizing
         self.evaluations += 1
-        if self._last_good is not None:  # the loop's states only, not the design variables
-            loop._outputs.set_val(self._last_good)
-        closed = True
-        try:
-            with np.errstate(all='ignore'):
-                super()._run_solve_nonlinear()
-            closed = closure_problem(self._problem(), model.options['aft_fan']) is None
-        except AnalysisError:
-            closed = False
+        newton = loop.nonlinear_solver
+        closed = False
+        # From the last converged state plain Newton steps suffice; if they fail, solve again
+        # from that state with the sub-system sweeps that make the solve robust.
+        for sweeps in ((False, True) if self._last_good is not None else (True,)):
+            if self._last_good is not None:  # the loop's states only, not the design variables
+                loop._outputs.set_val(self._last_good)
+            newton.options['solve_subsystems'] = sweeps
+            try:
+                with np.errstate(all='ignore'):
+                    super()._run_solve_nonlinear()
+                closed = closure_problem(self._problem(), model.options['aft_fan']) is None
+            except AnalysisError:
+                closed = False
+            finally:
+                newton.options['solve_subsystems'] = True
+            if closed:
+                break
         if closed:
             self._last_good = loop._outputs.asarray().copy()
         else:
