@@ -268,7 +268,7 @@ class SizingOptimizeDriver(om.ScipyOptimizeDriver):
         closed = False
         # From the last converged state plain Newton steps suffice; if they fail, solve again
         # from that state with the sub-system sweeps that make the solve robust.
-        for sweeps in ((False, True) if self._last_good is not None else (True,)):
+        for sweeps in (False, True) if self._last_good is not None else (True,):
             if self._last_good is not None:  # the loop's states only, not the design variables
                 loop._outputs.set_val(self._last_good)
             newton.options['solve_subsystems'] = sweeps
