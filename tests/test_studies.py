@@ -205,3 +205,22 @@ def test_cli_sweep_under_mpiexec_matches_the_serial_run(tmp_path):
     assert (tmp_path / 'mpi' / 'targets_points.csv').read_text() == (
         tmp_path / 'serial' / 'targets_points.csv'
     ).read_text()
+
+
+def test_breakeven_and_monte_carlo_studies_write_csv_plots_and_report(tmp_path):
+    out = tmp_path / 'studies'
+    code = main(['sweep', '--breakeven', 'electrical.motor.specific_power=3 kW/kg:5 kW/kg',
+                 '--monte-carlo', '30', '--seed', '3', '--jobs', '1', '--out', str(out)])
+    assert code == 0
+    report = (out / 'report.html').read_text()
+    for name in ('breakeven', 'montecarlo'):
+        rows = list(csv.DictReader((out / f'{name}_points.csv').read_text().splitlines()))
+        assert rows
+        summary = json.loads((out / f'{name}_summary.json').read_text())
+        assert summary['plots']
+        for png in summary['plots']:
+            assert (out / png).stat().st_size > 1000
+            assert png.replace('_', ' ').replace('.png', '') in report
+    breakeven = json.loads((out / 'breakeven_summary.json').read_text())
+    assert breakeven['found'] and abs(breakeven['difference_at_value']) < 0.01
+    assert len(rows) == 30   # the Monte Carlo samples

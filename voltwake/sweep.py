@@ -220,6 +220,20 @@ def _plots(kind, result, out_dir):
                         reference_label='reference',
                     )
                 )
+        if kind == 'breakeven' and result.get('points'):
+            path = result['path']
+            rows = sorted(result['points'], key=lambda r: r[path])
+            change = [r['fuel_burn_change_percent'] for r in rows]
+            made.append(
+                plots.plot_line(
+                    [r[path] for r in rows],
+                    {'optimised design vs optimised reference': change},
+                    _label(result['path']),
+                    'block-fuel change [%] (0 = break-even)',
+                    os.path.join(out_dir, 'breakeven.png'),
+                    title=f"Break-even of {result['path']}",
+                )
+            )
         if kind == 'montecarlo':
             change = [r['fuel_burn_change_percent'] for r in result['points'] if r['closed']]
             made.append(
@@ -346,6 +360,15 @@ def _run_study(kind, config, spec, jobs, progress):
         result = breakeven(config, path, lo, hi, jobs=jobs)
         result['kind'] = 'breakeven'
         result['sensitivities'] = technology_sensitivities(config)
+        # Every optimised evaluation of the root solve is a point of the study's CSV.
+        result['points'] = [
+            {
+                result['path']: e['value'],
+                'fuel_burn_change_percent': e['difference'],
+                'block_fuel_kg': e['block_fuel_kg'],
+            }
+            for e in result.get('evaluations', [])
+        ]
         return result
     unc = spec['uncertainty']
     return monte_carlo(config, unc['distributions'], unc['samples'], unc['seed'])
