@@ -209,8 +209,21 @@ def test_cli_sweep_under_mpiexec_matches_the_serial_run(tmp_path):
 
 def test_breakeven_and_monte_carlo_studies_write_csv_plots_and_report(tmp_path):
     out = tmp_path / 'studies'
-    code = main(['sweep', '--breakeven', 'electrical.motor.specific_power=3 kW/kg:5 kW/kg',
-                 '--monte-carlo', '30', '--seed', '3', '--jobs', '1', '--out', str(out)])
+    code = main(
+        [
+            'sweep',
+            '--breakeven',
+            'electrical.motor.specific_power=3 kW/kg:5 kW/kg',
+            '--monte-carlo',
+            '30',
+            '--seed',
+            '3',
+            '--jobs',
+            '1',
+            '--out',
+            str(out),
+        ]
+    )
     assert code == 0
     report = (out / 'report.html').read_text()
     for name in ('breakeven', 'montecarlo'):
@@ -223,4 +236,4 @@ def test_breakeven_and_monte_carlo_studies_write_csv_plots_and_report(tmp_path):
             assert png.replace('_', ' ').replace('.png', '') in report
     breakeven = json.loads((out / 'breakeven_summary.json').read_text())
     assert breakeven['found'] and abs(breakeven['difference_at_value']) < 0.01
-    assert len(rows) == 30   # the Monte Carlo samples
+    assert len(rows) == 30  # the Monte Carlo samples
