@@ -50,6 +50,35 @@ _FAN_OUTPUTS = (
 )
 
 
+#: Options shared by the groups of this module: name -> keyword arguments of ``declare``.
+_OPTIONS = {
+    'vec_size': dict(types=int, default=1, lower=1, desc='Number of independent design points.'),
+    'num_engines': dict(types=int, default=2, lower=1, desc='Number of under-wing turbofans.'),
+    'aft_fan': dict(
+        types=bool,
+        default=False,
+        desc='Include the wake-ingesting aft fan and its electrical chain.',
+    ),
+    'profile_exponent': dict(
+        types=(int, float),
+        default=7.0,
+        desc='Exponent n of the power-law boundary-layer profile.',
+    ),
+    'max_iterations': dict(
+        types=int, default=30, desc='Newton iteration limit of the sizing loop.'
+    ),
+    'tolerance': dict(
+        types=float, default=1e-10, desc='Relative residual tolerance of the sizing loop.'
+    ),
+}
+
+
+def _declare(options, *names):
+    """Declare the named shared options."""
+    for name in names:
+        options.declare(name, **_OPTIONS[name])
+
+
 def _add(group, name, comp, inputs=(), outputs=()):
     """Add ``comp`` promoting the listed variables; a (local, promoted) pair renames one."""
     return group.add_subsystem(
@@ -75,9 +104,7 @@ class FlightConditionGroup(om.Group):
         """
         Declare options.
         """
-        self.options.declare(
-            'vec_size', types=int, default=1, lower=1, desc='Number of independent design points.'
-        )
+        _declare(self.options, 'vec_size')
 
     def setup(self):
         """
@@ -109,9 +136,7 @@ class AerodynamicsGroup(om.Group):
         """
         Declare options.
         """
-        self.options.declare(
-            'vec_size', types=int, default=1, lower=1, desc='Number of independent design points.'
-        )
+        _declare(self.options, 'vec_size')
 
     def setup(self):
         """
@@ -166,12 +191,7 @@ class TurbofanGroup(om.Group):
         """
         Declare options.
         """
-        self.options.declare(
-            'vec_size', types=int, default=1, lower=1, desc='Number of independent design points.'
-        )
-        self.options.declare(
-            'num_engines', types=int, default=2, lower=1, desc='Number of under-wing turbofans.'
-        )
+        _declare(self.options, 'vec_size', 'num_engines')
 
     def setup(self):
         """
@@ -276,15 +296,7 @@ class AftFanGroup(om.Group):
         """
         Declare options.
         """
-        self.options.declare(
-            'vec_size', types=int, default=1, lower=1, desc='Number of independent design points.'
-        )
-        self.options.declare(
-            'profile_exponent',
-            types=(int, float),
-            default=7.0,
-            desc='Exponent n of the power-law boundary-layer profile.',
-        )
+        _declare(self.options, 'vec_size', 'profile_exponent')
 
     def setup(self):
         """
@@ -440,9 +452,7 @@ class ElectricalChainGroup(om.Group):
         """
         Declare options.
         """
-        self.options.declare(
-            'vec_size', types=int, default=1, lower=1, desc='Number of independent design points.'
-        )
+        _declare(self.options, 'vec_size')
 
     def setup(self):
         """
@@ -525,32 +535,14 @@ class SizingLoop(om.Group):
         """
         Declare options.
         """
-        self.options.declare(
-            'vec_size', types=int, default=1, lower=1, desc='Number of independent design points.'
-        )
-        self.options.declare(
-            'num_engines', types=int, default=2, lower=1, desc='Number of under-wing turbofans.'
-        )
-        self.options.declare(
+        _declare(
+            self.options,
+            'vec_size',
+            'num_engines',
             'aft_fan',
-            types=bool,
-            default=False,
-            desc='Include the wake-ingesting aft fan and its electrical chain.',
-        )
-        self.options.declare(
             'profile_exponent',
-            types=(int, float),
-            default=7.0,
-            desc='Exponent n of the power-law boundary-layer profile.',
-        )
-        self.options.declare(
-            'max_iterations', types=int, default=30, desc='Newton iteration limit.'
-        )
-        self.options.declare(
+            'max_iterations',
             'tolerance',
-            types=float,
-            default=1e-10,
-            desc='Relative residual tolerance of the Newton solve.',
         )
 
     def setup(self):
@@ -695,15 +687,7 @@ class PerformanceGroup(om.Group):
         """
         Declare options.
         """
-        self.options.declare(
-            'vec_size', types=int, default=1, lower=1, desc='Number of independent design points.'
-        )
-        self.options.declare(
-            'num_engines', types=int, default=2, lower=1, desc='Number of under-wing turbofans.'
-        )
-        self.options.declare(
-            'aft_fan', types=bool, default=False, desc='Include the aft-fan and electrical ratings.'
-        )
+        _declare(self.options, 'vec_size', 'num_engines', 'aft_fan')
 
     def setup(self):
         """
@@ -820,39 +804,14 @@ class AircraftModel(om.Group):
         """
         Declare options.
         """
-        self.options.declare(
+        _declare(
+            self.options,
             'vec_size',
-            types=int,
-            default=1,
-            lower=1,
-            desc='Number of independent design points solved at once.',
-        )
-        self.options.declare(
-            'num_engines', types=int, default=2, lower=1, desc='Number of under-wing turbofans.'
-        )
-        self.options.declare(
+            'num_engines',
             'aft_fan',
-            types=bool,
-            default=False,
-            desc='Include the wake-ingesting aft fan and its electrical chain.',
-        )
-        self.options.declare(
             'profile_exponent',
-            types=(int, float),
-            default=7.0,
-            desc='Exponent n of the power-law boundary-layer profile.',
-        )
-        self.options.declare(
             'max_iterations',
-            types=int,
-            default=30,
-            desc='Newton iteration limit of the sizing loop.',
-        )
-        self.options.declare(
             'tolerance',
-            types=float,
-            default=1e-10,
-            desc='Relative residual tolerance of the sizing loop.',
         )
 
     def setup(self):
