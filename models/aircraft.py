@@ -79,6 +79,15 @@ def _declare(options, *names):
         options.declare(name, **_OPTIONS[name])
 
 
+#: Promotions of the aft fan's design settings (shared by the fan and its reference).
+_AFT_FAN_SETTINGS = [
+    ('fan_pressure_ratio', 'aft_fan_pressure_ratio'),
+    ('fan_efficiency', 'aft_fan_efficiency'),
+    ('fan_face_mach', 'aft_fan_face_mach'),
+    ('hub_to_tip_ratio', 'aft_fan_hub_to_tip_ratio'),
+]
+
+
 def _add(group, name, comp, inputs=(), outputs=()):
     """Add ``comp`` promoting the listed variables; a (local, promoted) pair renames one."""
     return group.add_subsystem(
@@ -303,11 +312,7 @@ class AftFanGroup(om.Group):
         Add the aft-fan components.
         """
         n, expo = self.options['vec_size'], self.options['profile_exponent']
-        fan_settings = _prefixed('aft', ['fan_pressure_ratio']) + [
-            ('fan_efficiency', 'aft_fan_efficiency'),
-            ('fan_face_mach', 'aft_fan_face_mach'),
-            ('hub_to_tip_ratio', 'aft_fan_hub_to_tip_ratio'),
-        ]
+        fan_settings = _AFT_FAN_SETTINGS
         _add(
             self,
             'boundary_layer',
@@ -361,30 +366,6 @@ class AftFanGroup(om.Group):
             CaptureHeightComp(vec_size=n),
             ['captured_mass_flow', ('required_mass_flow', 'aft_mass_flow')],
             ['capture_height'],
-        )
-        _add(
-            self,
-            'reference_fan',
-            DuctedFanComp(vec_size=n),
-            [
-                ('net_thrust', 'aft_fan_thrust'),
-                ('inflow_total_temperature', 'total_temperature'),
-                ('inflow_total_pressure', 'total_pressure'),
-                ('ram_velocity', 'true_airspeed'),
-                ('ambient_pressure', 'pressure'),
-            ]
-            + fan_settings,
-            _prefixed('aft_reference', _FAN_OUTPUTS),
-        )
-        _add(
-            self,
-            'power_saving',
-            PowerSavingComp(vec_size=n),
-            [
-                ('shaft_power', 'aft_shaft_power'),
-                ('reference_shaft_power', 'aft_reference_shaft_power'),
-            ],
-            ['power_saving_coefficient'],
         )
         _add(
             self,
@@ -669,6 +650,57 @@ class SizingLoop(om.Group):
             )
 
 
+class PowerSavingGroup(om.Group):
+    """
+    The aft fan's free-stream reference and its power saving coefficient.
+
+    Nothing in the sizing loop depends on these, so they run after it: the same fan, at the
+    same thrust and pressure ratio, on free-stream inflow.
+
+    Parameters
+    ----------
+    **kwargs : dict of keyword arguments
+        Keyword arguments that will be mapped into the Group options.
+    """
+
+    def initialize(self):
+        """
+        Declare options.
+        """
+        _declare(self.options, 'vec_size')
+
+    def setup(self):
+        """
+        Add the reference fan and the power saving coefficient.
+        """
+        n = self.options['vec_size']
+        fan_settings = _AFT_FAN_SETTINGS
+        _add(
+            self,
+            'reference_fan',
+            DuctedFanComp(vec_size=n),
+            [
+                ('net_thrust', 'aft_fan_thrust'),
+                ('inflow_total_temperature', 'total_temperature'),
+                ('inflow_total_pressure', 'total_pressure'),
+                ('ram_velocity', 'true_airspeed'),
+                ('ambient_pressure', 'pressure'),
+            ]
+            + fan_settings,
+            _prefixed('aft_reference', _FAN_OUTPUTS),
+        )
+        _add(
+            self,
+            'power_saving',
+            PowerSavingComp(vec_size=n),
+            [
+                ('shaft_power', 'aft_shaft_power'),
+                ('reference_shaft_power', 'aft_reference_shaft_power'),
+            ],
+            ['power_saving_coefficient'],
+        )
+
+
 class PerformanceGroup(om.Group):
     """
     Performance constraints of the sized aircraft: field lengths, climb, buffet, ratings.
@@ -860,6 +892,8 @@ class AircraftModel(om.Group):
             )
         }
         _add(self, 'sizing', SizingLoop(**loop), ['*'], ['*'])
+        if opt['aft_fan']:
+            _add(self, 'power_saving', PowerSavingGroup(vec_size=n), ['*'], ['*'])
         _add(
             self,
             'performance',
