@@ -11,6 +11,7 @@ import difflib
 import io
 import math
 import sys
+import warnings
 
 import numpy as np
 import openmdao.api as om
@@ -524,6 +525,14 @@ def optimize(config=None, overrides=None, recorder_path=None, on_evaluation=None
         The outcome; ``success`` is False when the optimiser failed or the final point is
         infeasible or does not close.
     """
+    with warnings.catch_warnings():
+        # OpenMDAO notes that the Newton-solved sizing loop is treated as one block when it
+        # works out which systems the driver needs: true, expected and harmless here.
+        warnings.filterwarnings('ignore', message='The following groups have a nonlinear solver')
+        return _optimize(config, overrides, recorder_path, on_evaluation)
+
+
+def _optimize(config, overrides, recorder_path, on_evaluation):
     config = load_config(config, overrides)
     prob = build_problem(config, recorder_path=recorder_path)
     driver = prob.driver
