@@ -138,7 +138,7 @@ def check_derivatives(config=None, vec_size=3, out=print):
         if trel > t_worst[0]:
             t_worst = (trel, f'{o} wrt {w}')
     out(f'totals: {len(totals)} pairs of the converged model against complex step')
-    out(f'  worst relative error {t_worst[0]:.3e} ({t_worst[1]})')
+    out(f"  worst relative error {t_worst[0]:.3e} ({t_worst[1] or 'every pair agrees exactly'})")
     return {
         'worst_partial': rel,
         'worst_partial_at': f'{comp}: {pair}',
