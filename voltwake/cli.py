@@ -232,7 +232,7 @@ def _cmd_sweep(args):
     from .sweep import _clean, run_sweep, study_spec
 
     if args.jobs is not None and args.jobs < 1:
-        raise errors.ConfigError(f'--jobs {args.jobs}: expected a whole number >= 1')
+        raise errors.ConfigError(f'got {args.jobs}; expected a whole number >= 1', source='--jobs')
     config = load_config(args.config, args.overrides)
     spec = study_spec(config, args.map, args.targets, args.breakeven, args.samples, args.seed)
     root = is_root()

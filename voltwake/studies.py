@@ -54,7 +54,7 @@ def parse_axis(text, count_required=True):
     """
     path, sep, spec = str(text).partition('=')
     parts = spec.split(':')
-    where = {'source': '--command line', 'path': path.strip() or None}
+    where = {'source': 'command line', 'path': path.strip() or None}
     if not sep or len(parts) not in ((3,) if count_required else (2, 3)):
         form = 'PATH=LO:HI:N' if count_required else 'PATH=LO:HI'
         raise ConfigError(f'got {text!r}; expected {form}', **where)
