@@ -79,18 +79,12 @@ def _starts(config):
 
 def _blend(config, fractions):
     """Design-variable values (SI) at the given fractions of their bounds."""
-    from voltwake.config import field_at, parse_quantity
+    from voltwake.optimization import design_variables
 
-    out = {}
-    for path, frac in fractions.items():
-        bounds = config.values['optimization.design_variables'][path]
-        units = field_at(path).units
-        lo, hi = (
-            parse_quantity(bounds[k], units, {}) if units else float(bounds[k])
-            for k in ('lower', 'upper')
-        )
-        out[path] = lo + frac * (hi - lo)
-    return out
+    bounds = {
+        dv.path: (dv.lower, dv.upper) for dv in design_variables(config, config.model_inputs())
+    }
+    return {path: lo + fractions[path] * (hi - lo) for path, (lo, hi) in bounds.items()}
 
 
 def test_demo_optimum_is_reached_from_other_starts(demo_optimum):

@@ -3,21 +3,16 @@
 import numpy as np
 
 from voltwake.batch import analyze_points
-from voltwake.config import demo_path, field_at, load_config, parse_quantity
-from voltwake.optimization import optimize
+from voltwake.config import demo_path, load_config
+from voltwake.optimization import design_variables, optimize
 
 TURBO_ELECTRIC = demo_path('turbo_electric')
 
 
 def _bounds(config):
-    out = {}
-    for path, spec in config.values['optimization.design_variables'].items():
-        units = field_at(path).units
-        out[path] = tuple(
-            parse_quantity(spec[k], units, {}) if units else float(spec[k])
-            for k in ('lower', 'upper')
-        )
-    return out
+    """Design-variable bounds (SI) as the optimisation reads them."""
+    dvs = design_variables(config, config.model_inputs())
+    return {dv.path: (dv.lower, dv.upper) for dv in dvs}
 
 
 def test_a_thousand_random_designs_close_or_say_why(capsys):

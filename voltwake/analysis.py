@@ -191,6 +191,41 @@ def set_model_inputs(prob, config, setup=False):
         prob.set_val(name, value, units=units)
 
 
+#: Values of the aft-fan fields for a design without an aft fan (efficiencies are 1).
+_NO_AFT_FAN = {'electrical_chain_efficiency': 1.0, 'cable_efficiency': 1.0}
+
+
+def read_field_arrays(prob, aft_fan, names=None):
+    """
+    Read result fields of every design point from a run problem.
+
+    Parameters
+    ----------
+    prob : om.Problem
+        A problem that has been run.
+    aft_fan : bool
+        Whether the design has an aft fan.
+    names : list of str or None
+        Fields to read (default: every field).
+
+    Returns
+    -------
+    dict
+        Field name -> float array of length ``vec_size``.
+    """
+    size = prob.model.options['vec_size']
+    table = {**FIELDS, **AFT_FAN_FIELDS}
+    out = {}
+    for key in names or table:
+        name, units = table[key]
+        if key in AFT_FAN_FIELDS and not aft_fan:
+            out[key] = np.full(size, _NO_AFT_FAN.get(key, 0.0))
+        else:
+            value = np.real(np.asarray(prob.get_val(name, units=units)))
+            out[key] = np.broadcast_to(value, (size,)).astype(float)
+    return out
+
+
 def read_fields(prob, aft_fan, index=0):
     """
     Read the result fields of point ``index`` from a run problem.
@@ -209,16 +244,7 @@ def read_fields(prob, aft_fan, index=0):
     dict
         Field name -> float.
     """
-    out = {}
-    for key, (name, units) in FIELDS.items():
-        out[key] = float(np.real(prob.get_val(name, units=units)[index]))
-    for key, (name, units) in AFT_FAN_FIELDS.items():
-        out[key] = (
-            float(np.real(prob.get_val(name, units=units)[index]))
-            if aft_fan
-            else (1.0 if key in ('electrical_chain_efficiency', 'cable_efficiency') else 0.0)
-        )
-    return out
+    return {key: float(arr[index]) for key, arr in read_field_arrays(prob, aft_fan).items()}
 
 
 _CLOSED = 'the sizing loop did not close: '

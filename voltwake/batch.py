@@ -12,7 +12,13 @@ import dataclasses
 import numpy as np
 from openmdao.core.analysis_error import AnalysisError
 
-from .analysis import AFT_FAN_FIELDS, FIELDS, build_model_problem, closure_reasons
+from .analysis import (
+    AFT_FAN_FIELDS,
+    FIELDS,
+    build_model_problem,
+    closure_reasons,
+    read_field_arrays,
+)
 from .config import _check_field, field_at, load_config
 from .errors import ConfigError
 
@@ -158,20 +164,6 @@ def _isolate(prob, aft_fan, targets, fraction, base, active, fallback=None):
     return failed | (~_solve(prob, aft_fan)[0] & active), reasons
 
 
-def _read(prob, names, aft):
-    table = {**FIELDS, **AFT_FAN_FIELDS}
-    size = prob.model.options['vec_size']
-    values = {}
-    for key in names:
-        name, units = table[key]
-        if key in AFT_FAN_FIELDS and not aft:
-            arr = np.zeros(size)
-        else:
-            arr = np.real(np.asarray(prob.get_val(name, units=units), dtype=complex)).copy()
-        values[key] = np.broadcast_to(arr, (size,)).astype(float)
-    return values
-
-
 def _setup(config, targets, size):
     prob = build_model_problem(config, vec_size=size)
     base = {t: float(np.asarray(config.model_inputs()[t][0])) for t, _, _ in targets.values()}
@@ -228,7 +220,7 @@ def _continue(config, targets, names):
     _set(prob, targets, fraction, base, every)
     ok = _solve(prob, aft)[0]
     closed &= ok
-    return closed, reasons, _read(prob, names, aft)
+    return closed, reasons, read_field_arrays(prob, aft, names)
 
 
 def analyze_points(config, columns, field_names=None):
@@ -258,7 +250,7 @@ def analyze_points(config, columns, field_names=None):
     _set(prob, targets, np.ones(size), base, every)
     prob.final_setup()
     failed, reasons = _isolate(prob, aft, targets, np.ones(size), base, every)
-    values = _read(prob, names, aft)
+    values = read_field_arrays(prob, aft, names)
     recovered = 0
     if failed.any():
         idx = np.flatnonzero(failed)
