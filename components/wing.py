@@ -1,4 +1,4 @@
-"""Wing span from planform and the lift coefficient needed to carry the weight."""
+"""Wing area sized to a wing loading, span from planform, and the lift coefficient needed."""
 
 import numpy as np
 
@@ -6,6 +6,74 @@ from voltwake.components.base import PointwiseComponent
 
 #: Standard acceleration of gravity, m/s**2 (ISO 80000-3).
 G0 = 9.80665
+
+
+class WingAreaComp(PointwiseComponent):
+    r"""
+    Wing reference area sized to carry the take-off mass at a given wing loading.
+
+    .. math::
+
+        S = \frac{m_{TO}}{(m/S)}
+
+    The wing grows with the aircraft ("rubber wing" sizing at fixed wing loading, as in
+    constraint-diagram methods, common practice). Inside the sizing loop this fixes the
+    cruise lift coefficient at a given altitude, so the mass balance cannot run away through
+    a wing that is too small for the weight it ends up carrying.
+
+    Parameters
+    ----------
+    **kwargs : dict of keyword arguments
+        Keyword arguments that will be mapped into the Component options.
+    """
+
+    def setup(self):
+        """
+        Add inputs and outputs.
+        """
+        n = self.options['vec_size']
+        self.add_input('mtow', np.full(n, 7.0e4), units='kg', desc='Maximum take-off mass')
+        self.add_input(
+            'design_wing_loading',
+            np.full(n, 580.0),
+            units='kg/m**2',
+            desc='Maximum take-off mass per unit wing reference area',
+        )
+        self.add_output('wing_area', np.full(n, 120.0), units='m**2', desc='Wing reference area')
+
+    def setup_partials(self):
+        """
+        Declare the diagonal partials.
+        """
+        self.declare_diagonal_partials('wing_area', ['mtow', 'design_wing_loading'])
+
+    def compute(self, inputs, outputs):
+        """
+        Compute the wing area.
+
+        Parameters
+        ----------
+        inputs : Vector
+            Unscaled, dimensional input variables read via inputs[key].
+        outputs : Vector
+            Unscaled, dimensional output variables read via outputs[key].
+        """
+        outputs['wing_area'] = inputs['mtow'] / inputs['design_wing_loading']
+
+    def compute_partials(self, inputs, partials):
+        """
+        Compute the analytic partials.
+
+        Parameters
+        ----------
+        inputs : Vector
+            Unscaled, dimensional input variables read via inputs[key].
+        partials : Jacobian
+            Sub-jac components written to partials[output_name, input_name].
+        """
+        loading = inputs['design_wing_loading']
+        partials['wing_area', 'mtow'] = 1.0 / loading
+        partials['wing_area', 'design_wing_loading'] = -inputs['mtow'] / loading**2
 
 
 class WingGeometryComp(PointwiseComponent):

@@ -1,10 +1,10 @@
-"""Tests of the wing span and lift coefficient components."""
+"""Tests of the wing area, span and lift coefficient components."""
 
 import numpy as np
 import openmdao.api as om
 import pytest
 
-from voltwake.components.wing import LiftCoefficientComp, WingGeometryComp
+from voltwake.components.wing import LiftCoefficientComp, WingAreaComp, WingGeometryComp
 
 from partials import check_component_partials
 
@@ -17,6 +17,40 @@ def _run(component, inputs):
         prob.set_val(name, np.asarray(value, dtype=float))
     prob.run_model()
     return prob
+
+
+def test_wing_area_hand_values():
+    # S = m / (m/S): 70,000 kg at 560 kg/m**2 is 125 m**2; 36,000 / 600 = 60;
+    # 300,000 / 750 = 400.
+    prob = _run(
+        WingAreaComp(vec_size=3),
+        {'mtow': [7.0e4, 3.6e4, 3.0e5], 'design_wing_loading': [560.0, 600.0, 750.0]},
+    )
+    np.testing.assert_allclose(prob.get_val('wing_area'), [125.0, 60.0, 400.0], rtol=1e-14)
+
+
+def test_wing_area_units():
+    # A loading in lb/ft**2 is converted by OpenMDAO: 1 lb/ft**2 = 4.88243 kg/m**2
+    # (0.45359237 kg / 0.09290304 m**2, exact definitions of the pound and foot).
+    prob = om.Problem(reports=False)
+    prob.model.add_subsystem('comp', WingAreaComp(), promotes=['*'])
+    prob.setup()
+    prob.set_val('mtow', 0.45359237e4, units='kg')
+    prob.set_val('design_wing_loading', 100.0, units='lbm/ft**2')
+    prob.run_model()
+    assert prob.get_val('wing_area', units='ft**2')[0] == pytest.approx(100.0, rel=1e-12)
+
+
+@pytest.mark.parametrize(
+    'point',
+    [
+        {'mtow': [7.0e4, 3.6e4, 3.0e5], 'design_wing_loading': [560.0, 600.0, 750.0]},
+        {'mtow': [2.0e3, 9.0e4, 5.5e5], 'design_wing_loading': [150.0, 420.0, 800.0]},
+    ],
+)
+def test_wing_area_partials(point):
+    # atol=0 so that only the relative error counts (complex step is exact to round-off).
+    check_component_partials(WingAreaComp(vec_size=3), point, atol=0.0)
 
 
 def test_wingspan_hand_values():
