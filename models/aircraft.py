@@ -2,8 +2,9 @@
 The coupled sizing model of a conventional or turbo-electric airliner.
 
 Wiring only: every piece of physics lives in :mod:`voltwake.components`. The sizing
-loop (mass -> lift -> drag -> thrust -> engine and aft-fan size, nacelle drag, electrical
-chain -> fuel -> mass) is one group solved by Newton's method with a direct linear solver.
+loop (mass -> wing area when the wing is sized to a wing loading -> lift -> drag -> thrust
+-> engine and aft-fan size, nacelle drag, electrical chain -> fuel -> mass) is one group
+solved by Newton's method with a direct linear solver.
 """
 
 import numpy as np
@@ -33,7 +34,7 @@ from voltwake.components.thermal_management import ThermalManagementComp
 from voltwake.components.thrust_split import ThrustSplitComp
 from voltwake.components.turbofan_core import EngineMassComp, TurbofanCoreComp
 from voltwake.components.weights import AirframeMassComp, MassBuildUpComp
-from voltwake.components.wing import LiftCoefficientComp, WingGeometryComp
+from voltwake.components.wing import LiftCoefficientComp, WingAreaComp, WingGeometryComp
 from voltwake.models.solvers import PointwiseDirectSolver, SizingNewtonSolver
 
 #: Electrical devices from the aft-fan shaft back to the turbofan shafts.
@@ -63,6 +64,12 @@ _OPTIONS = {
         types=(int, float),
         default=7.0,
         desc='Exponent n of the power-law boundary-layer profile.',
+    ),
+    'wing_sizing': dict(
+        values=('area', 'loading'),
+        default='area',
+        desc="'area': the wing reference area is an input; 'loading': the wing is sized in the "
+        'loop to carry MTOW at the input wing loading.',
     ),
     'max_iterations': dict(
         types=int, default=30, desc='Newton iteration limit of the sizing loop.'
@@ -522,6 +529,7 @@ class SizingLoop(om.Group):
             'num_engines',
             'aft_fan',
             'profile_exponent',
+            'wing_sizing',
             'max_iterations',
             'tolerance',
         )
@@ -532,6 +540,14 @@ class SizingLoop(om.Group):
         """
         opt = self.options
         n = opt['vec_size']
+        if opt['wing_sizing'] == 'loading':
+            _add(
+                self,
+                'wing_area',
+                WingAreaComp(vec_size=n),
+                ['mtow', 'design_wing_loading'],
+                ['wing_area'],
+            )
         _add(self, 'aerodynamics', AerodynamicsGroup(vec_size=n), ['*'], ['*'])
         _add(
             self,
@@ -842,6 +858,7 @@ class AircraftModel(om.Group):
             'num_engines',
             'aft_fan',
             'profile_exponent',
+            'wing_sizing',
             'max_iterations',
             'tolerance',
         )
@@ -853,9 +870,6 @@ class AircraftModel(om.Group):
         opt = self.options
         n = opt['vec_size']
         _add(self, 'cruise', FlightConditionGroup(vec_size=n), ['*'], ['*'])
-        _add(
-            self, 'wing', WingGeometryComp(vec_size=n), ['wing_area', 'aspect_ratio'], ['wingspan']
-        )
         _add(
             self,
             'fuselage',
@@ -887,11 +901,15 @@ class AircraftModel(om.Group):
                 'num_engines',
                 'aft_fan',
                 'profile_exponent',
+                'wing_sizing',
                 'max_iterations',
                 'tolerance',
             )
         }
         _add(self, 'sizing', SizingLoop(**loop), ['*'], ['*'])
+        _add(
+            self, 'wing', WingGeometryComp(vec_size=n), ['wing_area', 'aspect_ratio'], ['wingspan']
+        )
         if opt['aft_fan']:
             _add(self, 'power_saving', PowerSavingGroup(vec_size=n), ['*'], ['*'])
         _add(

@@ -147,11 +147,11 @@ def test_parse_quantity_converts(written, units, expected):
 
 
 def test_unknown_key_suggests_the_close_one(tmp_path):
-    text, line = set_line(demo_text(), 'wing', 'area', 'aera: 122 m**2')
+    text, line = set_line(demo_text(), 'wing', 'loading', 'laoding: 600 kg/m**2')
     path = write(tmp_path, text)
     err = config_error(path)
-    assert_points_at(err, path, line, 'wing.aera')
-    assert "unknown key (did you mean 'area'?)" in err.message
+    assert_points_at(err, path, line, 'wing.laoding')
+    assert "unknown key (did you mean 'loading'?)" in err.message
     assert 'aspect_ratio' in err.message  # the keys known here are listed
 
 
@@ -164,8 +164,37 @@ def test_unknown_section_suggests_the_close_one(tmp_path):
     assert "did you mean 'wing'?" in err.message
 
 
+def test_wing_takes_an_area_or_a_loading_not_both(tmp_path):
+    text = demo_text()
+    line = key_line(text, 'wing', 'loading')
+    both = text.replace('  loading: 600', '  area: 122 m**2\n  loading: 600', 1)
+    err = config_error(write(tmp_path, both, name='both.yaml'))
+    assert_points_at(err, str(tmp_path / 'both.yaml'), line + 1, 'wing.loading')
+    assert "got both 'area' and 'loading'" in err.message
+    err = config_error(TURBO, ['wing.area=120'])  # an override that adds the other one
+    assert "got both 'area' and 'loading'" in err.message
+    neither = write(tmp_path, drop_line(text, 'wing', 'loading'), name='neither.yaml')
+    err = config_error(neither)
+    assert err.path == 'wing' and err.line == text.splitlines().index('wing:') + 1
+    assert 'expected wing.area' in err.message and 'or wing.loading' in err.message
+
+
+def test_a_fixed_wing_area_is_an_input_and_a_loading_sizes_the_wing(tmp_path):
+    text = demo_text().replace('  loading: 600 kg/m**2', '  area: 1300 ft**2', 1)
+    config = load_config(write(tmp_path, text))
+    # 1 ft = 0.3048 m exactly (NIST SP 811, appendix B.8).
+    assert config.value('wing.area') == pytest.approx(1300 * 0.3048**2, rel=1e-12)
+    assert 'wing.loading' not in config.values
+    assert config.model_options()['wing_sizing'] == 'area'
+    assert 'wing_area' in config.model_inputs()
+    sized = load_config(TURBO)
+    assert sized.model_options()['wing_sizing'] == 'loading'
+    assert sized.model_inputs()['design_wing_loading'] == (600.0, 'kg/m**2')
+    assert 'wing_area' not in sized.model_inputs()
+
+
 def test_unknown_key_with_nothing_close_has_no_suggestion(tmp_path):
-    text, line = set_line(demo_text(), 'wing', 'area', 'zzzz: 1')
+    text, line = set_line(demo_text(), 'wing', 'loading', 'zzzz: 1')
     path = write(tmp_path, text)
     err = config_error(path)
     assert_points_at(err, path, line, 'wing.zzzz')
@@ -357,7 +386,7 @@ def test_wrong_choice_suggests(tmp_path):
             'a value > 0',
         ),
         ('wing', 'aspect_ratio', 'aspect_ratio: 0', 'wing.aspect_ratio', '0', 'a value > 0'),
-        ('wing', 'area', 'area: 0 m**2', 'wing.area', "'0 m**2'", 'a value > 0'),
+        ('wing', 'loading', 'loading: 0 kg/m**2', 'wing.loading', "'0 kg/m**2'", 'a value > 0'),
         # Mach number at or above one, or zero
         (
             'mission',
@@ -400,8 +429,8 @@ def test_wrong_choice_suggests(tmp_path):
             'inf',
             'a finite number',
         ),
-        ('wing', 'area', 'area: -.inf', 'wing.area', '-inf', 'a finite number'),
-        ('wing', 'area', 'area: .NaN', 'wing.area', 'nan', 'a finite number'),
+        ('wing', 'loading', 'loading: -.inf', 'wing.loading', '-inf', 'a finite number'),
+        ('wing', 'loading', 'loading: .NaN', 'wing.loading', 'nan', 'a finite number'),
         ('mission', 'range', 'range: nan nmi', 'mission.range', 'nan', 'a finite number'),
         ('mission', 'range', 'range: inf km', 'mission.range', 'inf', 'a finite number'),
         ('mission', 'range', 'range: 1e400', 'mission.range', 'inf', 'a finite number'),
@@ -572,12 +601,12 @@ def test_missing_file(tmp_path):
 
 def test_duplicate_key_names_both_lines(tmp_path):
     text = demo_text()
-    first = key_line(text, 'wing', 'area')
+    first = key_line(text, 'wing', 'loading')
     lines = text.splitlines()
-    lines.insert(first + 1, '  area: 130 m**2')  # after aspect_ratio
+    lines.insert(first + 1, '  loading: 650 kg/m**2')  # after aspect_ratio
     file = write(tmp_path, '\n'.join(lines) + '\n')
     err = config_error(file)
-    assert_points_at(err, file, first + 2, 'wing.area')
+    assert_points_at(err, file, first + 2, 'wing.loading')
     assert f'duplicate key (first given on line {first})' in err.message
 
 
@@ -686,14 +715,19 @@ def test_zero_thrust_fraction_is_the_conventional_aircraft():
 def test_string_overrides_apply_with_units():
     config = load_config(
         TURBO,
-        ['wing.area=130 m**2', 'mission.range = 1200 nmi', 'turbofans.count=3', "aircraft=renamed"],
+        [
+            'wing.loading=650 kg/m**2',
+            'mission.range = 1200 nmi',
+            'turbofans.count=3',
+            "aircraft=renamed",
+        ],
     )
-    assert config.value('wing.area') == 130.0
+    assert config.value('wing.loading') == 650.0
     # 1 nmi = 1852 m exactly (NIST SP 811, appendix B.8).
     assert config.value('mission.range') == pytest.approx(1200 * 1852.0, rel=1e-12)
     assert config.value('turbofans.count') == 3
     assert config.name == 'renamed'
-    assert config.origins['wing.area'] == ('--set', None)
+    assert config.origins['wing.loading'] == ('--set', None)
     assert config.origins['wing.aspect_ratio'][0] == TURBO
 
 
@@ -701,11 +735,11 @@ def test_dict_overrides_apply_and_take_sections():
     config = load_config(
         TURBO,
         {
-            'wing.area': 125.0,
+            'wing.loading': 625.0,
             'electrical.motor': {'efficiency': 0.95, 'specific_power': '12 kW/kg'},
         },
     )
-    assert config.value('wing.area') == 125.0
+    assert config.value('wing.loading') == 625.0
     assert config.value('electrical.motor.efficiency') == 0.95
     assert config.value('electrical.motor.specific_power') == 12000.0
 
@@ -716,8 +750,9 @@ def test_overrides_apply_before_validation(tmp_path):
     config_error(file)  # invalid as written ...
     config = load_config(file, ['wing.aspect_ratio=9'])  # ... valid once overridden
     assert config.value('wing.aspect_ratio') == 9.0
-    missing = write(tmp_path, drop_line(demo_text(), 'wing', 'area'), name='missing.yaml')
+    missing = write(tmp_path, drop_line(demo_text(), 'wing', 'loading'), name='missing.yaml')
     assert load_config(missing, {'wing.area': 100}).value('wing.area') == 100.0
+    assert load_config(missing, {'wing.loading': 550}).value('wing.loading') == 550.0
 
 
 def test_override_yaml_values():
@@ -787,25 +822,25 @@ def test_alias_bomb_in_an_override_is_refused():
 
 
 def test_override_errors_keep_their_origin_through_with_overrides():
-    config = load_config(TURBO, ['wing.area=130'])
+    config = load_config(TURBO, ['wing.loading=650'])
     err = config_error(config, ['wing.aspect_ratio=-2'])
     assert_points_at(err, '--set', None, 'wing.aspect_ratio')
     again = config.with_overrides(['wing.aspect_ratio=11'])
-    assert again.value('wing.area') == 130.0 and again.value('wing.aspect_ratio') == 11.0
-    assert again.origins['wing.area'] == ('--set', None)
+    assert again.value('wing.loading') == 650.0 and again.value('wing.aspect_ratio') == 11.0
+    assert again.origins['wing.loading'] == ('--set', None)
 
 
 def test_overrides_do_not_change_the_input():
     data = yamlio.read_yaml_file(TURBO)[0]
     before = repr(data)
-    load_config(data, {'wing.area': 99.0, 'solver.max_iterations': 5})
+    load_config(data, {'wing.loading': 650.0, 'solver.max_iterations': 5})
     assert repr(data) == before
 
 
 def test_file_errors_keep_file_and_line_next_to_overrides(tmp_path):
     text, line = set_line(demo_text(), 'wing', 'oswald_efficiency', 'oswald_efficiency: 2')
     file = write(tmp_path, text)
-    err = config_error(file, ['wing.area=130'])
+    err = config_error(file, ['wing.loading=650'])
     assert_points_at(err, file, line, 'wing.oswald_efficiency')
 
 

@@ -1261,7 +1261,7 @@ def test_file_above_the_size_limit_is_refused_unread(tmp_path, capfd):
 
 
 @pytest.mark.parametrize(
-    'section, key', [('wing', 'area'), ('electrical', 'generator'), ('mission', None)]
+    'section, key', [('wing', 'loading'), ('electrical', 'generator'), ('mission', None)]
 )
 def test_duplicate_keys_are_refused_naming_both_lines(tmp_path, capfd, section, key):
     text = TEXTS['turbo']

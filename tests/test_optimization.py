@@ -15,9 +15,12 @@ from voltwake.optimization import build_problem, optimize
 TURBO_ELECTRIC = demo_path('turbo_electric')
 
 
-def _conventional_with(optimization):
+def _conventional_with(optimization, wing_area=None):
     with open(demo_path('conventional')) as handle:
         data = yaml.safe_load(handle)
+    if wing_area is not None:  # a fixed wing area instead of the demo's wing loading
+        del data['wing']['loading']
+        data['wing']['area'] = wing_area
     data['optimization'] = optimization
     return load_config(data)
 
@@ -37,7 +40,8 @@ def test_wing_area_for_least_fuel_gives_the_best_lift_coefficient():
         {
             'objective': 'block_fuel',
             'design_variables': {'wing.area': {'lower': '60 m**2', 'upper': '250 m**2'}},
-        }
+        },
+        wing_area='122 m**2',
     )
     result = optimize(config)
     assert result.success, result.message
@@ -185,19 +189,26 @@ def test_design_variable_scaling_and_bad_specs():
 
     prob = build_problem(
         TURBO_ELECTRIC,
-        {'optimization.design_variables.wing.area': {'lower': 95, 'upper': 150, 'ref': 100}},
+        {'optimization.design_variables.wing.loading': {'lower': 450, 'upper': 750, 'ref': 455}},
     )
     meta = prob.model.get_design_vars()
-    # ref0 defaults to the lower bound: scaler 1 / (100 - 95).
-    assert meta['wing_area']['total_scaler'] == pytest.approx(0.2)
+    # ref0 defaults to the lower bound: scaler 1 / (455 - 450).
+    assert meta['design_wing_loading']['total_scaler'] == pytest.approx(0.2)
     with pytest.raises(ConfigError, match='ref must differ from ref0'):
         build_problem(
             TURBO_ELECTRIC,
-            {'optimization.design_variables.wing.area': {'lower': 95, 'upper': 150, 'ref0': 150}},
+            {
+                'optimization.design_variables.wing.loading': {
+                    'lower': 450,
+                    'upper': 750,
+                    'ref0': 750,
+                }
+            },
         )
     with pytest.raises(ConfigError, match='not below upper'):
         build_problem(
-            TURBO_ELECTRIC, {'optimization.design_variables.wing.area': {'lower': 150, 'upper': 95}}
+            TURBO_ELECTRIC,
+            {'optimization.design_variables.wing.loading': {'lower': 750, 'upper': 450}},
         )
     with pytest.raises(ConfigError, match='not a configurable model input'):
         build_problem(

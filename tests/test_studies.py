@@ -41,17 +41,19 @@ def test_points_that_do_not_close_are_marked_not_dropped():
 
 def test_far_points_close_and_impossible_ones_are_reported():
     # 4,500 km with 16 t of payload is far from the configured design but closes (MTOW near
-    # 118 t); 5,500 km with 16 t has no positive MTOW (the single analysis says so too).
+    # 111 t); 16,000 km with 16 t has no solution: the weight runs away (the single analysis
+    # does not close either).
     columns = {
-        'mission.range': [2.0e6, 4.5e6, 5.5e6],
+        'mission.range': [2.0e6, 4.5e6, 16.0e6],
         'mission.payload': [10000.0, 16000.0, 16000.0],
     }
     batch = analyze_points(TURBO_ELECTRIC, columns)
     assert batch.closed.tolist() == [True, True, False]
+    assert 'weight grows without bound' in batch.reasons[2]
     single = voltwake.analyze(TURBO_ELECTRIC, {'mission.range': 4.5e6, 'mission.payload': 16000.0})
     assert batch.values['mtow_kg'][1] == pytest.approx(single.mtow_kg, rel=1e-8)
     with pytest.raises(voltwake.NotClosedError):
-        voltwake.analyze(TURBO_ELECTRIC, {'mission.range': 5.5e6, 'mission.payload': 16000.0})
+        voltwake.analyze(TURBO_ELECTRIC, {'mission.range': 16.0e6, 'mission.payload': 16000.0})
 
 
 def test_map_rows_and_csv_units():

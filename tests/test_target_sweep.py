@@ -22,7 +22,7 @@ TARGETS = {
 
 #: Design variables of the demo that stay free when both aft-fan variables are swept.
 FREE = [
-    'wing.area',
+    'wing.loading',
     'wing.aspect_ratio',
     'turbofans.fan_pressure_ratio',
     'turbofans.rated_to_cruise_thrust',
@@ -168,7 +168,7 @@ def test_failed_points_keep_their_rows_with_nan_numbers():
     for point in sweep['points']:
         assert point['success'] is False and point['message']
         assert math.isnan(point['block_fuel_kg']) and math.isnan(point['fuel_burn_change_percent'])
-        assert math.isnan(point['dv:wing.area'])
+        assert math.isnan(point['dv:wing.loading'])
         assert point['active_constraints'] == []
 
 

@@ -89,7 +89,8 @@ def _targets(config, columns):
 def _point_residuals(prob):
     """Largest residual of each point relative to its output (after apply_nonlinear)."""
     loop = prob.model.sizing
-    loop.run_apply_nonlinear()
+    with np.errstate(all='ignore'):
+        loop.run_apply_nonlinear()
     size = prob.model.options['vec_size']
     worst = np.zeros(size)
     outs = dict(loop._outputs._abs_item_iter())

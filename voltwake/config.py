@@ -138,6 +138,7 @@ class Config:
         opts = {
             'num_engines': self.values['turbofans.count'],
             'aft_fan': self.has_aft_fan,
+            'wing_sizing': 'loading' if 'wing.loading' in self.values else 'area',
             'max_iterations': self.values.get('solver.max_iterations', 30),
             'tolerance': self.values.get('solver.tolerance', 1e-10),
         }
@@ -448,7 +449,7 @@ def _walk(schema, data, path, lines, source, values, origins, overridden):
             raise ConfigError(
                 f'missing required key ({field.doc}); expected {_expectation(field)}', **where
             )
-        else:
+        elif field.default is not None:
             values[dotted] = field.default
             origins[dotted] = ('default', None)
 
@@ -521,7 +522,27 @@ def _validate(data, source, lines, overrides, overridden=()):
             f"'{present}' is given)",
             **where,
         )
+    _check_wing(data, values, lines, source, overridden)
     return Config(data, values, origins, source)
+
+
+def _check_wing(data, values, lines, source, overridden):
+    """Exactly one of ``wing.area`` and ``wing.loading`` sizes the wing."""
+    given = [key for key in ('area', 'loading') if f'wing.{key}' in values]
+    if len(given) == 1:
+        return
+    if given:
+        where = _where(('wing', 'loading'), lines, source, overridden)
+        raise ConfigError(
+            f"got both 'area' and 'loading' ({_show(data['wing']['loading'])}); expected one "
+            'of them: a fixed wing area, or a wing loading the wing is sized to',
+            **where,
+        )
+    raise ConfigError(
+        'missing key; expected wing.area (a fixed reference area, m**2) or wing.loading '
+        '(MTOW per wing area the wing is sized to, kg/m**2)',
+        **_where(('wing',), lines, source, overridden),
+    )
 
 
 def load_config(path_or_dict=None, overrides=None):

@@ -13,9 +13,10 @@ from openmdao.utils.om_warnings import DerivativesWarning
 from .analysis import build_model_problem, run_sizing
 from .config import load_config
 
-#: Outputs and inputs whose total derivatives are checked.
-TOTALS_OF = ['block_fuel', 'mtow', 'lift_to_drag', 'overall_efficiency', 'wingspan']
-TOTALS_WRT = ['wing_area', 'aspect_ratio', 'turbofan_fan_pressure_ratio', 'range', 'payload']
+#: Outputs and inputs whose total derivatives are checked (the wing's size enters as its area
+#: or, for a wing sized to a wing loading, as that loading: see :func:`checked_totals`).
+TOTALS_OF = ['block_fuel', 'mtow', 'lift_to_drag', 'overall_efficiency', 'wingspan', 'wing_area']
+TOTALS_WRT = ['aspect_ratio', 'turbofan_fan_pressure_ratio', 'range', 'payload']
 AFT_TOTALS_OF = ['power_saving_coefficient', 'electrical_mass', 'aft_fan_diameter']
 AFT_TOTALS_WRT = [
     'aft_thrust_fraction',
@@ -23,6 +24,30 @@ AFT_TOTALS_WRT = [
     'cable_voltage',
     'motor_specific_power',
 ]
+
+
+def checked_totals(config):
+    """
+    Return the outputs and inputs whose total derivatives are checked for a design.
+
+    Parameters
+    ----------
+    config : Config
+        The configuration.
+
+    Returns
+    -------
+    of, wrt : list of str
+        Promoted output and input names.
+    """
+    of = TOTALS_OF + (AFT_TOTALS_OF if config.has_aft_fan else [])
+    if config.model_options()['wing_sizing'] == 'loading':
+        wing = ['design_wing_loading']
+    else:
+        of = [name for name in of if name != 'wing_area']
+        wing = ['wing_area']
+    wrt = wing + TOTALS_WRT + (AFT_TOTALS_WRT if config.has_aft_fan else [])
+    return of, wrt
 
 
 def _spread(prob, config, vec_size):
@@ -129,9 +154,7 @@ def check_derivatives(config=None, vec_size=3, out=print):
         f'complex step at vec_size {vec_size}'
     )
     out(f'  worst relative error {rel:.3e} ({comp}: {pair}; absolute {err:.3e})')
-    of = TOTALS_OF + (AFT_TOTALS_OF if config.has_aft_fan else [])
-    wrt = TOTALS_WRT + (AFT_TOTALS_WRT if config.has_aft_fan else [])
-    totals = check_totals_cs(prob, of, wrt)
+    totals = check_totals_cs(prob, *checked_totals(config))
     t_worst = (0.0, '')
     for (o, w), entry in totals.items():
         trel = _relative(entry)[0]

@@ -112,7 +112,14 @@ SECTIONS = {
         'heating_value': _q('J/kg', 'lower heating value of the fuel', 'fuel_heating_value'),
     },
     'wing': {
-        'area': _q('m**2', 'reference wing area', 'wing_area'),
+        # Exactly one of area and loading is given (checked in voltwake.config).
+        'area': _q('m**2', 'reference wing area (fixed)', 'wing_area', default=None),
+        'loading': _q(
+            'kg/m**2',
+            'MTOW per unit wing area; the wing is sized to carry MTOW at this loading',
+            'design_wing_loading',
+            default=None,
+        ),
         'aspect_ratio': _n('wing aspect ratio', 'aspect_ratio'),
         'oswald_efficiency': _n('Oswald span efficiency', 'oswald_efficiency', check='fraction'),
     },
