@@ -52,8 +52,23 @@ def test_far_points_close_and_impossible_ones_are_reported():
     assert 'weight grows without bound' in batch.reasons[2]
     single = voltwake.analyze(TURBO_ELECTRIC, {'mission.range': 4.5e6, 'mission.payload': 16000.0})
     assert batch.values['mtow_kg'][1] == pytest.approx(single.mtow_kg, rel=1e-8)
-    with pytest.raises(voltwake.NotClosedError):
+    with pytest.raises(voltwake.NotClosedError, match='no solution past .* grows without bound'):
         voltwake.analyze(TURBO_ELECTRIC, {'mission.range': 16.0e6, 'mission.payload': 16000.0})
+
+
+def test_a_single_analysis_far_from_the_start_closes_by_continuation():
+    # 12,000 km with 16 t: Newton's method from the default start diverges on its first step,
+    # yet the design has a solution (MTOW near 422 t). The single analysis walks to it from
+    # the same aircraft on a tenth of the range, and agrees with the batch analysis.
+    overrides = {'mission.range': 12.0e6, 'mission.payload': 16000.0}
+    single = voltwake.analyze(TURBO_ELECTRIC, overrides)
+    assert single.continuation and single.to_dict()['closed_by_continuation']
+    batch = analyze_points(TURBO_ELECTRIC, {path: [v] for path, v in overrides.items()})
+    assert batch.closed[0] and batch.recovered == 1
+    assert single.mtow_kg == pytest.approx(batch.values['mtow_kg'][0], rel=1e-8)
+    assert single.mtow_kg > 4.0e5
+    # A design that closes from the default start does not need the walk.
+    assert not voltwake.analyze(TURBO_ELECTRIC).continuation
 
 
 def test_map_rows_and_csv_units():

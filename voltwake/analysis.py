@@ -94,6 +94,9 @@ class AnalysisResult:
         Newton iterations of the sizing loop.
     problem : om.Problem or None
         The OpenMDAO problem, for scripting.
+    continuation : bool
+        The design closed only by the continuation from the same aircraft on a short range
+        (``iterations`` then counts the final re-solve).
     """
 
     name: str
@@ -101,6 +104,7 @@ class AnalysisResult:
     values: dict
     iterations: int = 0
     problem: object = None
+    continuation: bool = False
 
     def __getattr__(self, key):
         """
@@ -128,12 +132,14 @@ class AnalysisResult:
         Returns
         -------
         dict
-            ``name``, ``converged``, ``newton_iterations`` and every field.
+            ``name``, ``converged``, ``newton_iterations``, ``closed_by_continuation`` and
+            every field.
         """
         return {
             'name': self.name,
             'converged': self.converged,
             'newton_iterations': self.iterations,
+            'closed_by_continuation': self.continuation,
             **self.values,
         }
 
@@ -248,6 +254,7 @@ def read_fields(prob, aft_fan, index=0):
 
 
 _CLOSED = 'the sizing loop did not close: '
+_NO_CONVERGENCE = 'no convergence'
 
 #: Checks of a converged state, in order: (test of the point, reason when it fails).
 _CHECKS = [
@@ -385,7 +392,7 @@ def run_sizing(prob, aft_fan):
         if reason is None:
             mtow = np.real(prob.get_val('mtow'))
             reason = (
-                _CLOSED + 'no convergence within '
+                _CLOSED + _NO_CONVERGENCE + ' within '
                 f"{solver.options['maxiter']} Newton iterations (MTOW "
                 f'{np.max(mtow):,.6g} kg at the last finite iterate)'
             )
@@ -416,8 +423,26 @@ def analyze(config=None, overrides=None, keep_problem=True):
     """
     config = load_config(config, overrides)
     prob = build_model_problem(config)
-    iterations = run_sizing(prob, config.has_aft_fan)
+    continued = False
+    try:
+        iterations = run_sizing(prob, config.has_aft_fan)
+    except NotClosedError as err:
+        # A start far from the solution can fail where a solution exists: walk to the design
+        # from the same aircraft on a short range (batch builds on this module, hence the
+        # late import).
+        from .batch import close_by_continuation
+
+        prob, reason = close_by_continuation(config)
+        if prob is None:
+            # A diagnosis of the failed solve stands; a bare non-convergence gives way to
+            # what the walk found.
+            generic = _NO_CONVERGENCE in str(err)
+            raise NotClosedError(reason if generic and reason else str(err)) from None
+        iterations = run_sizing(prob, config.has_aft_fan)
+        continued = True
     values = read_fields(prob, config.has_aft_fan)
     if not all(math.isfinite(v) for v in values.values()):
         raise NotClosedError('the sizing loop returned non-finite values')
-    return AnalysisResult(config.name, True, values, iterations, prob if keep_problem else None)
+    return AnalysisResult(
+        config.name, True, values, iterations, prob if keep_problem else None, continued
+    )

@@ -24,6 +24,8 @@ from .errors import ConfigError
 
 #: Largest relative residual of a point accepted as converged.
 RESIDUAL_TOLERANCE = 1e-7
+#: Range of the easy design a single analysis walks from (fraction of the design range).
+EASY_RANGE_FRACTION = 0.1
 #: First continuation step (fraction of the way from the base design to the point); a step
 #: that stalls is halved, down to FIRST_STEP / 16.
 FIRST_STEP = 0.25
@@ -171,13 +173,14 @@ def _setup(config, targets, size):
     return prob, base
 
 
-def _continue(config, targets, names):
+def _continue(config, targets, names, origin='the configured design'):
     """
     Walk points that did not close from the base design to their own inputs.
 
     The steps halve where the walk stalls; a point that stalls for good with its MTOW higher
-    there than at the configured design is past a fold of the mass balance (the weight grows
-    without bound).
+    there than at the base design (``origin`` in the reasons) is past a fold of the mass
+    balance (the weight grows without bound). Returns the closed flags, the reasons, the
+    result fields and the problem holding the walked states.
     """
     size = len(next(iter(targets.values()))[2])
     prob, base = _setup(config, targets, size)
@@ -209,7 +212,7 @@ def _continue(config, targets, names):
             if last[i] > first[i] * (1.0 + 1e-6):
                 reasons[i] = (
                     'the sizing loop did not close: no solution past '
-                    f'{100 * fraction[i]:.0f}% of the way from the configured design (MTOW '
+                    f'{100 * fraction[i]:.0f}% of the way from {origin} (MTOW '
                     f'{first[i]:,.0f} kg there, {last[i]:,.0f} kg at {100 * fraction[i]:.0f}%): '
                     'weight grows without bound'
                 )
@@ -221,7 +224,36 @@ def _continue(config, targets, names):
     _set(prob, targets, fraction, base, every)
     ok = _solve(prob, aft)[0]
     closed &= ok
-    return closed, reasons, read_field_arrays(prob, aft, names)
+    return closed, reasons, read_field_arrays(prob, aft, names), prob
+
+
+def close_by_continuation(config):
+    """
+    Close one design that Newton's method could not close from its default start.
+
+    The same aircraft on a tenth of its design range (:data:`EASY_RANGE_FRACTION`) carries
+    little fuel, so its mass balance is close to the default start; the continuation then
+    walks the range back up to the design range, each step starting from the last closed
+    design.
+
+    Parameters
+    ----------
+    config : Config
+        The design.
+
+    Returns
+    -------
+    prob : om.Problem or None
+        A problem (``vec_size`` 1) holding the closed design, or None when the walk failed.
+    reason : str or None
+        Why the walk failed (None when it succeeded or gave no reason).
+    """
+    design_range = config.value('mission.range')
+    easy = config.with_overrides({'mission.range': EASY_RANGE_FRACTION * design_range})
+    targets = {'mission.range': ('range', 'm', np.array([design_range]))}
+    origin = f'the same design at {100 * EASY_RANGE_FRACTION:.0f}% of its range'
+    closed, reasons, _, prob = _continue(easy, targets, list(FIELDS)[:1], origin)
+    return (prob, None) if closed[0] else (None, reasons[0])
 
 
 def analyze_points(config, columns, field_names=None):
@@ -256,7 +288,7 @@ def analyze_points(config, columns, field_names=None):
     if failed.any():
         idx = np.flatnonzero(failed)
         sub = {path: (t, u, arr[idx]) for path, (t, u, arr) in targets.items()}
-        closed, why, sub_values = _continue(config, sub, names)
+        closed, why, sub_values, _ = _continue(config, sub, names)
         for j, i in enumerate(idx):
             if closed[j]:
                 failed[i] = False

@@ -80,7 +80,10 @@ def analysis_text(result):
         The summary.
     """
     values = result.values
-    lines = [f'{result.name}', f'  sizing loop closed in {result.iterations} Newton iterations']
+    closed = f'  sizing loop closed in {result.iterations} Newton iterations'
+    if result.continuation:
+        closed = '  sizing loop closed by continuation from the same design on a short range'
+    lines = [f'{result.name}', closed]
     for title, rows in _ROWS:
         if title.startswith('Aft fan') and values.get('aft_thrust_fraction', 0.0) == 0.0:
             continue
