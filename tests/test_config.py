@@ -921,3 +921,23 @@ def test_model_inputs_are_finite_si_numbers():
     for path in (TURBO, CONVENTIONAL):
         for name, (value, _) in load_config(path).model_inputs().items():
             assert math.isfinite(value), name
+
+
+@pytest.mark.parametrize(
+    'text, expected',
+    [
+        ('2kW/kg', 2000.0),
+        ('2 kW/kg', 2000.0),
+        ('1.5e3W/kg', 1500.0),
+        ('.5 kW/kg', 500.0),
+        ('9000', 9000.0),
+    ],
+)
+def test_the_space_between_number_and_unit_may_be_left_out(text, expected):
+    config = load_config(TURBO, {'electrical.motor.specific_power': text})
+    assert config.value('electrical.motor.specific_power') == pytest.approx(expected, rel=1e-15)
+
+
+def test_a_glued_unit_is_still_checked():
+    err = config_error(TURBO, {'electrical.motor.specific_power': '2kg'})
+    assert "unit 'kg' cannot be converted to W/kg" in err.message

@@ -37,6 +37,7 @@ _UNIT_TERM = (
 _UNIT_GROUP = re.compile(rf'\(\s*{_UNIT_TERM}\s*\){_UNIT_POWER}')
 _UNIT_EXPR = re.compile(_UNIT_TERM)
 _MAX_UNIT_CHARS = 64
+_NUMBER_AND_UNIT = re.compile(r'([-+]?(?:[0-9]+\.?[0-9]*|\.[0-9]+)(?:[eE][-+]?[0-9]+)?)\s*(.*)')
 #: Largest whole number accepted (the largest 32-bit signed integer).
 _MAX_INTEGER = 2**31 - 1
 
@@ -308,6 +309,8 @@ def parse_quantity(value, units, where):
     """
     Convert a bare number (SI) or a ``"number unit"`` string to SI ``units``.
 
+    The space between number and unit may be left out (``"2kW/kg"``).
+
     Parameters
     ----------
     value : object
@@ -325,7 +328,8 @@ def parse_quantity(value, units, where):
     expect = f"a number in {units} or a string with units such as '12 {units}'"
     if isinstance(value, str):
         text = value.strip()
-        number, _, unit = text.partition(' ')
+        glued = _NUMBER_AND_UNIT.fullmatch(text)  # '2kW/kg' as well as '2 kW/kg'
+        number, _, unit = (glued.group(1), '', glued.group(2)) if glued else text.partition(' ')
         try:
             number = float(number)
         except ValueError:
