@@ -179,6 +179,29 @@ def test_analyze_with_override_changes_the_design(analyses):
     )
 
 
+def test_analyze_flags_the_configured_constraints_a_closed_design_violates():
+    # A closed design is not necessarily a feasible one: analyze lists the constraints of the
+    # optimization section at the design, and says which are violated (exit code still 0).
+    tight = ['--set', 'optimization.constraints.wingspan={upper: 30 m}']
+    code, text, _ = run(['analyze', TURBO, *tight])
+    assert code == EXIT_OK
+    line = next(x for x in text.splitlines() if x.strip().startswith('wingspan '))
+    assert line.rstrip().endswith('VIOLATED') and '<= 30 m' in line
+    assert 'the design closes but violates' in text and 'wingspan' in text.splitlines()[-2]
+    code, stdout, _ = run(['analyze', TURBO, '--json', *tight])
+    entry = json.loads(stdout)['constraints']['wingspan']
+    span = json.loads(stdout)['wingspan_m']
+    assert entry['upper'] == 30.0 and entry['value'] == pytest.approx(span, rel=1e-12)
+    assert entry['violation'] == pytest.approx((span - 30.0) / 30.0, rel=1e-12)
+    loose = ['--set', 'optimization.constraints.wingspan={upper: 60 m}']
+    code, text, _ = run(['analyze', TURBO, *loose])
+    line = next(x for x in text.splitlines() if x.strip().startswith('wingspan '))
+    assert line.rstrip().endswith('ok')
+    # No optimization section (the conventional demo): no constraint table.
+    code, text, _ = run(['analyze', CONVENTIONAL])
+    assert code == EXIT_OK and 'Constraints of the optimization section' not in text
+
+
 def test_analyze_json_through_python_m(tmp_path):
     proc = run_subprocess(['analyze', CONVENTIONAL, '--json'], cwd=tmp_path)
     assert proc.returncode == EXIT_OK, proc.stderr

@@ -43,6 +43,12 @@ FIELDS = {
     'turbofan_cruise_thrust_kN': ('turbofan_thrust', 'kN'),
     'turbofan_shaft_power_kW': ('turbofan_shaft_power', 'kW'),
     'fuselage_drag_kN': ('fuselage_drag', 'kN'),
+    'takeoff_field_length_m': ('takeoff_field_length', 'm'),
+    'landing_field_length_m': ('landing_field_length', 'm'),
+    'approach_speed_kn': ('approach_speed', 'kn'),
+    'takeoff_thrust_to_weight': ('takeoff_thrust_to_weight', None),
+    'climb_thrust_margin': ('climb_thrust_margin', None),
+    'buffet_margin': ('buffet_margin', None),
 }
 
 #: Extra fields of a design with a wake-ingesting aft fan (zero for a conventional one).
@@ -74,6 +80,8 @@ AFT_FAN_FIELDS = {
     'inverter_loss_kW': ('inverter_loss', 'kW'),
     'motor_loss_kW': ('motor_loss', 'kW'),
     'motor_rated_power_kW': ('motor_rated_power', 'kW'),
+    'aft_fan_diameter_margin': ('aft_fan_diameter_margin', None),
+    'motor_power_margin': ('motor_power_margin', None),
 }
 
 
@@ -97,6 +105,10 @@ class AnalysisResult:
     continuation : bool
         The design closed only by the continuation from the same aircraft on a short range
         (``iterations`` then counts the final re-solve).
+    constraints : dict
+        The constraints of the config's optimisation section at this design: output name ->
+        {value, lower, upper, equals, units, violation, active} (empty without that
+        section). A closed design may still violate them.
     """
 
     name: str
@@ -105,6 +117,7 @@ class AnalysisResult:
     iterations: int = 0
     problem: object = None
     continuation: bool = False
+    constraints: dict = dataclasses.field(default_factory=dict)
 
     def __getattr__(self, key):
         """
@@ -132,8 +145,8 @@ class AnalysisResult:
         Returns
         -------
         dict
-            ``name``, ``converged``, ``newton_iterations``, ``closed_by_continuation`` and
-            every field.
+            ``name``, ``converged``, ``newton_iterations``, ``closed_by_continuation``,
+            every field and ``constraints``.
         """
         return {
             'name': self.name,
@@ -141,6 +154,7 @@ class AnalysisResult:
             'newton_iterations': self.iterations,
             'closed_by_continuation': self.continuation,
             **self.values,
+            'constraints': self.constraints,
         }
 
 
@@ -443,6 +457,14 @@ def analyze(config=None, overrides=None, keep_problem=True):
     values = read_fields(prob, config.has_aft_fan)
     if not all(math.isfinite(v) for v in values.values()):
         raise NotClosedError('the sizing loop returned non-finite values')
+    from .optimization import configured_constraints  # builds on this module
+
     return AnalysisResult(
-        config.name, True, values, iterations, prob if keep_problem else None, continued
+        config.name,
+        True,
+        values,
+        iterations,
+        prob if keep_problem else None,
+        continued,
+        configured_constraints(config, prob),
     )

@@ -237,6 +237,58 @@ def constraints(config, prob):
     return out
 
 
+def constraint_table(specs, prob):
+    """
+    Return each constraint at the problem's current (single) design point.
+
+    Parameters
+    ----------
+    specs : list of Constraint
+        The constraints.
+    prob : om.Problem
+        A problem that has been run (``vec_size`` 1).
+
+    Returns
+    -------
+    dict
+        Output name -> {value, lower, upper, equals, units, violation, active}.
+    """
+    table = {}
+    for con in specs:
+        value = float(np.real(prob.get_val(con.name, units=con.units)[0]))
+        table[con.name] = {
+            'value': value,
+            'lower': con.lower,
+            'upper': con.upper,
+            'equals': con.equals,
+            'units': con.units,
+            'violation': con.violation(value),
+            'active': con.equals is not None or _active(value, con.lower, con.upper),
+        }
+    return table
+
+
+def configured_constraints(config, prob):
+    """
+    Return the constraints of the config's optimisation section at an analysed design.
+
+    Parameters
+    ----------
+    config : Config
+        The configuration (no optimisation section: no constraints).
+    prob : om.Problem
+        The analysed problem.
+
+    Returns
+    -------
+    dict
+        As :func:`constraint_table`.
+    """
+    if 'optimization.constraints' not in config.values:
+        return {}
+    return constraint_table(constraints(config, prob), prob)
+
+
 class SizingOptimizeDriver(om.ScipyOptimizeDriver):
     """
     ScipyOptimizeDriver that survives trial points where the sizing loop does not close.
@@ -584,20 +636,8 @@ def _optimize(config, overrides, recorder_path, on_evaluation):
             'units': dv.units,
             'active': _active(value, dv.lower, dv.upper),
         }
-    cons, worst = {}, 0.0
-    for con in driver.spec_constraints:
-        value = float(np.real(prob.get_val(con.name, units=con.units)[0]))
-        viol = con.violation(value)
-        worst = max(worst, viol)
-        cons[con.name] = {
-            'value': value,
-            'lower': con.lower,
-            'upper': con.upper,
-            'equals': con.equals,
-            'units': con.units,
-            'violation': viol,
-            'active': con.equals is not None or _active(value, con.lower, con.upper),
-        }
+    cons = constraint_table(driver.spec_constraints, prob)
+    worst = max((c['violation'] for c in cons.values()), default=0.0)
     message = str(result.message) if result is not None else 'no optimiser result'
     if driver.start_note:
         message += f'; {driver.start_note}'

@@ -5,6 +5,10 @@ CAUTION = (
     'defer to the applicable airworthiness regulations and licensed engineering practice.'
 )
 
+#: Relative violation above which a configured constraint is shown as violated (that of the
+#: optimiser's feasibility test, :data:`voltwake.optimization.FEASIBILITY_TOLERANCE`).
+VIOLATION_SHOWN = 1e-5
+
 _ROWS = [
     (
         'Masses',
@@ -36,7 +40,14 @@ _ROWS = [
             ('Drag', 'cruise_drag_kN', 'kN', '{:.3f}'),
             ('TSFC', 'tsfc_g_per_kN_s', 'g/(kN s)', '{:.3f}'),
             ('Overall efficiency', 'overall_efficiency', '', '{:.4f}'),
-            ('Wing span', 'wingspan_m', 'm', '{:.2f}'),
+        ],
+    ),
+    (
+        'Wing',
+        [
+            ('Reference area', 'wing_area_m2', 'm**2', '{:.2f}'),
+            ('Loading (MTOW / area)', 'wing_loading_kg_per_m2', 'kg/m**2', '{:.1f}'),
+            ('Span', 'wingspan_m', 'm', '{:.2f}'),
         ],
     ),
     (
@@ -45,6 +56,17 @@ _ROWS = [
             ('Fan diameter', 'turbofan_fan_diameter_m', 'm', '{:.3f}'),
             ('Cruise net thrust', 'turbofan_cruise_thrust_kN', 'kN', '{:.3f}'),
             ('Rated thrust', 'turbofan_rated_thrust_kN', 'kN', '{:.2f}'),
+        ],
+    ),
+    (
+        'Performance',
+        [
+            ('Take-off field length', 'takeoff_field_length_m', 'm', '{:,.0f}'),
+            ('Take-off thrust / weight', 'takeoff_thrust_to_weight', '', '{:.4f}'),
+            ('Approach speed', 'approach_speed_kn', 'kn', '{:.1f}'),
+            ('Landing field length', 'landing_field_length_m', 'm', '{:,.0f}'),
+            ('Top-of-climb thrust margin', 'climb_thrust_margin', '', '{:.4f}'),
+            ('Buffet margin', 'buffet_margin', '', '{:.4f}'),
         ],
     ),
     (
@@ -60,9 +82,53 @@ _ROWS = [
             ('Chain efficiency', 'electrical_chain_efficiency', '', '{:.4f}'),
             ('Thermal load', 'thermal_load_kW', 'kW', '{:,.1f}'),
             ('Cable current', 'cable_current_A', 'A', '{:,.1f}'),
+            ('Aft-fan diameter margin', 'aft_fan_diameter_margin', '', '{:.4f}'),
+            ('Motor power margin', 'motor_power_margin', '', '{:.4f}'),
         ],
     ),
 ]
+
+
+def _with_wing_loading(values):
+    """Return the result fields with the wing loading they imply (MTOW / wing area)."""
+    return {**values, 'wing_loading_kg_per_m2': values['mtow_kg'] / values['wing_area_m2']}
+
+
+def _bound_text(entry):
+    parts = [
+        f'{word} {entry[key]:.6g}'
+        for key, word in (('lower', '>='), ('upper', '<='), ('equals', '='))
+        if entry[key] is not None
+    ]
+    return ', '.join(parts) + (f" {entry['units']}" if entry['units'] else '')
+
+
+def constraint_lines(table):
+    """
+    Format the configured constraints of a design, flagging those it violates.
+
+    Parameters
+    ----------
+    table : dict
+        Output name -> {value, lower, upper, equals, units, violation, ...}.
+
+    Returns
+    -------
+    list of str
+        Lines to print (none for an empty table).
+    """
+    if not table:
+        return []
+    lines = ['Constraints of the optimization section']
+    for name, entry in table.items():
+        status = 'VIOLATED' if entry['violation'] > VIOLATION_SHOWN else 'ok'
+        lines.append(f"  {name:<32s}{entry['value']:>14.6g}   {_bound_text(entry):<24s}{status}")
+    broken = [name for name, entry in table.items() if entry['violation'] > VIOLATION_SHOWN]
+    if broken:
+        lines.append(
+            f"  the design closes but violates {len(broken)} constraint(s): {', '.join(broken)}"
+        )
+    return lines
 
 
 def analysis_text(result):
@@ -79,7 +145,7 @@ def analysis_text(result):
     str
         The summary.
     """
-    values = result.values
+    values = _with_wing_loading(result.values)
     closed = f'  sizing loop closed in {result.iterations} Newton iterations'
     if result.continuation:
         closed = '  sizing loop closed by continuation from the same design on a short range'
@@ -90,6 +156,7 @@ def analysis_text(result):
         lines.append(title)
         for label, key, unit, fmt in rows:
             lines.append(f'  {label:<32s}{fmt.format(values[key]):>14s} {unit}')
+    lines += constraint_lines(result.constraints)
     lines.append(CAUTION)
     return '\n'.join(lines)
 
@@ -111,10 +178,11 @@ def comparison_text(design, reference, diff):
         The side-by-side table.
     """
     lines = [f'{"":34s}{"turbo-electric":>16s}{"reference":>16s}{"change":>10s}']
+    ours, theirs = _with_wing_loading(design.values), _with_wing_loading(reference.values)
     for title, rows in _ROWS:
         lines.append(title)
         for label, key, unit, fmt in rows:
-            a, b = design.values[key], reference.values[key]
+            a, b = ours[key], theirs[key]
             change = f'{diff[key]:+.2f}%' if key in diff else ''
             lines.append(
                 f'  {label + (" [" + unit + "]" if unit else ""):<32s}'
