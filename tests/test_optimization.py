@@ -63,6 +63,21 @@ def demo_optimum():
     return result
 
 
+def test_the_optimum_does_not_depend_on_how_the_wing_is_given(demo_optimum):
+    # The demo optimises the wing loading; with the wing area as the design variable instead
+    # (bounds that contain the same optimum) the optimiser must find the same aircraft.
+    data = load_config(TURBO_ELECTRIC).data
+    del data['wing']['loading']
+    data['wing']['area'] = '122 m**2'
+    variables = data['optimization']['design_variables']
+    del variables['wing.loading']
+    variables['wing.area'] = {'lower': '95 m**2', 'upper': '150 m**2'}
+    by_area = optimize(load_config(data))
+    assert by_area.success, by_area.message
+    for key in ('block_fuel_kg', 'mtow_kg', 'wing_area_m2', 'wingspan_m'):
+        assert by_area.outputs[key] == pytest.approx(demo_optimum.outputs[key], rel=1e-5), key
+
+
 def test_demo_optimum_reports_active_constraints_and_saves_fuel(demo_optimum):
     assert demo_optimum.failed_points == 0
     assert any(c['active'] for c in demo_optimum.constraints.values())
