@@ -137,6 +137,28 @@ def test_total_derivatives_of_the_optimisation_problem():
     assert_check_totals(data, atol=1e-9, rtol=1e-7)
 
 
+def test_cruise_altitude_as_a_design_variable(demo_optimum):
+    # Any configured input can be a design variable; the cruise altitude goes through the
+    # ISA (both layers) into every discipline. Start in the troposphere; the bounds reach the
+    # stratosphere.
+    overrides = {
+        'optimization.design_variables.mission.cruise_altitude': {
+            'lower': '9000 m',
+            'upper': '12500 m',
+        }
+    }
+    prob = build_problem(TURBO_ELECTRIC, overrides)
+    prob.run_model()
+    from voltwake.derivatives import check_totals_cs
+
+    assert_check_totals(check_totals_cs(prob, driver_scaling=True), atol=1e-9, rtol=1e-7)
+    result = optimize(TURBO_ELECTRIC, overrides)
+    assert result.success, result.message
+    # A free altitude can only do as well or better than the fixed 35,000 ft.
+    assert result.outputs['block_fuel_kg'] <= demo_optimum.outputs['block_fuel_kg'] * (1 + 1e-6)
+    assert 9000.0 <= result.design['mission.cruise_altitude']['value'] <= 12500.0
+
+
 def test_no_finite_difference_anywhere_in_the_model():
     prob = build_problem(TURBO_ELECTRIC)
     for system in prob.model.system_iter(include_self=True, recurse=True):

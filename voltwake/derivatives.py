@@ -16,7 +16,7 @@ from .config import load_config
 #: Outputs and inputs whose total derivatives are checked (the wing's size enters as its area
 #: or, for a wing sized to a wing loading, as that loading: see :func:`checked_totals`).
 TOTALS_OF = ['block_fuel', 'mtow', 'lift_to_drag', 'overall_efficiency', 'wingspan', 'wing_area']
-TOTALS_WRT = ['aspect_ratio', 'turbofan_fan_pressure_ratio', 'range', 'payload']
+TOTALS_WRT = ['aspect_ratio', 'turbofan_fan_pressure_ratio', 'range', 'payload', 'altitude']
 AFT_TOTALS_OF = ['power_saving_coefficient', 'electrical_mass', 'aft_fan_diameter']
 AFT_TOTALS_WRT = [
     'aft_thrust_fraction',
