@@ -247,6 +247,10 @@ def test_design_variable_scaling_and_bad_specs():
             TURBO_ELECTRIC,
             {'optimization.design_variables.wing.loading': {'lower': 750, 'upper': 450}},
         )
+    with pytest.raises(ConfigError, match='gives wing.loading instead'):
+        build_problem(
+            TURBO_ELECTRIC, {'optimization.design_variables.wing.area': {'lower': 95, 'upper': 150}}
+        )
     with pytest.raises(ConfigError, match='not a configurable model input'):
         build_problem(
             TURBO_ELECTRIC, {'optimization.design_variables.wing.span': {'lower': 1, 'upper': 2}}

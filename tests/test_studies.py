@@ -10,6 +10,7 @@ import voltwake
 from voltwake.batch import analyze_points, full_factorial
 from voltwake.cli import main
 from voltwake.config import demo_path, load_config
+from voltwake.errors import ConfigError
 from voltwake.studies import design_space_map, monte_carlo, parse_axis, points_csv
 
 TURBO_ELECTRIC = demo_path('turbo_electric')
@@ -254,3 +255,12 @@ def test_breakeven_and_monte_carlo_studies_write_csv_plots_and_report(tmp_path):
     breakeven = json.loads((out / 'breakeven_summary.json').read_text())
     assert breakeven['found'] and abs(breakeven['difference_at_value']) < 0.01
     assert len(rows) == 30  # the Monte Carlo samples
+
+
+def test_inputs_this_design_does_not_have_are_refused_saying_why():
+    with pytest.raises(ConfigError, match='gives wing.loading instead'):
+        analyze_points(TURBO_ELECTRIC, {'wing.area': [100.0, 120.0]})
+    with pytest.raises(ConfigError, match='this design has no aft fan'):
+        analyze_points(demo_path('conventional'), {'aft_fan.thrust_fraction': [0.1]})
+    with pytest.raises(ConfigError, match="expected a config key path such as"):
+        analyze_points(TURBO_ELECTRIC, {'wing.span': [30.0]})

@@ -19,7 +19,7 @@ from .analysis import (
     closure_reasons,
     read_field_arrays,
 )
-from .config import _check_field, field_at, load_config
+from .config import _check_field, absent_input_hint, field_at, load_config
 from .errors import ConfigError
 
 #: Largest relative residual of a point accepted as converged.
@@ -68,9 +68,10 @@ def _targets(config, columns):
     for path, values in columns.items():
         field = field_at(path)
         if field is None or not field.target or field.target not in config.model_inputs():
+            hint = absent_input_hint(config, path) if field is not None and field.target else ''
             raise ConfigError(
-                'not a model input of this design; expected a config key path '
-                "such as 'aft_fan.thrust_fraction'",
+                'not a model input of this design'
+                + (hint or "; expected a config key path such as 'aft_fan.thrust_fraction'"),
                 source=config.source,
                 path=path,
             )

@@ -227,6 +227,30 @@ class Config:
             ) from None
 
 
+def absent_input_hint(config, path):
+    """
+    Say why a config key that feeds a model input has no input in this design's model.
+
+    Parameters
+    ----------
+    config : Config
+        The design.
+    path : str
+        Dotted key path of a schema field with a model input.
+
+    Returns
+    -------
+    str
+        A short explanation, starting with '; '.
+    """
+    other = {'wing.area': 'wing.loading', 'wing.loading': 'wing.area'}.get(path)
+    if other and other in config.values:
+        return f'; this design gives {other} instead (a config takes one of the two)'
+    if path.split('.')[0] in ('aft_fan', 'electrical') and not config.has_aft_fan:
+        return '; this design has no aft fan'
+    return ''
+
+
 def field_at(path):
     """
     Return the schema field at a dotted key path, or None.

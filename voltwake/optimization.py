@@ -26,7 +26,7 @@ from .analysis import (
     run_sizing,
     set_model_inputs,
 )
-from .config import field_at, load_config, parse_quantity
+from .config import absent_input_hint, field_at, load_config, parse_quantity
 from .errors import ConfigError, InterruptedRun, NotClosedError
 
 #: Objective shortcuts -> promoted model output.
@@ -144,13 +144,16 @@ def design_variables(config, model_inputs):
         field = field_at(path)
         if field is None or not field.target:
             raise ConfigError(
-                'not a configurable model input; expected a config key path such as \'wing.area\'',
+                "not a configurable model input; expected a config key path such as "
+                "'wing.aspect_ratio'",
                 **where,
             )
         if field.target not in model_inputs:
             if path.split('.')[0] in ('aft_fan', 'electrical'):
                 continue  # the conventional reference has no aft-fan variables
-            raise ConfigError('this input is not in the model', **where)
+            raise ConfigError(
+                f'this input is not in the model{absent_input_hint(config, path)}', **where
+            )
         if (
             not isinstance(bounds, dict)
             or set(bounds) - {'lower', 'upper', 'ref0', 'ref'}
