@@ -52,6 +52,7 @@ _FAN_OUTPUTS = (
 
 
 #: Options shared by the groups of this module: name -> keyword arguments of ``declare``.
+#: SizingLoop and AircraftModel take all of them; the other groups a subset.
 _OPTIONS = {
     'vec_size': dict(types=int, default=1, lower=1, desc='Number of independent design points.'),
     'num_engines': dict(types=int, default=2, lower=1, desc='Number of under-wing turbofans.'),
@@ -523,16 +524,7 @@ class SizingLoop(om.Group):
         """
         Declare options.
         """
-        _declare(
-            self.options,
-            'vec_size',
-            'num_engines',
-            'aft_fan',
-            'profile_exponent',
-            'wing_sizing',
-            'max_iterations',
-            'tolerance',
-        )
+        _declare(self.options, *_OPTIONS)
 
     def setup(self):
         """
@@ -852,16 +844,7 @@ class AircraftModel(om.Group):
         """
         Declare options.
         """
-        _declare(
-            self.options,
-            'vec_size',
-            'num_engines',
-            'aft_fan',
-            'profile_exponent',
-            'wing_sizing',
-            'max_iterations',
-            'tolerance',
-        )
+        _declare(self.options, *_OPTIONS)
 
     def setup(self):
         """
@@ -894,18 +877,7 @@ class AircraftModel(om.Group):
                 ],
             ),
         )
-        loop = {
-            k: opt[k]
-            for k in (
-                'vec_size',
-                'num_engines',
-                'aft_fan',
-                'profile_exponent',
-                'wing_sizing',
-                'max_iterations',
-                'tolerance',
-            )
-        }
+        loop = {name: opt[name] for name in _OPTIONS}
         _add(self, 'sizing', SizingLoop(**loop), ['*'], ['*'])
         _add(
             self, 'wing', WingGeometryComp(vec_size=n), ['wing_area', 'aspect_ratio'], ['wingspan']
