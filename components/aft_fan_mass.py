@@ -9,13 +9,14 @@ class AftFanMassComp(PointwiseComponent):
     r"""
     Mass of the aft fan, its nacelle and the extra tail-cone structure that carries them.
 
-    Areal-mass scaling: the fan (blades, disc, casing, drive shaft) scales with the fan face
-    area, the nacelle with its wetted area, and the extra tail-cone structure is a fraction
-    of the two:
+    Areal-mass scaling: the fan (blades, casing, drive shaft) scales with its annulus area
+    :math:`A = \pi (D_t^2 - d_h^2)/4` (the hub is the fuselage tail cone, which the fan
+    wraps), the nacelle with its wetted area, and the extra tail-cone structure is a
+    fraction of the two:
 
     .. math::
 
-        m = (1 + f_s) \left( m''_{fan} \frac{\pi D^2}{4} + m''_{nac} S_{wet} \right)
+        m = (1 + f_s) \left( m''_{fan} A + m''_{nac} S_{wet} \right)
 
     Conceptual areal-mass scaling (common practice).
 
@@ -30,12 +31,14 @@ class AftFanMassComp(PointwiseComponent):
         Add inputs and outputs.
         """
         n = self.options['vec_size']
-        self.add_input('fan_diameter', 2.0 * np.ones(n), units='m', desc='Fan tip diameter.')
+        self.add_input(
+            'fan_face_area', 2.0 * np.ones(n), units='m**2', desc='Fan-face annulus area.'
+        )
         self.add_input(
             'fan_areal_mass',
             150.0 * np.ones(n),
             units='kg/m**2',
-            desc='Fan, casing and drive shaft mass per fan face area pi D^2/4.',
+            desc='Fan, casing and drive shaft mass per fan-face annulus area.',
         )
         self.add_input(
             'nacelle_wetted_area',
@@ -66,12 +69,32 @@ class AftFanMassComp(PointwiseComponent):
         self.declare_diagonal_partials(
             'mass',
             [
-                'fan_diameter',
+                'fan_face_area',
                 'fan_areal_mass',
                 'nacelle_wetted_area',
                 'nacelle_areal_mass',
                 'structure_fraction',
             ],
+        )
+
+    @staticmethod
+    def _bare(inputs):
+        """
+        Return the fan and nacelle mass before the tail-cone structure.
+
+        Parameters
+        ----------
+        inputs : Vector
+            Unscaled, dimensional input variables read via inputs[key].
+
+        Returns
+        -------
+        ndarray
+            Bare mass (kg).
+        """
+        return (
+            inputs['fan_areal_mass'] * inputs['fan_face_area']
+            + inputs['nacelle_areal_mass'] * inputs['nacelle_wetted_area']
         )
 
     def compute(self, inputs, outputs):
@@ -85,12 +108,7 @@ class AftFanMassComp(PointwiseComponent):
         outputs : Vector
             Unscaled, dimensional output variables read via outputs[key].
         """
-        face_area = 0.25 * np.pi * inputs['fan_diameter'] ** 2
-        bare = (
-            inputs['fan_areal_mass'] * face_area
-            + inputs['nacelle_areal_mass'] * inputs['nacelle_wetted_area']
-        )
-        outputs['mass'] = (1.0 + inputs['structure_fraction']) * bare
+        outputs['mass'] = (1.0 + inputs['structure_fraction']) * self._bare(inputs)
 
     def compute_partials(self, inputs, partials):
         """
@@ -103,15 +121,9 @@ class AftFanMassComp(PointwiseComponent):
         partials : Jacobian
             Sub-jac components written to partials[output_name, input_name].
         """
-        diam = inputs['fan_diameter']
         factor = 1.0 + inputs['structure_fraction']
-        face_area = 0.25 * np.pi * diam**2
-        bare = (
-            inputs['fan_areal_mass'] * face_area
-            + inputs['nacelle_areal_mass'] * inputs['nacelle_wetted_area']
-        )
-        partials['mass', 'fan_diameter'] = factor * inputs['fan_areal_mass'] * 0.5 * np.pi * diam
-        partials['mass', 'fan_areal_mass'] = factor * face_area
+        partials['mass', 'fan_face_area'] = factor * inputs['fan_areal_mass']
+        partials['mass', 'fan_areal_mass'] = factor * inputs['fan_face_area']
         partials['mass', 'nacelle_wetted_area'] = factor * inputs['nacelle_areal_mass']
         partials['mass', 'nacelle_areal_mass'] = factor * inputs['nacelle_wetted_area']
-        partials['mass', 'structure_fraction'] = bare
+        partials['mass', 'structure_fraction'] = self._bare(inputs)

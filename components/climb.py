@@ -161,7 +161,7 @@ class TopOfClimbComp(PointwiseComponent):
 
     .. math::
 
-        T_{av} = \alpha \, T_{SLS}, \qquad
+        T_{av} = \alpha \, T_{SLS} + k_e F_{e}, \qquad
         T_{req} = \frac{m g_0}{L/D} + \frac{m g_0 \, \dot h}{V}, \qquad
         \text{margin} = \frac{T_{av}}{T_{req}} - 1
 
@@ -170,6 +170,12 @@ class TopOfClimbComp(PointwiseComponent):
     :math:`D = W / (L/D)` (common practice; e.g. Anderson, Introduction to Flight, ch. 6,
     rate of climb; from memory). A residual rate of climb of 300 ft/min (1.524 m/s) at the
     top of climb is common practice for engine sizing. The constraint is margin >= 0.
+
+    :math:`T_{SLS}` is the take-off thrust of the turbofans, lapsed by :math:`\alpha`.
+    An electrically driven fan does not lapse with its turbofans' thrust: its motor can
+    give its rated power, :math:`k_e` times its cruise power, and at a fixed fan pressure
+    ratio and inflow the thrust scales with the shaft power, so it adds :math:`k_e F_e`
+    with :math:`F_e` its cruise thrust (common practice for a first sizing pass).
 
     Parameters
     ----------
@@ -187,7 +193,19 @@ class TopOfClimbComp(PointwiseComponent):
             'rated_thrust',
             170000.0 * ones,
             units='N',
-            desc='Total installed sea-level static rated thrust',
+            desc='Sea-level static take-off thrust of the turbofans (lapses with altitude)',
+        )
+        self.add_input(
+            'electric_thrust',
+            0.0 * ones,
+            units='N',
+            desc='Cruise thrust of an electrically driven fan (0 if none)',
+        )
+        self.add_input(
+            'electric_power_ratio',
+            ones,
+            units=None,
+            desc='Rated / cruise power of the electric drive at top of climb',
         )
         self.add_input(
             'thrust_lapse',
@@ -231,10 +249,11 @@ class TopOfClimbComp(PointwiseComponent):
         """
         Declare the diagonal partials.
         """
-        self.declare_diagonal_partials('available_thrust', ['rated_thrust', 'thrust_lapse'])
+        available = ['rated_thrust', 'thrust_lapse', 'electric_thrust', 'electric_power_ratio']
+        self.declare_diagonal_partials('available_thrust', available)
         required = ['mass', 'lift_to_drag', 'true_airspeed', 'residual_climb_rate']
         self.declare_diagonal_partials('required_thrust', required)
-        self.declare_diagonal_partials('thrust_margin', ['rated_thrust', 'thrust_lapse'] + required)
+        self.declare_diagonal_partials('thrust_margin', available + required)
 
     def compute(self, inputs, outputs):
         """
@@ -247,7 +266,10 @@ class TopOfClimbComp(PointwiseComponent):
         outputs : Vector
             Unscaled, dimensional output variables read via outputs[key].
         """
-        available = inputs['thrust_lapse'] * inputs['rated_thrust']
+        available = (
+            inputs['thrust_lapse'] * inputs['rated_thrust']
+            + inputs['electric_power_ratio'] * inputs['electric_thrust']
+        )
         weight = inputs['mass'] * G0
         required = weight * (
             1.0 / inputs['lift_to_drag'] + inputs['residual_climb_rate'] / inputs['true_airspeed']
@@ -274,13 +296,20 @@ class TopOfClimbComp(PointwiseComponent):
         speed = inputs['true_airspeed']
         climb_rate = inputs['residual_climb_rate']
         weight = mass * G0
-        available = lapse * rated
+        k_e = inputs['electric_power_ratio']
+        f_e = inputs['electric_thrust']
+        available = lapse * rated + k_e * f_e
         required = weight * (1.0 / l_over_d + climb_rate / speed)
 
-        partials['available_thrust', 'rated_thrust'] = lapse
-        partials['available_thrust', 'thrust_lapse'] = rated
-        partials['thrust_margin', 'rated_thrust'] = lapse / required
-        partials['thrust_margin', 'thrust_lapse'] = rated / required
+        d_available = {
+            'rated_thrust': lapse,
+            'thrust_lapse': rated,
+            'electric_thrust': k_e,
+            'electric_power_ratio': f_e,
+        }
+        for name, value in d_available.items():
+            partials['available_thrust', name] = value
+            partials['thrust_margin', name] = value / required
 
         d_required = {
             'mass': required / mass,

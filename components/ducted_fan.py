@@ -37,14 +37,13 @@ class DuctedFanComp(PointwiseComponent):
         \qquad P = \dot m \, c_p (T_{t2} - T_{t,in})
 
     Fan-face annulus area from the compressible mass-flow function at the fan-face Mach number
-    :math:`M_f` with the inflow total conditions, and tip diameter from the hub-to-tip ratio
-    :math:`\nu`:
+    :math:`M_f` with the inflow total conditions (the diameters follow from the annulus in
+    :class:`voltwake.components.fan_annulus.FanAnnulusComp`):
 
     .. math::
 
         \dot m = A \, p_{t,in} \sqrt{\frac{\gamma}{R T_{t,in}}} \, M_f
-        \left(1 + \frac{\gamma-1}{2} M_f^2\right)^{-\frac{\gamma+1}{2(\gamma-1)}},
-        \qquad A = \frac{\pi D^2}{4} (1 - \nu^2)
+        \left(1 + \frac{\gamma-1}{2} M_f^2\right)^{-\frac{\gamma+1}{2(\gamma-1)}}
 
     Sources: Cumpsty, Jet Propulsion, 2nd ed., one-dimensional propulsor relations for thrust,
     jet velocity and fan work (chapter numbers from memory); Mattingly, Elements of Propulsion,
@@ -53,7 +52,7 @@ class DuctedFanComp(PointwiseComponent):
 
     Validity: the model holds only while :math:`V_j > V_{ram}`. A fan pressure ratio too low
     for the inflow gives no thrust; the model then returns a negative specific thrust, a
-    negative mass flow, shaft power and fan-face area and a NaN fan diameter (and for
+    negative mass flow, shaft power and fan-face area (and for
     :math:`p_{t2} < p_0` a NaN jet velocity). This is not hidden here: the enclosing model
     must check it, e.g. by a constraint ``specific_thrust > 0``.
 
@@ -102,9 +101,6 @@ class DuctedFanComp(PointwiseComponent):
         self.add_input(
             'fan_face_mach', 0.65 * ones, units=None, desc='Axial Mach number at the fan face'
         )
-        self.add_input(
-            'hub_to_tip_ratio', 0.3 * ones, units=None, desc='Fan hub-to-tip diameter ratio'
-        )
 
         self.add_output(
             'jet_velocity', 340.0 * ones, units='m/s', desc='Velocity of the fully expanded jet'
@@ -119,7 +115,6 @@ class DuctedFanComp(PointwiseComponent):
         self.add_output(
             'shaft_power', 5.0e6 * ones, units='W', ref=1e6, desc='Shaft power absorbed by the fan'
         )
-        self.add_output('fan_diameter', 1.7 * ones, units='m', desc='Fan tip diameter')
         self.add_output('fan_face_area', 2.0 * ones, units='m**2', desc='Fan-face annulus area')
         self.add_output(
             'fan_exit_total_temperature',
@@ -140,7 +135,6 @@ class DuctedFanComp(PointwiseComponent):
         flow = jet + ['ram_velocity', 'net_thrust']
         self.declare_diagonal_partials(['mass_flow', 'shaft_power'], flow)
         self.declare_diagonal_partials('fan_face_area', flow + ['fan_face_mach'])
-        self.declare_diagonal_partials('fan_diameter', flow + ['fan_face_mach', 'hub_to_tip_ratio'])
 
     def _states(self, inputs):
         """
@@ -172,12 +166,11 @@ class DuctedFanComp(PointwiseComponent):
         s['power'] = s['mdot'] * CP_AIR * s['dt']
         s['mfp'] = np.sqrt(GAMMA / R_AIR) * mach * (1.0 + 0.5 * (GAMMA - 1.0) * mach**2) ** (-_E)
         s['area'] = s['mdot'] * np.sqrt(tt_in) / (pt_in * s['mfp'])
-        s['diam'] = np.sqrt(4.0 * s['area'] / (np.pi * (1.0 - inputs['hub_to_tip_ratio'] ** 2)))
         return s
 
     def compute(self, inputs, outputs):
         """
-        Compute the fan exit state, jet velocity, mass flow, shaft power and fan size.
+        Compute the fan exit state, jet velocity, mass flow, shaft power and fan-face area.
 
         Parameters
         ----------
@@ -193,7 +186,6 @@ class DuctedFanComp(PointwiseComponent):
         outputs['mass_flow'] = s['mdot']
         outputs['shaft_power'] = s['power']
         outputs['fan_face_area'] = s['area']
-        outputs['fan_diameter'] = s['diam']
 
     def compute_partials(self, inputs, partials):
         """
@@ -212,7 +204,6 @@ class DuctedFanComp(PointwiseComponent):
         fpr = inputs['fan_pressure_ratio']
         eta = inputs['fan_efficiency']
         mach = inputs['fan_face_mach']
-        htr = inputs['hub_to_tip_ratio']
         p_amb = inputs['ambient_pressure']
         zero = np.zeros_like(tt_in)
 
@@ -255,7 +246,7 @@ class DuctedFanComp(PointwiseComponent):
             for name, val in d_mdot.items()
         }
 
-        # Fan-face area A = mdot sqrt(Tt_in) / (pt_in mfp) and tip diameter.
+        # Fan-face area A = mdot sqrt(Tt_in) / (pt_in mfp).
         d_area = {name: s['area'] / s['mdot'] * val for name, val in d_mdot.items()}
         d_area['inflow_total_temperature'] += 0.5 * s['area'] / tt_in
         d_area['inflow_total_pressure'] -= s['area'] / pt_in
@@ -263,8 +254,6 @@ class DuctedFanComp(PointwiseComponent):
             1.0 + 0.5 * (GAMMA - 1.0) * mach**2
         )
         d_area['fan_face_mach'] = -s['area'] * dlnmfp_dmach
-        d_diam = {name: 0.5 * s['diam'] / s['area'] * val for name, val in d_area.items()}
-        d_diam['hub_to_tip_ratio'] = s['diam'] * htr / (1.0 - htr**2)
 
         for out, derivs in (
             ('fan_exit_total_temperature', d_tt2),
@@ -273,7 +262,6 @@ class DuctedFanComp(PointwiseComponent):
             ('mass_flow', d_mdot),
             ('shaft_power', d_power),
             ('fan_face_area', d_area),
-            ('fan_diameter', d_diam),
         ):
             for name, val in derivs.items():
                 partials[out, name] = val

@@ -17,7 +17,7 @@ _INPUTS = (
     'landing_fraction',
     'diversion_range',
     'hold_time',
-    'hold_speed',
+    'true_airspeed',
     'contingency_fraction',
 )
 
@@ -41,7 +41,9 @@ class MissionFuelComp(PointwiseComponent):
         f_{cr}(R) = \frac{m_{end}}{m_{start}} = \exp\left(-\frac{R\, g_0}{\eta_o H\, (L/D)}\right)
 
     This equals the thrust-specific form :math:`R = V/(g\,\mathrm{TSFC})\,(L/D)\ln(m_i/m_f)`
-    with :math:`\eta_o = V/(\mathrm{TSFC}\, H)`. Historical mass fractions cover the other
+    with :math:`\eta_o = V/(\mathrm{TSFC}\, H)`, so the cruise thrust-specific fuel
+    consumption (fuel mass flow per unit thrust) is
+    :math:`\mathrm{TSFC}_{cr} = V_{cr}/(\eta_o H)`. Historical mass fractions cover the other
     segments (e.g. Roskam, Airplane Design Part I, Table 2.1; from memory):
 
     .. math::
@@ -49,16 +51,27 @@ class MissionFuelComp(PointwiseComponent):
         m_1 &= m_{TO} f_{to}, \quad m_2 = m_1 f_{cl}, \quad m_3 = m_2 f_{cr}(R),
         \quad m_{land} = m_3 f_{ld} \\
         m_{trip} &= m_{TO} - m_{land} \\
-        f_{hold} &= \exp\left(-\frac{t_h V_h\, g_0}{\eta_o H\, (L/D)}\right) \\
         m_{res} &= c_{cont}\, m_{trip}
                    + m_{land}\left(1 - f_{cl} f_{cr}(R_{div}) f_{ld} f_{hold}\right) \\
         m_{fuel} &= m_{trip} + m_{res}, \quad
         m_{mid} = m_2 \sqrt{f_{cr}(R)}, \quad E_{trip} = m_{trip} H
 
     The diversion is flown from the landing mass (climb, cruise over the diversion range,
-    landing), then a hold. The hold uses the endurance form of the same equation at the
-    cruise lift-to-drag ratio and overall efficiency (a documented simplification). The
-    mid-cruise mass is the geometric mean of the cruise start and end masses.
+    landing), then a hold of duration :math:`t_h`. The hold uses the Breguet endurance
+    equation :math:`\ln(m_i/m_f) = t\, g\, \mathrm{TSFC}/(L/D)` (e.g. Raymer, Aircraft
+    Design: A Conceptual Approach, ch. 17, endurance equation; from memory) at the cruise
+    TSFC and the cruise lift-to-drag ratio:
+
+    .. math::
+
+        f_{hold} = \exp\left(-\frac{t_h\, g_0\, \mathrm{TSFC}_{cr}}{L/D}\right)
+                 = \exp\left(-\frac{t_h\, g_0\, V_{cr}}{\eta_o H\, (L/D)}\right)
+
+    The hold speed does not enter: at a given TSFC and L/D the fuel burnt per unit time does
+    not depend on the speed. Taking the cruise TSFC and L/D is a documented simplification on
+    the conservative side: a real hold, flown near the minimum-drag speed at low altitude,
+    has a higher L/D and a somewhat lower TSFC, so it burns less fuel. The mid-cruise mass is
+    the geometric mean of the cruise start and end masses.
 
     Parameters
     ----------
@@ -91,7 +104,7 @@ class MissionFuelComp(PointwiseComponent):
         add_in('landing_fraction', 0.982, None, 'Mass fraction for descent, landing and taxi')
         add_in('diversion_range', 370400.0, 'm', 'Diversion cruise range')
         add_in('hold_time', 1800.0, 's', 'Reserve hold time')
-        add_in('hold_speed', 130.0, 'm/s', 'True airspeed in the hold')
+        add_in('true_airspeed', 230.0, 'm/s', 'Cruise true airspeed (sets the cruise TSFC)')
         add_in('contingency_fraction', 0.05, None, 'Contingency fuel as a fraction of trip fuel')
 
         self.add_output(
@@ -170,9 +183,9 @@ class MissionFuelComp(PointwiseComponent):
         f_ld = inputs['landing_fraction']
 
         f_cr = np.exp(-a * inputs['range'])
-        # diversion cruise times hold: exp(-a (R_div + t_h V_h))
+        # diversion cruise times hold: exp(-a (R_div + t_h V_cr))
         f_div_hold = np.exp(
-            -a * (inputs['diversion_range'] + inputs['hold_time'] * inputs['hold_speed'])
+            -a * (inputs['diversion_range'] + inputs['hold_time'] * inputs['true_airspeed'])
         )
 
         m_land = m_to * f_to * f_cl * f_cr * f_ld
@@ -208,9 +221,9 @@ class MissionFuelComp(PointwiseComponent):
         l_d = inputs['lift_to_drag']
         r_cr = inputs['range']
         t_h = inputs['hold_time']
-        v_h = inputs['hold_speed']
+        v_cr = inputs['true_airspeed']
         c_cont = inputs['contingency_fraction']
-        s_res = inputs['diversion_range'] + t_h * v_h
+        s_res = inputs['diversion_range'] + t_h * v_cr
 
         f_cr = np.exp(-a * r_cr)
         e_res = np.exp(-a * s_res)
@@ -231,8 +244,8 @@ class MissionFuelComp(PointwiseComponent):
         d_fcr = {'range': -a * f_cr}
         d_eres = {
             'diversion_range': -a * e_res,
-            'hold_time': -a * v_h * e_res,
-            'hold_speed': -a * t_h * e_res,
+            'hold_time': -a * v_cr * e_res,
+            'true_airspeed': -a * t_h * e_res,
         }
         for name, da_dx in da.items():
             d_fcr[name] = -r_cr * f_cr * da_dx

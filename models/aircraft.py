@@ -22,14 +22,18 @@ from voltwake.components.drag_polar import DragPolarComp
 from voltwake.components.ducted_fan import DuctedFanComp
 from voltwake.components.electrical_device import ElectricalDeviceComp
 from voltwake.components.electrical_summary import ElectricalSummaryComp
+from voltwake.components.fan_annulus import FanAnnulusComp
+from voltwake.components.inlet_distortion import DistortedFanEfficiencyComp
 from voltwake.components.landing import LandingComp
 from voltwake.components.mission import MissionFuelComp
 from voltwake.components.nacelle import NacelleGeometryComp
 from voltwake.components.overall_efficiency import OverallEfficiencyComp
 from voltwake.components.power_saving import PowerSavingComp
-from voltwake.components.propulsion_system import InstalledThrustComp, PropulsionSystemComp
+from voltwake.components.propulsion_system import PropulsionSystemComp
 from voltwake.components.ratings import DiameterLimitComp, RatingMarginComp
+from voltwake.components.reference_fan import SameMassFlowFanComp
 from voltwake.components.takeoff import TakeoffFieldLengthComp
+from voltwake.components.takeoff_thrust import StaticThrustPerPowerComp, TakeoffThrustComp
 from voltwake.components.thermal_management import ThermalManagementComp
 from voltwake.components.thrust_split import ThrustSplitComp
 from voltwake.components.turbofan_core import EngineMassComp, TurbofanCoreComp
@@ -39,13 +43,15 @@ from voltwake.models.solvers import PointwiseDirectSolver, SizingNewtonSolver
 
 #: Electrical devices from the aft-fan shaft back to the turbofan shafts.
 CHAIN = ('motor', 'inverter', 'cable', 'rectifier', 'generator')
+#: How each device's loss grows from cruise to rated power: exponent of the power ratio
+#: (constant efficiency: 1; the cable's resistive loss goes with the current squared: 2).
+LOSS_EXPONENTS = {'motor': 1, 'inverter': 1, 'cable': 2, 'rectifier': 1, 'generator': 1}
 
 _FAN_OUTPUTS = (
     'jet_velocity',
     'specific_thrust',
     'mass_flow',
     'shaft_power',
-    'fan_diameter',
     'fan_face_area',
     'fan_exit_total_temperature',
 )
@@ -90,9 +96,7 @@ def _declare(options, *names):
 #: Promotions of the aft fan's design settings (shared by the fan and its reference).
 _AFT_FAN_SETTINGS = [
     ('fan_pressure_ratio', 'aft_fan_pressure_ratio'),
-    ('fan_efficiency', 'aft_fan_efficiency'),
     ('fan_face_mach', 'aft_fan_face_mach'),
-    ('hub_to_tip_ratio', 'aft_fan_hub_to_tip_ratio'),
 ]
 
 
@@ -233,11 +237,15 @@ class TurbofanGroup(om.Group):
                 ('ram_velocity', 'true_airspeed'),
                 ('ambient_pressure', 'pressure'),
             ]
-            + _prefixed(
-                'turbofan',
-                ['fan_pressure_ratio', 'fan_efficiency', 'fan_face_mach', 'hub_to_tip_ratio'],
-            ),
+            + _prefixed('turbofan', ['fan_pressure_ratio', 'fan_efficiency', 'fan_face_mach']),
             _prefixed('turbofan', _FAN_OUTPUTS),
+        )
+        _add(
+            self,
+            'annulus',
+            FanAnnulusComp(vec_size=n, hub='ratio'),
+            _prefixed('turbofan', ['fan_face_area', 'hub_to_tip_ratio']),
+            _prefixed('turbofan', ['fan_diameter', 'hub_diameter']),
         )
         _add(
             self,
@@ -333,7 +341,7 @@ class AftFanGroup(om.Group):
                 'station_diameter_ratio',
             ],
             [
-                ('perimeter', 'fan_station_perimeter'),
+                ('station_diameter', 'aft_fan_hub_diameter'),
                 'momentum_thickness',
                 'boundary_layer_thickness',
             ],
@@ -345,14 +353,38 @@ class AftFanGroup(om.Group):
             [
                 'capture_height',
                 'boundary_layer_thickness',
-                ('perimeter', 'fan_station_perimeter'),
+                ('station_diameter', 'aft_fan_hub_diameter'),
                 'density',
                 'true_airspeed',
                 ('static_pressure', 'pressure'),
                 'total_temperature',
             ],
-            ['captured_mass_flow', 'ingested_momentum_flow', 'ingested_kinetic_energy_flow']
-            + _prefixed('aft_fan', ['ram_velocity', 'energy_velocity', 'inflow_total_pressure']),
+            [
+                'captured_mass_flow',
+                'ingested_momentum_flow',
+                'ingested_kinetic_energy_flow',
+                'capture_area',
+            ]
+            + _prefixed(
+                'aft_fan',
+                [
+                    'ram_velocity',
+                    'energy_velocity',
+                    'inflow_total_pressure',
+                    'inflow_nonuniformity',
+                ],
+            ),
+        )
+        _add(
+            self,
+            'distortion',
+            DistortedFanEfficiencyComp(vec_size=n),
+            [
+                ('clean_fan_efficiency', 'aft_fan_efficiency'),
+                ('inflow_nonuniformity', 'aft_fan_inflow_nonuniformity'),
+                ('distortion_sensitivity', 'aft_fan_distortion_sensitivity'),
+            ],
+            [('fan_efficiency', 'aft_fan_installed_efficiency')],
         )
         _add(
             self,
@@ -364,9 +396,20 @@ class AftFanGroup(om.Group):
                 ('inflow_total_pressure', 'aft_fan_inflow_total_pressure'),
                 ('ram_velocity', 'aft_fan_ram_velocity'),
                 ('ambient_pressure', 'pressure'),
+                ('fan_efficiency', 'aft_fan_installed_efficiency'),
             ]
             + fan_settings,
             _prefixed('aft', _FAN_OUTPUTS),
+        )
+        _add(
+            self,
+            'annulus',
+            FanAnnulusComp(vec_size=n, hub='diameter'),
+            [('fan_face_area', 'aft_fan_face_area'), ('hub_diameter', 'aft_fan_hub_diameter')],
+            [
+                ('fan_diameter', 'aft_fan_diameter'),
+                ('hub_to_tip_ratio', 'aft_fan_hub_to_tip_ratio'),
+            ],
         )
         _add(
             self,
@@ -414,7 +457,7 @@ class AftFanGroup(om.Group):
             'mass',
             AftFanMassComp(vec_size=n),
             [
-                ('fan_diameter', 'aft_fan_diameter'),
+                ('fan_face_area', 'aft_fan_face_area'),
                 ('fan_areal_mass', 'aft_fan_areal_mass'),
                 ('nacelle_wetted_area', 'aft_nacelle_wetted_area'),
                 ('nacelle_areal_mass', 'aft_nacelle_areal_mass'),
@@ -491,10 +534,16 @@ class ElectricalChainGroup(om.Group):
         _add(
             self,
             'thermal',
-            ThermalManagementComp(vec_size=n, sources=list(CHAIN)),
+            ThermalManagementComp(vec_size=n, sources=dict(LOSS_EXPONENTS)),
             [f'{device}_loss' for device in CHAIN]
+            + [('sizing_factor', 'electrical_sizing_factor')]
             + _prefixed('thermal', ['specific_mass', 'drag_per_power']),
-            [('heat_load', 'thermal_load'), ('mass', 'thermal_mass'), ('drag', 'thermal_drag')],
+            [
+                ('heat_load', 'thermal_load'),
+                ('rated_heat_load', 'thermal_rated_load'),
+                ('mass', 'thermal_mass'),
+                ('drag', 'thermal_drag'),
+            ],
         )
         _add(
             self,
@@ -605,7 +654,7 @@ class SizingLoop(om.Group):
                 'landing_fraction',
                 'diversion_range',
                 'hold_time',
-                'hold_speed',
+                'true_airspeed',
                 'contingency_fraction',
             ],
             [
@@ -652,7 +701,7 @@ class SizingLoop(om.Group):
                 need,
                 inputs['aft_fan.boundary_layer.density'],
                 inputs['aft_fan.boundary_layer.true_airspeed'],
-                outputs['fan_station_perimeter'],
+                np.pi * outputs['aft_fan_hub_diameter'],
                 outputs['boundary_layer_thickness'],
                 self.options['profile_exponent'],
             )
@@ -660,10 +709,12 @@ class SizingLoop(om.Group):
 
 class PowerSavingGroup(om.Group):
     """
-    The aft fan's free-stream reference and its power saving coefficient.
+    The aft fan's free-stream references and its power saving coefficients.
 
-    Nothing in the sizing loop depends on these, so they run after it: the same fan, at the
-    same thrust and pressure ratio, on free-stream inflow.
+    Nothing in the sizing loop depends on these, so they run after it. Both references
+    give the same net thrust on clean free-stream inflow at the clean-inflow efficiency:
+    one at the same fan pressure ratio (``power_saving_coefficient``), one with the same
+    mass flow (``power_saving_coefficient_same_mass_flow``).
 
     Parameters
     ----------
@@ -682,7 +733,6 @@ class PowerSavingGroup(om.Group):
         Add the reference fan and the power saving coefficient.
         """
         n = self.options['vec_size']
-        fan_settings = _AFT_FAN_SETTINGS
         _add(
             self,
             'reference_fan',
@@ -693,29 +743,47 @@ class PowerSavingGroup(om.Group):
                 ('inflow_total_pressure', 'total_pressure'),
                 ('ram_velocity', 'true_airspeed'),
                 ('ambient_pressure', 'pressure'),
+                ('fan_efficiency', 'aft_fan_efficiency'),
             ]
-            + fan_settings,
+            + _AFT_FAN_SETTINGS,
             _prefixed('aft_reference', _FAN_OUTPUTS),
         )
         _add(
             self,
-            'power_saving',
-            PowerSavingComp(vec_size=n),
+            'same_mass_flow_fan',
+            SameMassFlowFanComp(vec_size=n),
             [
-                ('shaft_power', 'aft_shaft_power'),
-                ('reference_shaft_power', 'aft_reference_shaft_power'),
+                ('net_thrust', 'aft_fan_thrust'),
+                ('mass_flow', 'aft_mass_flow'),
+                'true_airspeed',
+                'total_temperature',
+                'total_pressure',
+                ('ambient_pressure', 'pressure'),
+                ('fan_efficiency', 'aft_fan_efficiency'),
             ],
-            ['power_saving_coefficient'],
+            _prefixed('aft_same_mass_flow', ['fan_pressure_ratio', 'jet_velocity', 'shaft_power']),
         )
+        for name, reference in (
+            ('power_saving', 'aft_reference_shaft_power'),
+            ('power_saving_same_mass_flow', 'aft_same_mass_flow_shaft_power'),
+        ):
+            _add(
+                self,
+                name,
+                PowerSavingComp(vec_size=n),
+                [('shaft_power', 'aft_shaft_power'), ('reference_shaft_power', reference)],
+                [('power_saving_coefficient', name.replace('saving', 'saving_coefficient'))],
+            )
 
 
 class PerformanceGroup(om.Group):
     """
     Performance constraints of the sized aircraft: field lengths, climb, buffet, ratings.
 
-    The installed sea-level static thrust counts the turbofans and the aft fan at the same
-    rated-to-cruise thrust ratio. Top of climb is
-    flown at cruise altitude and Mach number at MTOW (conservative) with the cruise L/D.
+    The take-off thrust counts the turbofans at their rated thrust less what the generators
+    draw at take-off, and the aft fan at what its rated motor power gives at sea-level
+    static. Top of climb is flown at cruise altitude and Mach number at MTOW (conservative)
+    with the cruise L/D and that thrust lapsed.
 
     Parameters
     ----------
@@ -734,12 +802,49 @@ class PerformanceGroup(om.Group):
         Add the constraint components.
         """
         n, count = self.options['vec_size'], self.options['num_engines']
+        aft = self.options['aft_fan']
         _add(
             self,
-            'installed',
-            InstalledThrustComp(vec_size=n, num_engines=count),
-            ['turbofan_rated_thrust', 'aft_fan_thrust', 'rated_to_cruise_thrust'],
-            ['installed_thrust'],
+            'turbofan_static',
+            StaticThrustPerPowerComp(vec_size=n),
+            _prefixed('turbofan', ['fan_pressure_ratio', 'fan_efficiency']),
+            [('thrust_per_power', 'turbofan_static_thrust_per_power')],
+        )
+        electric = []
+        if aft:
+            _add(
+                self,
+                'aft_fan_static',
+                StaticThrustPerPowerComp(vec_size=n),
+                [
+                    ('fan_pressure_ratio', 'aft_fan_pressure_ratio'),
+                    ('fan_efficiency', 'aft_fan_installed_efficiency'),
+                ],
+                [('thrust_per_power', 'aft_fan_static_thrust_per_power')],
+            )
+            electric = [
+                ('shaft_power_extracted', 'generator_input_power'),
+                ('sizing_factor', 'electrical_sizing_factor'),
+                'motor_rated_power',
+                ('aft_thrust_per_power', 'aft_fan_static_thrust_per_power'),
+            ]
+        _add(
+            self,
+            'takeoff_thrust',
+            TakeoffThrustComp(vec_size=n, num_engines=count),
+            [
+                'turbofan_rated_thrust',
+                ('turbofan_thrust_per_power', 'turbofan_static_thrust_per_power'),
+            ]
+            + electric,
+            [
+                'installed_thrust',
+                'turbofan_takeoff_thrust',
+                'turbofans_takeoff_thrust',
+                'takeoff_power_extraction',
+                'aft_fan_takeoff_thrust',
+                'aft_fan_takeoff_power',
+            ],
         )
         _add(
             self,
@@ -781,13 +886,21 @@ class PerformanceGroup(om.Group):
             'climb',
             TopOfClimbComp(vec_size=n),
             [
-                ('rated_thrust', 'installed_thrust'),
+                ('rated_thrust', 'turbofans_takeoff_thrust'),
                 'thrust_lapse',
                 ('mass', 'mtow'),
                 'lift_to_drag',
                 'true_airspeed',
                 'residual_climb_rate',
-            ],
+            ]
+            + (
+                [
+                    ('electric_thrust', 'aft_fan_thrust'),
+                    ('electric_power_ratio', 'electrical_sizing_factor'),
+                ]
+                if aft
+                else []
+            ),
             [
                 ('available_thrust', 'climb_available_thrust'),
                 ('required_thrust', 'climb_required_thrust'),
@@ -801,8 +914,15 @@ class PerformanceGroup(om.Group):
             ['lift_coefficient', 'buffet_lift_coefficient', 'buffet_margin_load_factor'],
             ['buffet_margin'],
         )
-        if not self.options['aft_fan']:
+        if not aft:
             return
+        _add(
+            self,
+            'aft_fan_blade_height',
+            RatingMarginComp(vec_size=n),
+            [('value', 'aft_fan_hub_to_tip_ratio'), ('rating', 'aft_fan_max_hub_to_tip_ratio')],
+            [('margin', 'aft_fan_hub_to_tip_margin')],
+        )
         _add(
             self,
             'aft_fan_size',

@@ -16,9 +16,11 @@ MOTOR = 'electrical.motor.specific_power'
 
 @pytest.fixture(scope='module')
 def motor_breakeven():
-    # On the demo the optimised difference is about +0.9 % at 2 kW/kg and -0.65 % at the
-    # configured 9 kW/kg; it changes sign between 3 and 5 kW/kg.
-    return breakeven(DEMO, MOTOR, 3000.0, 5000.0, jobs=2, xtol=1.0)
+    # With the turbo-electric corrections (aft fan round the tail cone with a minimum blade
+    # height, take-off thrust from the rated motor power, cooling drag, distortion) the
+    # optimised demo burns more fuel than its optimised reference over the whole published
+    # range of motor specific power (5-20 kW/kg; see test_electrical.py), and below it.
+    return breakeven(DEMO, MOTOR, 2000.0, 20000.0, jobs=2)
 
 
 @pytest.fixture(scope='module')
@@ -28,31 +30,51 @@ def reference_fuel():
     return result.outputs['block_fuel_kg']
 
 
-def test_breakeven_is_found_inside_the_interval(motor_breakeven):
+def test_the_demo_has_no_breakeven_in_motor_specific_power(motor_breakeven, reference_fuel):
     result = motor_breakeven
+    assert result['found'] is False
+    assert math.isnan(result['value'])
+    assert result['difference_at_lower'] > 0.0 and result['difference_at_upper'] > 0.0
+    # A lighter motor still helps, it just cannot close the gap.
+    assert result['difference_at_upper'] < result['difference_at_lower']
+    assert 'no break-even' in result['message'] and 'more fuel' in result['message']
+    assert len(result['evaluations']) == 2
+    assert result['reference_block_fuel_kg'] == pytest.approx(reference_fuel, rel=1e-6)
+
+
+def _synthetic_optimisation(job):
+    """
+    Stand-in for an optimisation (test double): block fuel linear in motor specific power.
+
+    The reference burns 10,000 kg; the turbo-electric design 10,000 (1 + (4000 - x)/50,000)
+    kg, so the break-even is at exactly 4000 W/kg.
+    """
+    data = job['data']
+    if 'aft_fan' not in data:
+        fuel = 10000.0
+    else:
+        x = float(data['electrical']['motor']['specific_power'])
+        fuel = 10000.0 * (1.0 + (4000.0 - x) / 50000.0)
+    return {'success': True, 'message': '', 'outputs': {'block_fuel_kg': fuel}}
+
+
+def test_brent_finds_a_breakeven_where_the_difference_changes_sign(monkeypatch):
+    # The root finding and its report, on a stand-in whose break-even is known (4000 W/kg).
+    monkeypatch.setattr('voltwake.breakeven.optimize_job', _synthetic_optimisation)
+    result = breakeven(DEMO, MOTOR, 3000.0, 5000.0, jobs=1, xtol=1e-3)
     assert result['found'], result['message']
     assert result['path'] == MOTOR and result['units'] == 'W/kg'
-    assert 3000.0 < result['value'] < 5000.0
-    # A lighter motor helps: the turbo-electric design burns more fuel at the low end.
+    assert result['value'] == pytest.approx(4000.0, abs=1e-2)
     assert result['difference_at_lower'] > 0.0 > result['difference_at_upper']
-    assert abs(result['difference_at_value']) < 0.01
+    assert abs(result['difference_at_value']) < 1e-5
     assert [e['value'] for e in result['evaluations'][:2]] == [3000.0, 5000.0]
     assert result['message'].startswith(f'break-even at {MOTOR} = ')
     assert result['message'].endswith(' W/kg')
 
 
-def test_design_optimised_at_the_breakeven_burns_the_reference_fuel(
-    motor_breakeven, reference_fuel
-):
-    at_value = optimize(DEMO.with_overrides({MOTOR: motor_breakeven['value']}))
-    assert at_value.success, at_value.message
-    difference = 100.0 * (at_value.outputs['block_fuel_kg'] - reference_fuel) / reference_fuel
-    assert abs(difference) < 0.01
-    assert motor_breakeven['reference_block_fuel_kg'] == pytest.approx(reference_fuel, rel=1e-6)
-
-
-def test_no_sign_change_is_reported_not_raised():
-    result = breakeven(DEMO, MOTOR, 9000.0, 20000.0, jobs=2)
+def test_no_sign_change_is_reported_not_raised(monkeypatch):
+    monkeypatch.setattr('voltwake.breakeven.optimize_job', _synthetic_optimisation)
+    result = breakeven(DEMO, MOTOR, 9000.0, 20000.0, jobs=1)
     assert result['found'] is False
     assert math.isnan(result['value'])
     assert result['difference_at_lower'] < 0.0 and result['difference_at_upper'] < 0.0

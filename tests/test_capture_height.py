@@ -5,7 +5,11 @@ import openmdao.api as om
 import pytest
 from ambiance import Atmosphere
 
-from voltwake.components.boundary_layer import FuselageBoundaryLayerComp, IngestedFlowComp
+from voltwake.components.boundary_layer import (
+    FuselageBoundaryLayerComp,
+    IngestedFlowComp,
+    layer_flux_shapes,
+)
 from voltwake.components.capture_height import CaptureHeightComp, initial_capture_height
 from voltwake.components.ducted_fan import DuctedFanComp
 from voltwake.components.gas import CP_AIR, GAMMA
@@ -32,25 +36,14 @@ FAN = {
     'fan_pressure_ratio': 1.3,
     'fan_efficiency': 0.93,
     'fan_face_mach': 0.6,
-    'hub_to_tip_ratio': 0.3,
 }
 
 
 def _captured(height, delta, perimeter, n=7.0):
-    """Mass flow captured up to the height, from IngestedFlowComp."""
+    """Mass flow captured up to the height by a planar layer, C rho V f_1(h)."""
     height = np.atleast_1d(np.asarray(height, dtype=float))
-    prob = om.Problem(reports=False)
-    prob.model.add_subsystem(
-        'flow', IngestedFlowComp(vec_size=height.size, profile_exponent=n), promotes=['*']
-    )
-    prob.setup()
-    prob.set_val('capture_height', height)
-    prob.set_val('boundary_layer_thickness', delta)
-    prob.set_val('perimeter', perimeter)
-    prob.set_val('density', RHO)
-    prob.set_val('true_airspeed', SPEED)
-    prob.run_model()
-    return prob.get_val('captured_mass_flow')
+    (f_1,), _, _ = layer_flux_shapes(height, delta * np.ones_like(height), n, 0, (1,))
+    return perimeter * RHO * SPEED * f_1
 
 
 @pytest.mark.parametrize('n', [7.0, 5.0])
@@ -161,7 +154,7 @@ def _solve_aft_fan(thrust):
         prob.get_val('ref_fan.mass_flow'),
         RHO,
         SPEED,
-        prob.get_val('perimeter'),
+        np.pi * prob.get_val('station_diameter'),
         prob.get_val('boundary_layer_thickness'),
     )
     prob.set_val('capture_height', start)

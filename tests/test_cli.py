@@ -218,7 +218,7 @@ def test_analyze_text_ends_with_the_caution(capsys):
     assert main(['analyze', TURBO]) == EXIT_OK
     out = capsys.readouterr().out
     assert out.rstrip('\n').splitlines()[-1] == CAUTION
-    assert 'Power saving coefficient' in out
+    assert 'PSC vs same-FPR clean fan' in out and 'PSC vs same-mass-flow clean fan' in out
 
 
 def test_compare_text_ends_with_the_caution(capsys):

@@ -136,6 +136,8 @@ def test_top_of_climb_partials_two_points():
             'lift_to_drag': [15.0, 17.0, 19.0],
             'true_airspeed': [220.0, 230.0, 240.0],
             'residual_climb_rate': [1.524, 1.524, 2.54],
+            'electric_thrust': [0.0, 8.0e3, 1.2e4],
+            'electric_power_ratio': [1.5, 1.3, 1.7],
         },
     )
     check_component_partials(
@@ -147,6 +149,8 @@ def test_top_of_climb_partials_two_points():
             'lift_to_drag': [20.0, 13.0, 16.0],
             'true_airspeed': [250.0, 190.0, 215.0],
             'residual_climb_rate': [0.5, 2.0, 1.0],
+            'electric_thrust': [5.0e3, 0.0, 2.0e4],
+            'electric_power_ratio': [1.0, 2.0, 1.2],
         },
     )
 
@@ -175,6 +179,21 @@ def test_top_of_climb_hand_values_and_trends():
     )
     # Better L/D needs less thrust and raises the margin.
     assert np.all(np.diff(prob.get_val('thrust_margin')) > 0.0)
+
+
+def test_top_of_climb_electric_thrust_does_not_lapse():
+    # An electric fan of 8 kN cruise thrust with a 1.5 rated/cruise power ratio adds
+    # 1.5 * 8 kN to the lapsed turbofan thrust (hand value from the docstring's equation).
+    prob = _run(
+        TopOfClimbComp(vec_size=1),
+        {
+            'rated_thrust': [1.5e5],
+            'thrust_lapse': [0.2],
+            'electric_thrust': [8.0e3],
+            'electric_power_ratio': [1.5],
+        },
+    )
+    np.testing.assert_allclose(prob.get_val('available_thrust'), [0.2 * 1.5e5 + 1.2e4])
 
 
 def test_top_of_climb_chain_from_atmosphere():

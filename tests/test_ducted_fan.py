@@ -40,7 +40,7 @@ def _run(vec_size=1, **inputs):
     return prob
 
 
-def _podded(fpr=1.5, eta=0.92, thrust=18000.0, fan_mach=0.65, htr=0.3, vec_size=1):
+def _podded(fpr=1.5, eta=0.92, thrust=18000.0, fan_mach=0.65, vec_size=1):
     tt, pt, v = _freestream()
     return _run(
         vec_size=vec_size,
@@ -52,7 +52,6 @@ def _podded(fpr=1.5, eta=0.92, thrust=18000.0, fan_mach=0.65, htr=0.3, vec_size=
         fan_pressure_ratio=fpr,
         fan_efficiency=eta,
         fan_face_mach=fan_mach,
-        hub_to_tip_ratio=htr,
     )
 
 
@@ -66,7 +65,7 @@ def test_cruise_point_matches_isa():
 def test_hand_calculation_at_cruise():
     # Independent re-derivation with plain floats from the formulas named in the docstring
     # (Cumpsty, Jet Propulsion, 2nd ed.; Mattingly, Elements of Propulsion; from memory).
-    fpr, eta, thrust, fan_mach, htr = 1.5, 0.92, 18000.0, 0.65, 0.3  # demo inputs
+    fpr, eta, thrust, fan_mach = 1.5, 0.92, 18000.0, 0.65  # demo inputs
     tt, pt, v = _freestream()
     k = (GAMMA - 1.0) / GAMMA
 
@@ -81,16 +80,14 @@ def test_hand_calculation_at_cruise():
         * (1.0 + 0.5 * (GAMMA - 1.0) * fan_mach**2) ** (-(GAMMA + 1.0) / (2.0 * (GAMMA - 1.0)))
     )
     area = mdot * math.sqrt(tt) / (pt * mfp)
-    diam = math.sqrt(4.0 * area / (math.pi * (1.0 - htr**2)))
 
-    prob = _podded(fpr, eta, thrust, fan_mach, htr)
+    prob = _podded(fpr, eta, thrust, fan_mach)
     assert prob.get_val('fan_exit_total_temperature')[0] == pytest.approx(tt2, rel=1e-12)
     assert prob.get_val('jet_velocity')[0] == pytest.approx(v_jet, rel=1e-12)
     assert prob.get_val('specific_thrust')[0] == pytest.approx(v_jet - v, rel=1e-12)
     assert prob.get_val('mass_flow')[0] == pytest.approx(mdot, rel=1e-12)
     assert prob.get_val('shaft_power')[0] == pytest.approx(power, rel=1e-12)
     assert prob.get_val('fan_face_area')[0] == pytest.approx(area, rel=1e-12)
-    assert prob.get_val('fan_diameter')[0] == pytest.approx(diam, rel=1e-12)
 
 
 def test_froude_propulsive_efficiency():
@@ -125,25 +122,21 @@ def test_fan_losses_cost_power():
 
 
 def test_lower_fpr_gives_more_flow_bigger_fan_less_power():
-    # Trend at fixed thrust (common practice): lower FPR -> larger mass flow and diameter,
-    # lower shaft power.
+    # Trend at fixed thrust (common practice): lower FPR -> larger mass flow and fan-face
+    # area, lower shaft power.
     prob = _podded(fpr=np.array([1.3, 1.5, 1.7]), vec_size=3)
     assert np.all(np.diff(prob.get_val('mass_flow')) < 0.0)
-    assert np.all(np.diff(prob.get_val('fan_diameter')) < 0.0)
+    assert np.all(np.diff(prob.get_val('fan_face_area')) < 0.0)
     assert np.all(np.diff(prob.get_val('shaft_power')) > 0.0)
 
 
 def test_choked_mass_flow_parameter():
     # At M = 1 the mass flow parameter mdot sqrt(Tt) / (A pt) is 0.0404 kg sqrt(K) / (N s)
     # for gamma = 1.4, R = 287 (Mattingly, Elements of Propulsion; from memory).
-    prob = _podded(fan_mach=1.0, htr=0.0)
+    prob = _podded(fan_mach=1.0)
     tt, pt, _ = _freestream()
     mfp = prob.get_val('mass_flow')[0] * math.sqrt(tt) / (prob.get_val('fan_face_area')[0] * pt)
     assert mfp == pytest.approx(0.0404, rel=2e-3)
-    # With no hub the annulus is a full disc, A = pi D^2 / 4 (geometry).
-    assert prob.get_val('fan_face_area')[0] == pytest.approx(
-        math.pi * prob.get_val('fan_diameter')[0] ** 2 / 4.0, rel=1e-12
-    )
 
 
 @pytest.mark.filterwarnings('ignore:invalid value encountered in sqrt:RuntimeWarning')
@@ -164,7 +157,6 @@ def test_no_thrust_regime_is_not_hidden():
     assert prob.get_val('specific_thrust')[0] < 0.0
     assert prob.get_val('mass_flow')[0] < 0.0
     assert prob.get_val('fan_face_area')[0] < 0.0
-    assert np.isnan(prob.get_val('fan_diameter')[0])
 
 
 def test_partials_podded_cruise():
@@ -180,7 +172,6 @@ def test_partials_podded_cruise():
             'fan_pressure_ratio': [1.35, 1.5, 1.65],
             'fan_efficiency': [0.9, 0.92, 0.94],
             'fan_face_mach': [0.6, 0.65, 0.7],
-            'hub_to_tip_ratio': [0.25, 0.3, 0.35],
         },
     )
 
@@ -199,6 +190,5 @@ def test_partials_wake_ingesting_and_static():
             'fan_pressure_ratio': [1.25, 1.4, 1.45],
             'fan_efficiency': [0.93, 0.91, 0.88],
             'fan_face_mach': [0.55, 0.62, 0.5],
-            'hub_to_tip_ratio': [0.4, 0.45, 0.3],
         },
     )

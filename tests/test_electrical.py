@@ -108,27 +108,94 @@ def test_device_trends():
     assert high.get_val('mass')[0] < low.get_val('mass')[0]
 
 
+LOSSES = {
+    'generator_loss': 5.0e4,
+    'rectifier_loss': 1.0e4,
+    'cable_loss': 5.0e3,
+    'inverter_loss': 2.0e4,
+    'motor_loss': 8.0e4,
+}
+
+
 def test_thermal_hand_case():
-    # 50 + 10 + 5 + 20 + 80 kW = 165 kW; at 0.5 kg/kW -> 82.5 kg; at 0.02 N/kW -> 3.3 N.
-    losses = {
-        'generator_loss': 5.0e4,
-        'rectifier_loss': 1.0e4,
-        'cable_loss': 5.0e3,
-        'inverter_loss': 2.0e4,
-        'motor_loss': 8.0e4,
-    }
-    prob = run_comp(ThermalManagementComp(), specific_mass=0.5e-3, drag_per_power=2.0e-5, **losses)
+    # Hand values from Q = sum P_loss, Q_rated = sum k**e P_loss, m = m' Q_rated, D = D' Q:
+    # Q = 50 + 10 + 5 + 20 + 80 kW = 165 kW; at k = 1.3 the devices (e = 1) give
+    # 1.3 * 160 = 208 kW and the cable (e = 2) 1.69 * 5 = 8.45 kW, Q_rated = 216.45 kW;
+    # at 0.5 kg/kW -> 108.225 kg; at 0.02 N/kW -> 3.3 N (on the cruise heat).
+    prob = run_comp(
+        ThermalManagementComp(),
+        sizing_factor=1.3,
+        specific_mass=0.5e-3,
+        drag_per_power=2.0e-5,
+        **LOSSES,
+    )
     assert prob.get_val('heat_load')[0] == pytest.approx(1.65e5, rel=1e-12)
-    assert prob.get_val('mass')[0] == pytest.approx(82.5, rel=1e-12)
+    assert prob.get_val('rated_heat_load')[0] == pytest.approx(2.1645e5, rel=1e-12)
+    assert prob.get_val('mass')[0] == pytest.approx(108.225, rel=1e-12)
     assert prob.get_val('drag')[0] == pytest.approx(3.3, rel=1e-12)
 
 
-def test_thermal_custom_sources_and_no_drag_default():
+def test_thermal_defaults():
+    # Default k = 1.5: Q_rated = 1.5 * 160 kW + 2.25 * 5 kW = 251.25 kW; at the default
+    # 1 kg/kW -> 251.25 kg. Default drag per power from the ram-air duct estimate in the
+    # component docstring (common practice; hand estimate, not a published figure):
+    # D/Q = V0 (1 - Ve/V0) / (cp dT_c) = 230 * 0.25 / (1005 * 40) = 1.430e-3 N/W, used
+    # rounded to 1.4e-3 N/W -> 165 kW * 1.4e-3 N/W = 231 N.
+    prob = run_comp(ThermalManagementComp(), **LOSSES)
+    assert prob.get_val('rated_heat_load')[0] == pytest.approx(2.5125e5, rel=1e-12)
+    assert prob.get_val('mass')[0] == pytest.approx(251.25, rel=1e-12)
+    assert prob.get_val('drag_per_power')[0] == pytest.approx(1.4e-3, rel=1e-12)
+    assert prob.get_val('drag')[0] == pytest.approx(231.0, rel=1e-12)
+    duct_estimate = 230.0 * (1.0 - 0.75) / (1005.0 * 40.0)
+    assert duct_estimate == pytest.approx(1.430e-3, rel=1e-3)
+    # the default is the estimate rounded to two figures
+    assert prob.get_val('drag_per_power')[0] == pytest.approx(duct_estimate, rel=0.025)
+
+
+def test_thermal_custom_sources_and_documented_drag_default():
+    # two sources, exponents 1 and 2; k = 2: Q = 13 kW, Q_rated = 2 * 10 + 4 * 3 = 32 kW;
+    # drag at the documented default 1.4e-3 N/W: 13 kW -> 18.2 N.
     prob = run_comp(
-        ThermalManagementComp(sources=['motor', 'battery']), motor_loss=1.0e4, battery_loss=3.0e3
+        ThermalManagementComp(sources={'motor': 1, 'battery': 2}),
+        motor_loss=1.0e4,
+        battery_loss=3.0e3,
+        sizing_factor=2.0,
     )
     assert prob.get_val('heat_load')[0] == pytest.approx(1.3e4, rel=1e-12)
-    assert prob.get_val('drag')[0] == 0.0
+    assert prob.get_val('rated_heat_load')[0] == pytest.approx(3.2e4, rel=1e-12)
+    assert prob.get_val('drag')[0] == pytest.approx(18.2, rel=1e-12)
+
+
+def test_thermal_cable_scales_with_k_squared_device_with_k():
+    # one source at a time, k = 1, 1.5, 2: the rated loss of a constant-efficiency device
+    # is k P_loss, that of the resistive cable (I**2 R, current ~ power) is k**2 P_loss.
+    k = np.array([1.0, 1.5, 2.0])
+    for source, expected in (('motor', k), ('cable', k**2)):
+        inputs = {name: np.zeros(3) for name in LOSSES}
+        inputs[f'{source}_loss'] = np.full(3, 1.0e4)
+        prob = run_comp(ThermalManagementComp(vec_size=3), sizing_factor=k, **inputs)
+        np.testing.assert_allclose(
+            prob.get_val('rated_heat_load'), 1.0e4 * expected, rtol=1e-12, err_msg=source
+        )
+        # the cruise heat load and the drag do not depend on k
+        np.testing.assert_allclose(prob.get_val('heat_load'), 1.0e4, rtol=1e-12)
+        np.testing.assert_allclose(prob.get_val('drag'), 14.0, rtol=1e-12)
+
+
+def test_thermal_unit_sizing_factor_rated_equals_cruise():
+    prob = run_comp(ThermalManagementComp(), sizing_factor=1.0, **LOSSES)
+    assert prob.get_val('rated_heat_load')[0] == pytest.approx(1.65e5, rel=1e-12)
+
+
+@pytest.mark.parametrize('sources', [{'motor': -1}, {'motor': '1'}, {'motor': True}])
+def test_thermal_rejects_bad_exponents(sources):
+    with pytest.raises((TypeError, ValueError)):
+        ThermalManagementComp(sources=sources)
+
+
+def test_thermal_rejects_list_of_sources():
+    with pytest.raises(TypeError):
+        ThermalManagementComp(sources=['motor', 'cable'])
 
 
 def test_summary_hand_case():
@@ -203,6 +270,7 @@ def build_chain(vec_size=2):
     prob.set_val('cable.resistivity', 1.68e-8)  # copper, CRC Handbook (edition from memory)
     prob.set_val('cable.conductor_density', 8960.0)
     prob.set_val('thermal.specific_mass', 0.5e-3)
+    prob.set_val('thermal.sizing_factor', 1.3)
     prob.set_val('ivc.aft_fan_shaft_power', [3.0e6, 1.5e6])
     prob.set_val('ivc.voltage', [1000.0, 540.0])
     prob.run_model()
@@ -233,9 +301,11 @@ def test_chain_mass_totals():
     prob = build_chain()
     masses = sum(prob.get_val(f'{name}.mass') for name in DEVICES + ['cable', 'thermal'])
     np.testing.assert_allclose(prob.get_val('summary.electrical_mass'), masses, rtol=1e-12)
-    np.testing.assert_allclose(
-        prob.get_val('thermal.mass'), 0.5e-3 * prob.get_val('thermal.heat_load'), rtol=1e-12
-    )
+    # thermal mass on the rated heat: devices scale with k = 1.3, the cable with k**2
+    rated = sum(1.3 * prob.get_val(f'{name}.loss') for name in DEVICES)
+    rated = rated + 1.3**2 * prob.get_val('cable.loss')
+    np.testing.assert_allclose(prob.get_val('thermal.rated_heat_load'), rated, rtol=1e-12)
+    np.testing.assert_allclose(prob.get_val('thermal.mass'), 0.5e-3 * rated, rtol=1e-12)
 
 
 def test_chain_totals():
@@ -276,6 +346,7 @@ def test_device_partials(point):
             'motor_loss': [8.0e4, 2.0e4, 5.0e4],
             'specific_mass': [0.5e-3, 1.0e-3, 0.3e-3],
             'drag_per_power': [2.0e-5, 0.0, 5.0e-5],
+            'sizing_factor': [1.3, 1.0, 1.7],
         },
         {
             'generator_loss': [1.0e3, 7.0e4, 2.0e4],
@@ -285,11 +356,27 @@ def test_device_partials(point):
             'motor_loss': [4.0e4, 6.0e4, 1.0e4],
             'specific_mass': [2.0e-3, 0.1e-3, 0.7e-3],
             'drag_per_power': [1.0e-5, 3.0e-5, 0.5e-5],
+            'sizing_factor': [1.1, 1.5, 2.0],
         },
     ],
 )
 def test_thermal_partials(point):
     check_component_partials(ThermalManagementComp(vec_size=3), point)
+
+
+def test_thermal_partials_custom_exponents():
+    # non-integer and zero exponents, k below and above 1
+    check_component_partials(
+        ThermalManagementComp(vec_size=3, sources={'a': 0, 'b': 1.5, 'c': 3}),
+        {
+            'a_loss': [1.0e3, 2.0e4, 5.0e3],
+            'b_loss': [4.0e4, 1.0e3, 7.0e3],
+            'c_loss': [2.0e3, 6.0e3, 3.0e4],
+            'sizing_factor': [0.8, 1.25, 2.5],
+            'specific_mass': [0.4e-3, 1.2e-3, 0.9e-3],
+            'drag_per_power': [1.4e-3, 0.7e-3, 2.0e-3],
+        },
+    )
 
 
 @pytest.mark.parametrize(

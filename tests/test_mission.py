@@ -100,7 +100,7 @@ MISSION = {
     'landing_fraction': [0.982, 0.99, 0.985],
     'diversion_range': [370400.0, 400000.0, 200000.0],
     'hold_time': [1800.0, 2700.0, 1200.0],
-    'hold_speed': [130.0, 140.0, 110.0],
+    'true_airspeed': [230.0, 250.0, 200.0],
     'contingency_fraction': [0.05, 0.03, 0.1],
 }
 
@@ -111,7 +111,8 @@ def test_closed_form_identities():
     a = G0 / (v['overall_efficiency'] * v['fuel_heating_value'] * v['lift_to_drag'])
     f_cr = np.exp(-a * v['range'])
     f_div = np.exp(-a * v['diversion_range'])
-    f_hold = np.exp(-a * v['hold_time'] * v['hold_speed'])
+    # hold: Breguet endurance form at the cruise TSFC, exp(-a t_h V_cr)
+    f_hold = np.exp(-a * v['hold_time'] * v['true_airspeed'])
     product = v['takeoff_fraction'] * v['climb_fraction'] * f_cr * v['landing_fraction']
     trip = v['mtow'] * (1.0 - product)
     np.testing.assert_allclose(prob.get_val('cruise_fuel_fraction'), f_cr, rtol=1e-12)
@@ -155,6 +156,82 @@ def test_no_range_no_cruise_fuel():
     assert prob.get_val('block_fuel')[0] == pytest.approx(0.0, abs=1e-9)
 
 
+# Hold alone: no trip, no diversion, no contingency, so reserve = m_land (1 - f_hold).
+HOLD_ONLY = {
+    'mtow': 70000.0,
+    'range': 0.0,
+    'takeoff_fraction': 1.0,
+    'climb_fraction': 1.0,
+    'landing_fraction': 1.0,
+    'diversion_range': 0.0,
+    'contingency_fraction': 0.0,
+    'hold_time': 1800.0,
+    'true_airspeed': 230.0,
+    'overall_efficiency': 0.35,
+    'fuel_heating_value': 43.0e6,
+    'lift_to_drag': 17.0,
+}
+
+
+def test_hold_endurance_form_with_explicit_tsfc():
+    # Breguet endurance equation ln(m_i/m_f) = t g TSFC / (L/D) (e.g. Raymer, Aircraft
+    # Design: A Conceptual Approach, ch. 17, endurance equation; from memory), with the
+    # cruise TSFC = V_cr / (eta_o H) from the range form. Hand values from these equations:
+    # TSFC = 230 / (0.35 * 43e6) = 1.52824e-5 kg/(N s) (0.5395 per hour as weight flow per
+    # thrust); exponent 1800 * 9.80665 * 1.52824e-5 / 17 = 0.0158685; f_hold = 0.984257;
+    # hold fuel from 70 t: 70000 (1 - 0.984257) = 1102.0 kg.
+    v = HOLD_ONLY
+    tsfc = v['true_airspeed'] / (v['overall_efficiency'] * v['fuel_heating_value'])
+    assert tsfc == pytest.approx(1.52824e-5, rel=1e-5)
+    f_hold = np.exp(-v['hold_time'] * G0 * tsfc / v['lift_to_drag'])
+    assert f_hold == pytest.approx(0.984257, rel=1e-6)
+
+    prob = _run(HOLD_ONLY)
+    assert prob.get_val('landing_mass', units='kg')[0] == pytest.approx(70000.0, rel=1e-15)
+    reserve = prob.get_val('reserve_fuel', units='kg')[0]
+    assert reserve == pytest.approx(70000.0 * (1.0 - f_hold), rel=1e-12)
+    assert reserve == pytest.approx(1102.03, rel=1e-5)
+
+
+def test_hold_fuel_proportional_to_cruise_speed_not_hold_speed():
+    # At a fixed overall efficiency the cruise TSFC = V_cr / (eta_o H) grows with V_cr, so the
+    # hold fuel exponent does too: ln(1/f_hold) is proportional to t_h V_cr (hand identity).
+    speeds = np.array([150.0, 230.0, 300.0])
+    prob = _run(dict(HOLD_ONLY, true_airspeed=speeds), vec_size=3)
+    f_hold = 1.0 - prob.get_val('reserve_fuel', units='kg') / 70000.0
+    exponent = -np.log(f_hold)
+    np.testing.assert_allclose(exponent / speeds, exponent[1] / speeds[1], rtol=1e-10)
+    # the same exponent follows from swapping t_h and V_cr at a fixed product
+    swapped = _run(dict(HOLD_ONLY, hold_time=230.0, true_airspeed=1800.0))
+    assert swapped.get_val('reserve_fuel')[0] == pytest.approx(
+        prob.get_val('reserve_fuel')[1], rel=1e-12
+    )
+
+
+def test_no_hold_time_no_hold_fuel():
+    prob = _run(dict(HOLD_ONLY, hold_time=0.0))
+    assert prob.get_val('reserve_fuel')[0] == pytest.approx(0.0, abs=1e-9)
+
+
+def test_trip_fuel_does_not_depend_on_airspeed():
+    # the range form depends on V only through eta_o; the speed input feeds only the hold
+    prob = _run({'true_airspeed': [150.0, 230.0, 300.0]}, vec_size=3)
+    for out in ('block_fuel', 'landing_mass', 'mid_cruise_mass', 'cruise_fuel_fraction'):
+        values = prob.get_val(out)
+        np.testing.assert_allclose(values, values[0], rtol=1e-15, err_msg=out)
+    assert np.all(np.diff(prob.get_val('reserve_fuel')) > 0.0)
+
+
+@pytest.mark.parametrize(
+    'name, values',
+    [('hold_time', [900.0, 1800.0, 2700.0]), ('true_airspeed', [150.0, 230.0, 300.0])],
+)
+def test_reserve_grows_with_hold_time_and_cruise_speed(name, values):
+    prob = _run({name: values}, vec_size=3)
+    for out in ('reserve_fuel', 'total_fuel'):
+        assert np.all(np.diff(prob.get_val(out)) > 0.0), out
+
+
 @pytest.mark.parametrize(
     'name, values, sign',
     [
@@ -187,7 +264,7 @@ def test_partials():
             'landing_fraction': [0.995, 0.98, 1.0],
             'diversion_range': [1.0e5, 5.0e5, 0.0],
             'hold_time': [600.0, 3600.0, 0.0],
-            'hold_speed': [80.0, 150.0, 60.0],
+            'true_airspeed': [120.0, 260.0, 180.0],
             'contingency_fraction': [0.0, 0.05, 0.15],
         },
     )

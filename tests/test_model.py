@@ -139,9 +139,12 @@ def test_zero_thrust_fraction_is_the_conventional_aircraft(reference):
     assert zero.mtow_kg == pytest.approx(reference.mtow_kg, rel=1e-10)
     assert zero.block_fuel_kg == pytest.approx(reference.block_fuel_kg, rel=1e-10)
     assert zero.electrical_mass_kg == 0.0
-    # The limit is continuous: a tiny aft fan approaches the conventional aircraft.
+    # The limit is not continuous, as in a real aircraft: a tiny aft fan still wraps the
+    # tail cone, so its blades are very short (hub-to-tip ratio near 1, far beyond the
+    # minimum blade height) and its nacelle ring weighs and drags.
     tiny = voltwake.analyze(TURBO_ELECTRIC, {'aft_fan.thrust_fraction': 1e-4})
-    assert tiny.block_fuel_kg == pytest.approx(reference.block_fuel_kg, rel=2e-3)
+    assert tiny.aft_fan_hub_to_tip_ratio > 0.99 and tiny.aft_fan_hub_to_tip_margin < 0.0
+    assert tiny.block_fuel_kg > reference.block_fuel_kg
 
 
 def _fuel(path, **overrides):

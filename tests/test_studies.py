@@ -253,7 +253,8 @@ def test_breakeven_and_monte_carlo_studies_write_csv_plots_and_report(tmp_path):
             assert (out / png).stat().st_size > 1000
             assert png.replace('_', ' ').replace('.png', '') in report
     breakeven = json.loads((out / 'breakeven_summary.json').read_text())
-    assert breakeven['found'] and abs(breakeven['difference_at_value']) < 0.01
+    # The demo has no break-even on this interval (see test_breakeven.py): it is reported.
+    assert not breakeven['found'] and 'no break-even' in breakeven['message']
     assert len(rows) == 30  # the Monte Carlo samples
 
 

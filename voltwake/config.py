@@ -22,7 +22,15 @@ import re
 from openmdao.utils.units import convert_units, is_compatible, valid_units
 
 from .errors import ConfigError
-from .schema import CONDUCTORS, DEFAULTED_SECTIONS, OPTIONAL_SECTIONS, REQUIRED, SECTIONS, Field
+from .schema import (
+    CONDUCTORS,
+    DEFAULTED_SECTIONS,
+    OPTIONAL_SECTIONS,
+    REQUIRED,
+    RETIRED_KEYS,
+    SECTIONS,
+    Field,
+)
 from .yamlio import key_path, parse_value, parse_yaml, read_yaml_file
 
 #: Source name of values given as overrides.
@@ -42,7 +50,11 @@ _NUMBER_AND_UNIT = re.compile(r'([-+]?(?:[0-9]+\.?[0-9]*|\.[0-9]+)(?:[eE][-+]?[0
 _MAX_INTEGER = 2**31 - 1
 
 #: Keys outside the aft-fan sections that only a turbo-electric model has inputs for.
-_AFT_ONLY = ('performance.aft_fan_max_diameter_ratio', 'performance.motor_power_limit')
+_AFT_ONLY = (
+    'performance.aft_fan_max_diameter_ratio',
+    'performance.aft_fan_max_hub_to_tip_ratio',
+    'performance.motor_power_limit',
+)
 
 _CHECKS = {
     'positive': (lambda v: v > 0, 'a value > 0'),
@@ -445,6 +457,9 @@ def _walk(schema, data, path, lines, source, values, origins, overridden):
             sub = path + (str(key),)
             where = _where(sub, lines, source, overridden)
             where['line'] = None if where['line'] is None else lines.get(sub)
+            retired = RETIRED_KEYS.get('.'.join(sub))
+            if retired:
+                raise ConfigError(f'this key is no longer read: {retired}; remove it', **where)
             raise ConfigError(
                 f'unknown key{_suggest(str(key), known)}; expected one of the '
                 f"known keys here: {', '.join(known)}",

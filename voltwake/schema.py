@@ -100,8 +100,12 @@ SECTIONS = {
         'diversion_range': _q(
             'm', 'distance to the alternate aerodrome', 'diversion_range', check='nonnegative'
         ),
-        'hold_time': _q('s', 'holding time', 'hold_time', check='nonnegative'),
-        'hold_speed': _q('m/s', 'true airspeed in the hold', 'hold_speed'),
+        'hold_time': _q(
+            's',
+            'holding time, flown at the cruise TSFC and lift-to-drag ratio',
+            'hold_time',
+            check='nonnegative',
+        ),
         'contingency_fraction': _n(
             'contingency fuel as a fraction of trip fuel',
             'contingency_fraction',
@@ -231,9 +235,16 @@ SECTIONS['performance'] = {
         check='at_least_one',
     ),
     'aft_fan_max_diameter_ratio': _n(
-        'largest aft-fan diameter / maximum fuselage diameter',
+        'largest aft-fan tip diameter / maximum fuselage diameter (stands in for the '
+        'tail-strike line at rotation)',
         'aft_fan_max_diameter_ratio',
-        default=0.6,
+        default=0.7,
+    ),
+    'aft_fan_max_hub_to_tip_ratio': _n(
+        'largest aft-fan hub-to-tip ratio (a minimum blade height)',
+        'aft_fan_max_hub_to_tip_ratio',
+        default=0.8,
+        check='open_fraction',
     ),
     'motor_power_limit': _q(
         'W', 'largest rated power of one aft-fan motor', 'motor_power_limit', default=4.0e6
@@ -247,15 +258,22 @@ SECTIONS['aft_fan'] = {
         check='unit_fraction',
     ),
     'fan_pressure_ratio': _n('aft-fan pressure ratio', 'aft_fan_pressure_ratio', check='above_one'),
-    'fan_efficiency': _n('aft-fan isentropic efficiency', 'aft_fan_efficiency', check='fraction'),
+    'fan_efficiency': _n(
+        'aft-fan isentropic efficiency on clean (uniform) inflow',
+        'aft_fan_efficiency',
+        check='fraction',
+    ),
+    'distortion_sensitivity': _n(
+        'aft-fan efficiency lost per unit non-uniformity of the ingested flow',
+        'aft_fan_distortion_sensitivity',
+        check='nonnegative',
+        default=1.2,
+    ),
     'fan_face_mach': _n(
         'axial Mach number at the aft-fan face', 'aft_fan_face_mach', check='open_fraction'
     ),
-    'hub_to_tip_ratio': _n(
-        'aft-fan hub-to-tip radius ratio', 'aft_fan_hub_to_tip_ratio', check='unit_fraction'
-    ),
     'station_diameter_ratio': _n(
-        'fuselage diameter at the fan station / maximum diameter',
+        'fuselage diameter at the fan station (the fan hub) / maximum diameter',
         'station_diameter_ratio',
         check='fraction',
     ),
@@ -266,7 +284,7 @@ SECTIONS['aft_fan'] = {
         check='at_least_one',
     ),
     'fan_areal_mass': _q(
-        'kg/m**2', 'fan, casing and shaft mass per fan face area', 'aft_fan_areal_mass'
+        'kg/m**2', 'fan, casing and shaft mass per fan-face annulus area', 'aft_fan_areal_mass'
     ),
     'nacelle_areal_mass': _q(
         'kg/m**2', 'aft nacelle mass per wetted area', 'aft_nacelle_areal_mass'
@@ -317,18 +335,26 @@ SECTIONS['electrical'] = {
     'thermal': {
         'specific_mass': _q(
             'kg/W',
-            'thermal-management mass per unit heat load',
+            'thermal-management mass per unit rated heat load',
             'thermal_specific_mass',
             check='nonnegative',
         ),
         'drag_per_power': _q(
             'N/W',
-            'drag penalty per unit heat rejected',
+            'cruise drag per unit heat rejected (ram-air heat exchangers)',
             'thermal_drag_per_power',
             check='nonnegative',
-            default=0.0,
+            default=1.4e-3,
         ),
     },
+}
+
+#: Keys that older configs may hold and that are no longer read: path -> why.
+RETIRED_KEYS = {
+    'reserves.hold_speed': 'the hold is flown at the cruise TSFC and lift-to-drag ratio '
+    '(Breguet endurance form), so its speed does not enter',
+    'aft_fan.hub_to_tip_ratio': 'the aft-fan hub is the fuselage at the fan station '
+    '(aft_fan.station_diameter_ratio) and the hub-to-tip ratio follows from the annulus area',
 }
 
 SECTIONS['optimization'] = {
