@@ -121,20 +121,22 @@ def test_fuel_burn_change_is_against_the_optimised_conventional_reference(serial
 
 
 def test_an_output_target_is_an_equality_constraint(demo_optimum):
+    # Targets below the PSC of the free optimum (at the optimum itself the equality would
+    # duplicate the active blade-height limit, a degenerate pair for SLSQP).
     reached = demo_optimum.outputs['power_saving_coefficient']
-    lower = reached - 0.01
-    sweep = target_sweep(DEMO, {'power_saving_coefficient': [lower, reached]}, jobs=2)
-    low, same = sweep['points']
-    for point, target in ((low, lower), (same, reached)):
+    near, far = reached - 0.005, reached - 0.015
+    sweep = target_sweep(DEMO, {'power_saving_coefficient': [near, far]}, jobs=2)
+    low, lower = sweep['points']
+    for point, target in ((low, near), (lower, far)):
         assert point['success'], point['message']
         assert point['power_saving_coefficient'] == pytest.approx(target, rel=1e-6)
         assert 'power_saving_coefficient' in point['active_constraints']
         # The aft-fan variables stay free with an output target.
         assert 'dv:aft_fan.thrust_fraction' in point
-    # At the value the free optimum reaches, the constraint costs nothing ...
-    assert same['block_fuel_kg'] == pytest.approx(demo_optimum.outputs['block_fuel_kg'], rel=1e-5)
-    # ... and away from it the constrained optimum cannot burn less.
-    assert low['block_fuel_kg'] > demo_optimum.outputs['block_fuel_kg'] * (1.0 - 1e-7)
+        # Away from the free optimum the constrained optimum cannot burn less ...
+        assert point['block_fuel_kg'] > demo_optimum.outputs['block_fuel_kg'] * (1.0 - 1e-7)
+    # ... and the further the target, the more it costs.
+    assert lower['block_fuel_kg'] > low['block_fuel_kg']
 
 
 def test_a_conventional_input_target_gets_a_reference_of_its_own():
