@@ -15,9 +15,25 @@ from .config import load_config
 
 #: Outputs and inputs whose total derivatives are checked (the wing's size enters as its area
 #: or, for a wing sized to a wing loading, as that loading: see :func:`checked_totals`).
-TOTALS_OF = ['block_fuel', 'mtow', 'lift_to_drag', 'overall_efficiency', 'wingspan', 'wing_area']
+TOTALS_OF = [
+    'block_fuel',
+    'mtow',
+    'lift_to_drag',
+    'overall_efficiency',
+    'wingspan',
+    'wing_area',
+    'takeoff_field_length',
+    'climb_thrust_margin',
+]
 TOTALS_WRT = ['aspect_ratio', 'turbofan_fan_pressure_ratio', 'range', 'payload', 'altitude']
-AFT_TOTALS_OF = ['power_saving_coefficient', 'electrical_mass', 'aft_fan_diameter']
+AFT_TOTALS_OF = [
+    'power_saving_coefficient',
+    'power_saving_coefficient_same_mass_flow',
+    'electrical_mass',
+    'aft_fan_diameter',
+    'aft_fan_hub_to_tip_ratio',
+    'aft_fan_installed_efficiency',
+]
 AFT_TOTALS_WRT = [
     'aft_thrust_fraction',
     'aft_fan_pressure_ratio',
