@@ -26,19 +26,3 @@ def test_propulsion_system_partials_and_values():
         np.testing.assert_allclose(
             prob.get_val('engine_power_extraction'), np.array([0.0, 1e6, 3e6]) / count
         )
-
-
-def test_installed_thrust_partials_and_values():
-    from voltwake.components.propulsion_system import InstalledThrustComp
-
-    prob = check_component_partials(
-        InstalledThrustComp(vec_size=3, num_engines=2),
-        {
-            'turbofan_rated_thrust': [8e4, 9e4, 1e5],
-            'aft_fan_thrust': [0.0, 5e3, 8e3],
-            'rated_to_cruise_thrust': [5.0, 5.5, 6.0],
-        },
-    )
-    np.testing.assert_allclose(
-        prob.get_val('installed_thrust'), [1.6e5, 1.8e5 + 2.75e4, 2.0e5 + 4.8e4]
-    )
