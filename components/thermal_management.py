@@ -10,6 +10,10 @@ from voltwake.components.base import PointwiseComponent
 #: (see the ThermalManagementComp docstring), 1.43e-3 N/W rounded to 1.4e-3 N/W.
 DRAG_PER_POWER = 1.4e-3
 
+#: Loss exponents of the electrical chain's heat sources: loss ~ power**exponent, 1 for a
+#: device of constant efficiency, 2 for the cable's resistive loss (current squared).
+CHAIN_LOSS_EXPONENTS = {'generator': 1, 'rectifier': 1, 'cable': 2, 'inverter': 1, 'motor': 1}
+
 
 def _check_sources(name, value):
     """
@@ -86,7 +90,7 @@ class ThermalManagementComp(PointwiseComponent):
         self.options.declare(
             'sources',
             types=dict,
-            default={'generator': 1, 'rectifier': 1, 'cable': 2, 'inverter': 1, 'motor': 1},
+            default=dict(CHAIN_LOSS_EXPONENTS),
             check_valid=_check_sources,
             desc='Heat sources, name -> loss exponent (loss ~ power**exponent: 1 for a device '
             'of constant efficiency, 2 for a resistive cable); each adds an input '

@@ -34,7 +34,7 @@ from voltwake.components.ratings import DiameterLimitComp, RatingMarginComp
 from voltwake.components.reference_fan import SameMassFlowFanComp
 from voltwake.components.takeoff import TakeoffFieldLengthComp
 from voltwake.components.takeoff_thrust import StaticThrustPerPowerComp, TakeoffThrustComp
-from voltwake.components.thermal_management import ThermalManagementComp
+from voltwake.components.thermal_management import CHAIN_LOSS_EXPONENTS, ThermalManagementComp
 from voltwake.components.thrust_split import ThrustSplitComp
 from voltwake.components.turbofan_core import EngineMassComp, TurbofanCoreComp
 from voltwake.components.weights import AirframeMassComp, MassBuildUpComp
@@ -43,9 +43,6 @@ from voltwake.models.solvers import PointwiseDirectSolver, SizingNewtonSolver
 
 #: Electrical devices from the aft-fan shaft back to the turbofan shafts.
 CHAIN = ('motor', 'inverter', 'cable', 'rectifier', 'generator')
-#: How each device's loss grows from cruise to rated power: exponent of the power ratio
-#: (constant efficiency: 1; the cable's resistive loss goes with the current squared: 2).
-LOSS_EXPONENTS = {'motor': 1, 'inverter': 1, 'cable': 2, 'rectifier': 1, 'generator': 1}
 
 _FAN_OUTPUTS = (
     'jet_velocity',
@@ -534,7 +531,7 @@ class ElectricalChainGroup(om.Group):
         _add(
             self,
             'thermal',
-            ThermalManagementComp(vec_size=n, sources=dict(LOSS_EXPONENTS)),
+            ThermalManagementComp(vec_size=n, sources=dict(CHAIN_LOSS_EXPONENTS)),
             [f'{device}_loss' for device in CHAIN]
             + [('sizing_factor', 'electrical_sizing_factor')]
             + _prefixed('thermal', ['specific_mass', 'drag_per_power']),

@@ -155,6 +155,21 @@ def test_unknown_key_suggests_the_close_one(tmp_path):
     assert 'aspect_ratio' in err.message  # the keys known here are listed
 
 
+@pytest.mark.parametrize(
+    'section, key, line_text, reason',
+    [
+        ('reserves', 'hold_time', 'hold_speed: 150 m/s', 'cruise TSFC'),
+        ('aft_fan', 'fan_face_mach', 'hub_to_tip_ratio: 0.45', 'station_diameter_ratio'),
+    ],
+)
+def test_a_retired_key_is_refused_saying_why(tmp_path, section, key, line_text, reason):
+    text, line = set_line(demo_text(), section, key, line_text)
+    path = write(tmp_path, text)
+    err = config_error(path)
+    assert_points_at(err, path, line, f"{section}.{line_text.split(':')[0]}")
+    assert 'no longer read' in err.message and reason in err.message
+
+
 def test_unknown_section_suggests_the_close_one(tmp_path):
     text = demo_text().replace('\nwing:\n', '\nwings:\n')
     line = text.splitlines().index('wings:') + 1
