@@ -284,8 +284,23 @@ def test_ctrl_c_leaves_partial_results_and_a_readable_case_file(tmp_path):
 
     out = tmp_path / 'run'
     env = dict(os.environ, OPENMDAO_REPORTS='0')
+    # The optimiser is slowed after each logged evaluation (a test double around the log,
+    # behaviour unchanged), so the interrupt always lands while it runs: on a fast machine
+    # the whole optimisation takes well under a second after the fifth evaluation.
+    slowed = (
+        'import sys, time\n'
+        'import voltwake.optimization as opt\n'
+        'log = opt.SizingOptimizeDriver._log\n'
+        'def slow(self, closed):\n'
+        '    log(self, closed)\n'
+        '    sys.stdout.flush()\n'
+        '    time.sleep(0.5)\n'
+        'opt.SizingOptimizeDriver._log = slow\n'
+        'from voltwake.cli import main\n'
+        'sys.exit(main(sys.argv[1:]))\n'
+    )
     proc = subprocess.Popen(
-        [sys.executable, '-m', 'voltwake.cli', 'optimize', '--out', str(out)],
+        [sys.executable, '-c', slowed, 'optimize', '--out', str(out)],
         stdout=subprocess.PIPE,
         stderr=subprocess.PIPE,
         text=True,

@@ -173,15 +173,31 @@ def test_ctrl_c_during_a_sweep_exits_130_with_a_partial_summary(tmp_path):
 
     out = tmp_path / 'sweep'
     env = dict(os.environ, OPENMDAO_REPORTS='0')
-    # The packaged demo's study: a 100 x 100 map, then a Monte Carlo study.
+    # The packaged demo's study: a 100 x 100 map, then a Monte Carlo study. The map is held
+    # at its start (a test double around it, which says when it is there), so the interrupt
+    # always lands during the map, however fast or slow the machine.
+    held = (
+        'import sys, time\n'
+        'import voltwake.sweep as sweep\n'
+        'run_map = sweep.design_space_map\n'
+        'def held(*args, **kwargs):\n'
+        '    print("map started", flush=True)\n'
+        '    time.sleep(60.0)\n'
+        '    return run_map(*args, **kwargs)\n'
+        'sweep.design_space_map = held\n'
+        'from voltwake.cli import main\n'
+        'sys.exit(main(sys.argv[1:]))\n'
+    )
     proc = subprocess.Popen(
-        [sys.executable, '-m', 'voltwake.cli', 'sweep', '--out', str(out)],
+        [sys.executable, '-c', held, 'sweep', '--out', str(out)],
         stdout=subprocess.PIPE,
         stderr=subprocess.PIPE,
         text=True,
         env=env,
     )
-    time.sleep(4.0)
+    deadline = time.monotonic() + 120
+    while time.monotonic() < deadline and 'map started' not in proc.stdout.readline():
+        pass
     proc.send_signal(signal.SIGINT)
     _, err = proc.communicate(timeout=120)
     assert proc.returncode == 130, err
