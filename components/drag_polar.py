@@ -4,7 +4,13 @@ import numpy as np
 
 from voltwake.components.base import PointwiseComponent
 
-_DRAG_AREAS = ('fuselage_drag_area', 'nacelle_drag_area', 'aft_nacelle_drag_area')
+_DRAG_AREAS = (
+    'fuselage_drag_area',
+    'nacelle_drag_area',
+    'aft_nacelle_drag_area',
+    'horizontal_tail_drag_area',
+    'vertical_tail_drag_area',
+)
 
 
 class DragPolarComp(PointwiseComponent):
@@ -13,7 +19,8 @@ class DragPolarComp(PointwiseComponent):
 
     .. math::
 
-        C_{D0} = C_{D0,other} + \frac{(C_D A)_{fus} + (C_D A)_{nac} + (C_D A)_{aft}}{S},
+        C_{D0} = C_{D0,other}
+        + \frac{(C_D A)_{fus} + (C_D A)_{nac} + (C_D A)_{aft} + (C_D A)_{HT} + (C_D A)_{VT}}{S},
         \qquad C_{Di} = \frac{C_L^2}{\pi e A}, \qquad C_D = C_{D0} + C_{Di}
 
     .. math::
@@ -74,6 +81,13 @@ class DragPolarComp(PointwiseComponent):
             units='m**2',
             desc='Zero-lift drag area of the aft-fan nacelle',
         )
+        for tail in ('horizontal', 'vertical'):
+            self.add_input(
+                f'{tail}_tail_drag_area',
+                np.zeros(n),
+                units='m**2',
+                desc=f'Zero-lift drag area of the {tail} tail (0 when cd0_other includes it)',
+            )
         self.add_input(
             'extra_drag',
             np.zeros(n),

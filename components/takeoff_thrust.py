@@ -176,41 +176,27 @@ class StaticThrustPerPowerComp(PointwiseComponent):
 
 class TakeoffThrustComp(PointwiseComponent):
     r"""
-    Total sea-level static take-off thrust of the turbofans and the motor-driven aft fan.
+    Sea-level static take-off thrust of the turbofans and of the aft fan.
 
-    The generators are rated at the electrical sizing factor :math:`k_{size}` times their
-    cruise power and draw that rated power at take-off, taken off the :math:`N` turbofans
-    evenly. Each turbofan's core delivers the same shaft power as without extraction, so the
-    turbofan loses the thrust its fan would have made with the diverted shaft power, at the
-    fan's static thrust per unit shaft power :math:`s_{tf}` (common practice):
-
-    .. math::
-
-        P_{ext,TO} = k_{size} P_{ext}, \qquad
-        F_{tf,TO} = F_{rated} - s_{tf} \frac{P_{ext,TO}}{N}
-
-    The aft fan gets the shaft power :math:`P_{mot}` that its motor delivers at take-off
-    (its rated power) and makes thrust at its own static thrust per unit shaft power
-    :math:`s_{aft}` (:class:`StaticThrustPerPowerComp`):
+    The turbofans' cores are sized to drive their fans at the rated thrust *and* the
+    generators at their rated power (:class:`voltwake.components.turbofan_core.EngineMassComp`
+    carries the mass of that core), so each turbofan delivers its rated thrust at take-off
+    with the extraction. The aft fan gets the shaft power :math:`P_{mot}` that its motor
+    delivers at take-off (its rated power) and makes thrust at its own static thrust per unit
+    shaft power :math:`s_{aft}` (:class:`StaticThrustPerPowerComp`):
 
     .. math::
 
+        F_{tf,TO} = F_{rated}, \qquad
         P_{aft,TO} = P_{mot}, \qquad
         F_{aft,TO} = s_{aft} P_{mot}, \qquad
         F_{TO} = N F_{tf,TO} + F_{aft,TO}
 
-    With no extraction and no motor power (a conventional aircraft) :math:`F_{TO} = N
-    F_{rated}` exactly. :math:`F_{rated}` is the rated sea-level static thrust of one turbofan
-    without power extraction.
-
-    Assumptions and omissions: at fixed fan pressure ratio and efficiency the fan thrust is
-    proportional to its shaft power (the mass flow scales), so the loss :math:`s_{tf}
-    P_{ext,TO}/N` is exact within :class:`StaticThrustPerPowerComp`'s model; a real fan with a
-    fixed nozzle moves down its working line to a lower pressure ratio, where the thrust per
-    unit power is higher, so the real loss is smaller (the estimate is conservative; follows
-    from the trend of :math:`s` with fan pressure ratio). The core
-    is not run hotter to make up for the extraction. The model does not check that the motor
-    power matches the generator power less the chain losses; the caller supplies both.
+    With no motor power (a conventional aircraft) :math:`F_{TO} = N F_{rated}` exactly.
+    Assumptions: the aft fan runs at its design fan pressure ratio at take-off (see
+    :class:`StaticThrustPerPowerComp`); the model does not check that the motor power matches
+    the generator power less the chain losses, which the sizing loop ensures at cruise and the
+    common sizing factor at take-off.
 
     Parameters
     ----------
@@ -237,25 +223,7 @@ class TakeoffThrustComp(PointwiseComponent):
             'turbofan_rated_thrust',
             9.0e4 * ones,
             units='N',
-            desc='Rated sea-level static thrust of one turbofan without power extraction',
-        )
-        self.add_input(
-            'turbofan_thrust_per_power',
-            7.0e-3 * ones,
-            units='N/W',
-            desc='Static thrust per unit fan shaft power of a turbofan',
-        )
-        self.add_input(
-            'shaft_power_extracted',
-            np.zeros(n),
-            units='W',
-            desc='Cruise shaft power taken off all turbofans for the generators',
-        )
-        self.add_input(
-            'sizing_factor',
-            ones,
-            units=None,
-            desc='Rated / cruise power of the electrical devices',
+            desc='Rated sea-level static thrust of one turbofan',
         )
         self.add_input(
             'motor_rated_power',
@@ -270,25 +238,18 @@ class TakeoffThrustComp(PointwiseComponent):
             desc='Static thrust per unit fan shaft power of the aft fan',
         )
         self.add_output(
-            'takeoff_power_extraction',
-            np.zeros(n),
-            units='W',
-            ref=1e6,
-            desc='Shaft power taken off all turbofans at take-off',
-        )
-        self.add_output(
             'turbofan_takeoff_thrust',
             9.0e4 * ones,
             units='N',
             ref=1e5,
-            desc='Static take-off thrust of one turbofan net of power extraction',
+            desc='Static take-off thrust of one turbofan',
         )
         self.add_output(
             'turbofans_takeoff_thrust',
             1.8e5 * ones,
             units='N',
             ref=1e5,
-            desc='Static take-off thrust of all turbofans net of power extraction',
+            desc='Static take-off thrust of all turbofans',
         )
         self.add_output(
             'aft_fan_takeoff_power',
@@ -318,32 +279,21 @@ class TakeoffThrustComp(PointwiseComponent):
         """
         idx = np.arange(self.options['vec_size'])
         count = float(self.options['num_engines'])
-        self.declare_diagonal_partials(
-            'takeoff_power_extraction', ['shaft_power_extracted', 'sizing_factor']
-        )
-        self.declare_partials(
-            'turbofan_takeoff_thrust', 'turbofan_rated_thrust', rows=idx, cols=idx, val=1.0
-        )
-        extraction = ['turbofan_thrust_per_power', 'shaft_power_extracted', 'sizing_factor']
-        self.declare_diagonal_partials(
-            ['turbofan_takeoff_thrust', 'turbofans_takeoff_thrust', 'installed_thrust'], extraction
-        )
+        for out, val in (
+            ('turbofan_takeoff_thrust', 1.0),
+            ('turbofans_takeoff_thrust', count),
+            ('installed_thrust', count),
+        ):
+            self.declare_partials(out, 'turbofan_rated_thrust', rows=idx, cols=idx, val=val)
         self.declare_partials(
             'aft_fan_takeoff_power', 'motor_rated_power', rows=idx, cols=idx, val=1.0
         )
         aft = ['motor_rated_power', 'aft_thrust_per_power']
         self.declare_diagonal_partials(['aft_fan_takeoff_thrust', 'installed_thrust'], aft)
-        self.declare_partials(
-            ['installed_thrust', 'turbofans_takeoff_thrust'],
-            'turbofan_rated_thrust',
-            rows=idx,
-            cols=idx,
-            val=count,
-        )
 
     def compute(self, inputs, outputs):
         """
-        Compute the take-off extraction, powers and thrusts.
+        Compute the take-off thrusts and the aft fan's take-off power.
 
         Parameters
         ----------
@@ -353,15 +303,12 @@ class TakeoffThrustComp(PointwiseComponent):
             Unscaled, dimensional output variables read via outputs[key].
         """
         count = self.options['num_engines']
-        p_ext = inputs['sizing_factor'] * inputs['shaft_power_extracted']
-        f_tf = inputs['turbofan_rated_thrust'] - inputs['turbofan_thrust_per_power'] * p_ext / count
         f_aft = inputs['aft_thrust_per_power'] * inputs['motor_rated_power']
-        outputs['takeoff_power_extraction'] = p_ext
-        outputs['turbofan_takeoff_thrust'] = f_tf
-        outputs['turbofans_takeoff_thrust'] = count * f_tf
+        outputs['turbofan_takeoff_thrust'] = inputs['turbofan_rated_thrust']
+        outputs['turbofans_takeoff_thrust'] = count * inputs['turbofan_rated_thrust']
         outputs['aft_fan_takeoff_power'] = inputs['motor_rated_power']
         outputs['aft_fan_takeoff_thrust'] = f_aft
-        outputs['installed_thrust'] = count * f_tf + f_aft
+        outputs['installed_thrust'] = count * inputs['turbofan_rated_thrust'] + f_aft
 
     def compute_partials(self, inputs, partials):
         """
@@ -374,26 +321,6 @@ class TakeoffThrustComp(PointwiseComponent):
         partials : Jacobian
             Sub-jac components written to partials[output_name, input_name].
         """
-        count = self.options['num_engines']
-        k_size = inputs['sizing_factor']
-        p_cruise = inputs['shaft_power_extracted']
-        s_tf = inputs['turbofan_thrust_per_power']
-        p_ext = k_size * p_cruise
-
-        partials['takeoff_power_extraction', 'shaft_power_extracted'] = k_size
-        partials['takeoff_power_extraction', 'sizing_factor'] = p_cruise
-
-        # Thrust of one turbofan; the installed thrust carries N times the same terms.
-        d_tf = {
-            'turbofan_thrust_per_power': -p_ext / count,
-            'shaft_power_extracted': -s_tf * k_size / count,
-            'sizing_factor': -s_tf * p_cruise / count,
-        }
-        for name, val in d_tf.items():
-            partials['turbofan_takeoff_thrust', name] = val
-            partials['turbofans_takeoff_thrust', name] = count * val
-            partials['installed_thrust', name] = count * val
-
         d_aft = {
             'motor_rated_power': inputs['aft_thrust_per_power'],
             'aft_thrust_per_power': inputs['motor_rated_power'],

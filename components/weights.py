@@ -219,3 +219,75 @@ class MassBuildUpComp(PointwiseComponent):
             partials[out, 'airframe_mass'] = 1.0
         partials['mtow', 'payload'] = 1.0
         partials['mtow', 'total_fuel'] = 1.0
+
+
+class MassSumComp(PointwiseComponent):
+    r"""
+    A mass as the sum of item masses (component mass build-up).
+
+    .. math::
+
+        m = \sum_i m_i
+
+    where :math:`m_i` are the masses named in the option ``items``, and the output is named
+    by the option ``total`` (e.g. the airframe mass from wing, fuselage, tails, landing gear
+    and systems; common practice mass build-up, e.g. Raymer, Aircraft Design: A Conceptual
+    Approach, weights chapter; from memory).
+
+    Parameters
+    ----------
+    **kwargs : dict of keyword arguments
+        Keyword arguments that will be mapped into the Component options.
+    """
+
+    def initialize(self):
+        """
+        Declare options.
+        """
+        super().initialize()
+        self.options.declare(
+            'items',
+            types=(list, tuple),
+            default=['wing', 'fuselage'],
+            desc='Names of the items; each adds an input "<item>_mass" (kg).',
+        )
+        self.options.declare(
+            'total', types=str, default='airframe_mass', desc='Name of the output (kg).'
+        )
+
+    def setup(self):
+        """
+        Add inputs and outputs.
+        """
+        n = self.options['vec_size']
+        for item in self.options['items']:
+            self.add_input(f'{item}_mass', np.full(n, 5000.0), units='kg', desc=f'{item} mass')
+        self.add_output(
+            self.options['total'], np.full(n, 35000.0), units='kg', desc='Sum of the items'
+        )
+
+    def setup_partials(self):
+        """
+        Declare the constant diagonal partials.
+        """
+        idx = np.arange(self.options['vec_size'])
+        for item in self.options['items']:
+            self.declare_partials(
+                self.options['total'], f'{item}_mass', rows=idx, cols=idx, val=1.0
+            )
+
+    def compute(self, inputs, outputs):
+        """
+        Sum the item masses.
+
+        Parameters
+        ----------
+        inputs : Vector
+            Unscaled, dimensional input variables read via inputs[key].
+        outputs : Vector
+            Unscaled, dimensional output variables read via outputs[key].
+        """
+        total = 0.0
+        for item in self.options['items']:
+            total = total + inputs[f'{item}_mass']
+        outputs[self.options['total']] = total

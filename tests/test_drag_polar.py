@@ -96,6 +96,8 @@ POINTS = [
         'fuselage_drag_area': [0.7, 0.8, 0.9],
         'nacelle_drag_area': [0.15, 0.2, 0.25],
         'aft_nacelle_drag_area': [0.0, 0.05, 0.1],
+        'horizontal_tail_drag_area': [0.08, 0.1, 0.0],
+        'vertical_tail_drag_area': [0.07, 0.0, 0.09],
         'extra_drag': [0.0, 300.0, 800.0],
     },
     {
@@ -108,6 +110,8 @@ POINTS = [
         'fuselage_drag_area': [0.4, 1.8, 0.6],
         'nacelle_drag_area': [0.1, 0.5, 0.12],
         'aft_nacelle_drag_area': [0.02, 0.2, 0.0],
+        'horizontal_tail_drag_area': [0.2, 0.05, 0.11],
+        'vertical_tail_drag_area': [0.15, 0.04, 0.1],
         'extra_drag': [100.0, 0.0, 2000.0],
     },
 ]

@@ -126,9 +126,6 @@ def test_takeoff_partials():
             TakeoffThrustComp(vec_size=3, num_engines=count),
             {
                 'turbofan_rated_thrust': [8.0e4, 9.5e4, 1.1e5],
-                'turbofan_thrust_per_power': [6.5e-3, 7.0e-3, 7.5e-3],
-                'shaft_power_extracted': [5.0e5, 2.0e6, 4.0e6],
-                'sizing_factor': [1.1, 1.25, 1.5],
                 'motor_rated_power': [6.0e5, 2.5e6, 5.0e6],
                 'aft_thrust_per_power': [9.5e-3, 8.7e-3, 8.0e-3],
             },
@@ -137,9 +134,6 @@ def test_takeoff_partials():
             TakeoffThrustComp(vec_size=3, num_engines=count),
             {
                 'turbofan_rated_thrust': [1.2e5, 7.0e4, 9.0e4],
-                'turbofan_thrust_per_power': [8.0e-3, 6.0e-3, 7.2e-3],
-                'shaft_power_extracted': [3.0e6, 1.0e6, 0.0],
-                'sizing_factor': [1.0, 1.4, 1.2],
                 'motor_rated_power': [3.5e6, 1.2e6, 0.0],
                 'aft_thrust_per_power': [7.5e-3, 1.0e-2, 8.5e-3],
             },
@@ -147,35 +141,29 @@ def test_takeoff_partials():
 
 
 def test_takeoff_hand_values():
-    # Hand values from the equations in TakeoffThrustComp, two engines:
-    #   P_ext,TO = 1.25 * 2.2e6            = 2.75e6 W
-    #   F_tf,TO  = 9.0e4 - 7.0e-3 * 2.75e6/2 = 9.0e4 - 9625 = 80375 N
+    # Hand values from the equations in TakeoffThrustComp, two engines (the cores are sized
+    # for the generators' take-off draw, so each turbofan gives its rated thrust):
     #   F_aft,TO = 8.6942076e-3 * 2.5e6    = 21735.519 N
-    #   F_TO     = 2 * 80375 + 21735.519   = 182485.519 N
+    #   F_TO     = 2 * 9.0e4 + 21735.519   = 201735.519 N
     prob = _run(
         TakeoffThrustComp(vec_size=1, num_engines=2),
         turbofan_rated_thrust=9.0e4,
-        turbofan_thrust_per_power=7.0e-3,
-        shaft_power_extracted=2.2e6,
-        sizing_factor=1.25,
         motor_rated_power=2.5e6,
         aft_thrust_per_power=8.6942076e-3,
     )
-    np.testing.assert_allclose(prob.get_val('takeoff_power_extraction'), 2.75e6, rtol=1e-12)
-    np.testing.assert_allclose(prob.get_val('turbofan_takeoff_thrust'), 80375.0, rtol=1e-12)
+    np.testing.assert_allclose(prob.get_val('turbofan_takeoff_thrust'), 9.0e4, rtol=1e-12)
+    np.testing.assert_allclose(prob.get_val('turbofans_takeoff_thrust'), 1.8e5, rtol=1e-12)
     np.testing.assert_allclose(prob.get_val('aft_fan_takeoff_power'), 2.5e6, rtol=1e-12)
     np.testing.assert_allclose(prob.get_val('aft_fan_takeoff_thrust'), 21735.519, rtol=1e-12)
-    np.testing.assert_allclose(prob.get_val('installed_thrust'), 182485.519, rtol=1e-12)
+    np.testing.assert_allclose(prob.get_val('installed_thrust'), 201735.519, rtol=1e-12)
 
 
 def test_takeoff_conventional_limit():
-    # No extraction and no motor: exactly N times the rated thrust, whatever the other inputs.
+    # No motor: exactly N times the rated thrust, whatever the aft fan's thrust per power.
     for count in (1, 2, 3, 4):
         prob = _run(
             TakeoffThrustComp(vec_size=3, num_engines=count),
             turbofan_rated_thrust=[8.0e4, 9.5e4, 1.2e5],
-            turbofan_thrust_per_power=[6.0e-3, 7.0e-3, 8.0e-3],
-            sizing_factor=[1.0, 1.3, 1.6],
             aft_thrust_per_power=[7.0e-3, 8.0e-3, 9.0e-3],
         )
         np.testing.assert_array_equal(
@@ -185,19 +173,3 @@ def test_takeoff_conventional_limit():
             prob.get_val('turbofan_takeoff_thrust'), [8.0e4, 9.5e4, 1.2e5]
         )
         np.testing.assert_array_equal(prob.get_val('aft_fan_takeoff_thrust'), np.zeros(3))
-
-
-def test_takeoff_extraction_split_over_engines():
-    # The total loss s_tf k P_ext does not depend on the number of engines (it is shared).
-    losses = []
-    for count in (1, 2, 4):
-        prob = _run(
-            TakeoffThrustComp(vec_size=1, num_engines=count),
-            turbofan_rated_thrust=9.0e4,
-            turbofan_thrust_per_power=7.0e-3,
-            shaft_power_extracted=2.0e6,
-            sizing_factor=1.5,
-        )
-        losses.append(count * 9.0e4 - prob.get_val('installed_thrust')[0])
-    # Hand value: 7.0e-3 * 1.5 * 2.0e6 = 21000 N.
-    np.testing.assert_allclose(losses, 21000.0, rtol=1e-12)

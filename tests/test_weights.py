@@ -4,7 +4,7 @@ import numpy as np
 import openmdao.api as om
 import pytest
 
-from voltwake.components.weights import AirframeMassComp, MassBuildUpComp
+from voltwake.components.weights import AirframeMassComp, MassBuildUpComp, MassSumComp
 
 from partials import check_component_partials
 
@@ -134,3 +134,22 @@ def test_mass_build_up_partials():
             'total_fuel': [9e3, 8e3, 7e3],
         },
     )
+
+
+def test_mass_sum_hand_value_and_partials():
+    # m_af = sum of the items (the build-up's bookkeeping).
+    items = ['wing', 'fuselage', 'landing_gear']
+    prob = check_component_partials(
+        MassSumComp(vec_size=3, items=items),
+        {
+            'wing_mass': [7000.0, 8000.0, 9500.0],
+            'fuselage_mass': [8000.0, 9000.0, 7000.0],
+            'landing_gear_mass': [2500.0, 2800.0, 3000.0],
+        },
+    )
+    np.testing.assert_allclose(prob.get_val('airframe_mass'), [17500.0, 19800.0, 19500.0])
+    other = check_component_partials(
+        MassSumComp(vec_size=3, items=['a', 'b'], total='ab_mass'),
+        {'a_mass': [1.0, 2.0, 3.0], 'b_mass': [10.0, 20.0, 30.0]},
+    )
+    np.testing.assert_allclose(other.get_val('ab_mass'), [11.0, 22.0, 33.0])
