@@ -22,7 +22,9 @@ from voltwake.components.drag_polar import DragPolarComp
 from voltwake.components.ducted_fan import DuctedFanComp
 from voltwake.components.electrical_device import ElectricalDeviceComp
 from voltwake.components.electrical_summary import ElectricalSummaryComp
+from voltwake.components.equipment_mass import LandingGearMassComp, SystemsMassComp
 from voltwake.components.fan_annulus import FanAnnulusComp
+from voltwake.components.fuselage_mass import FuselageMassComp
 from voltwake.components.inlet_distortion import DistortedFanEfficiencyComp
 from voltwake.components.landing import LandingComp
 from voltwake.components.mission import MissionFuelComp
@@ -32,13 +34,24 @@ from voltwake.components.power_saving import PowerSavingComp
 from voltwake.components.propulsion_system import PropulsionSystemComp
 from voltwake.components.ratings import DiameterLimitComp, RatingMarginComp
 from voltwake.components.reference_fan import SameMassFlowFanComp
+from voltwake.components.surface_drag import LiftingSurfaceDragComp
+from voltwake.components.tail import (
+    HT_ASPECT_RATIO,
+    HT_SWEEP,
+    VT_ASPECT_RATIO,
+    VT_SWEEP,
+    VT_THICKNESS_TO_CHORD,
+    TailMassComp,
+    TailSizingComp,
+)
 from voltwake.components.takeoff import TakeoffFieldLengthComp
 from voltwake.components.takeoff_thrust import StaticThrustPerPowerComp, TakeoffThrustComp
 from voltwake.components.thermal_management import CHAIN_LOSS_EXPONENTS, ThermalManagementComp
 from voltwake.components.thrust_split import ThrustSplitComp
 from voltwake.components.turbofan_core import EngineMassComp, TurbofanCoreComp
-from voltwake.components.weights import AirframeMassComp, MassBuildUpComp
+from voltwake.components.weights import AirframeMassComp, MassBuildUpComp, MassSumComp
 from voltwake.components.wing import LiftCoefficientComp, WingAreaComp, WingGeometryComp
+from voltwake.components.wing_mass import WingMassComp
 from voltwake.models.solvers import PointwiseDirectSolver, SizingNewtonSolver
 
 #: Electrical devices from the aft-fan shaft back to the turbofan shafts.
@@ -74,6 +87,12 @@ _OPTIONS = {
         default='area',
         desc="'area': the wing reference area is an input; 'loading': the wing is sized in the "
         'loop to carry MTOW at the input wing loading.',
+    ),
+    'structure': dict(
+        values=('regression', 'build_up'),
+        default='regression',
+        desc="Airframe mass: 'regression' (c * MTOW**k) or 'build_up' (wing, fuselage, "
+        'tails, landing gear, systems).',
     ),
     'max_iterations': dict(
         types=int, default=30, desc='Newton iteration limit of the sizing loop.'
@@ -154,7 +173,7 @@ class AerodynamicsGroup(om.Group):
         """
         Declare options.
         """
-        _declare(self.options, 'vec_size')
+        _declare(self.options, 'vec_size', 'structure')
 
     def setup(self):
         """
@@ -182,6 +201,8 @@ class AerodynamicsGroup(om.Group):
                 'fuselage_drag_area',
                 ('nacelle_drag_area', 'turbofan_nacelle_drag_area'),
                 'aft_nacelle_drag_area',
+                'horizontal_tail_drag_area',
+                'vertical_tail_drag_area',
                 ('extra_drag', 'thermal_drag'),
             ],
             [
@@ -193,11 +214,40 @@ class AerodynamicsGroup(om.Group):
                 'fuselage_drag',
             ],
         )
+        if self.options['structure'] != 'build_up':
+            return  # the tails' drag is part of cd0_other
+        # The tails sized by the build-up; their planform constants are those of their mass.
+        for tail, aspect, sweep in (
+            ('horizontal', HT_ASPECT_RATIO, HT_SWEEP),
+            ('vertical', VT_ASPECT_RATIO, VT_SWEEP),
+        ):
+            _add(
+                self,
+                f'{tail}_tail_drag',
+                LiftingSurfaceDragComp(vec_size=n),
+                [
+                    ('area', f'{tail}_tail_area'),
+                    ('aspect_ratio', f'{tail}_tail_aspect_ratio'),
+                    ('thickness_to_chord', 'tail_thickness_to_chord'),
+                    ('sweep', f'{tail}_tail_sweep'),
+                    'mach',
+                    'true_airspeed',
+                    'density',
+                    'viscosity',
+                ],
+                [
+                    ('drag_area', f'{tail}_tail_drag_area'),
+                    ('wetted_area', f'{tail}_tail_wetted_area'),
+                ],
+            )
+            self.set_input_defaults(f'{tail}_tail_aspect_ratio', np.full(n, aspect))
+            self.set_input_defaults(f'{tail}_tail_sweep', np.full(n, sweep), units='rad')
+        self.set_input_defaults('tail_thickness_to_chord', np.full(n, VT_THICKNESS_TO_CHORD))
 
 
 class TurbofanGroup(om.Group):
     """
-    The under-wing turbofans: fan, nacelle drag, core fuel flow and engine mass.
+    The under-wing turbofans: fan, nacelle drag, core fuel flow, engine and nacelle mass.
 
     Parameters
     ----------
@@ -209,7 +259,7 @@ class TurbofanGroup(om.Group):
         """
         Declare options.
         """
-        _declare(self.options, 'vec_size', 'num_engines')
+        _declare(self.options, 'vec_size', 'num_engines', 'aft_fan')
 
     def setup(self):
         """
@@ -293,12 +343,39 @@ class TurbofanGroup(om.Group):
         )
         _add(
             self,
+            'static',
+            StaticThrustPerPowerComp(vec_size=n),
+            _prefixed('turbofan', ['fan_pressure_ratio', 'fan_efficiency']),
+            [('thrust_per_power', 'turbofan_static_thrust_per_power')],
+        )
+        # The cores also drive the generators at their rated power.
+        electric = (
+            [
+                ('shaft_power_extracted', 'generator_input_power'),
+                ('sizing_factor', 'electrical_sizing_factor'),
+            ]
+            if self.options['aft_fan']
+            else []
+        )
+        _add(
+            self,
             'mass',
             EngineMassComp(vec_size=n, count=count),
-            [('cruise_thrust', 'turbofan_thrust'), 'rated_to_cruise_thrust', 'thrust_to_weight'],
+            [
+                ('cruise_thrust', 'turbofan_thrust'),
+                'rated_to_cruise_thrust',
+                ('static_thrust_per_power', 'turbofan_static_thrust_per_power'),
+                ('fan_diameter', 'turbofan_fan_diameter'),
+                ('nacelle_wetted_area', 'turbofan_nacelle_wetted_area'),
+            ]
+            + _prefixed('turbofan', ['fan_areal_mass', 'core_specific_power', 'nacelle_areal_mass'])
+            + electric,
             [
                 ('rated_thrust', 'turbofan_rated_thrust'),
+                ('core_shaft_power', 'turbofan_core_shaft_power'),
                 ('engine_mass', 'turbofan_engine_mass'),
+                ('nacelle_mass', 'turbofan_nacelle_mass'),
+                ('total_nacelle_mass', 'nacelles_mass'),
                 ('total_engine_mass', 'engines_mass'),
             ],
         )
@@ -496,6 +573,7 @@ class ElectricalChainGroup(om.Group):
                 inputs = [
                     ('output_power', delivered),
                     ('sizing_factor', 'electrical_sizing_factor'),
+                    ('ambient_pressure', 'pressure'),
                 ] + _prefixed(
                     'cable',
                     [
@@ -505,6 +583,11 @@ class ElectricalChainGroup(om.Group):
                         'resistivity',
                         'conductor_density',
                         'mass_factor',
+                        'dielectric_strength',
+                        'insulation_design_factor',
+                        'insulation_density',
+                        'discharge_gap',
+                        'discharge_safety_factor',
                     ],
                 )
                 outputs += _prefixed(
@@ -517,6 +600,10 @@ class ElectricalChainGroup(om.Group):
                         'resistance',
                         'current_density',
                         'voltage_drop',
+                        'insulation_thickness',
+                        'insulation_mass',
+                        'discharge_voltage',
+                        'voltage_margin',
                     ],
                 )
             else:
@@ -556,6 +643,135 @@ class ElectricalChainGroup(om.Group):
         )
 
 
+#: Items of the airframe build-up, summed into the airframe mass.
+AIRFRAME_ITEMS = (
+    'wing',
+    'fuselage',
+    'horizontal_tail',
+    'vertical_tail',
+    'landing_gear',
+    'systems',
+    'furnishings',
+    'operating_items',
+)
+
+
+class AirframeBuildUpGroup(om.Group):
+    """
+    Airframe mass built up from its components: wing, fuselage, tails, gear and systems.
+
+    Parameters
+    ----------
+    **kwargs : dict of keyword arguments
+        Keyword arguments that will be mapped into the Group options.
+    """
+
+    def initialize(self):
+        """
+        Declare options.
+        """
+        _declare(self.options, 'vec_size')
+
+    def setup(self):
+        """
+        Add the tail sizing and one component per mass item.
+        """
+        n = self.options['vec_size']
+        design = ('design_mass', 'mtow')
+        sweep = ('sweep', 'wing_sweep')
+        _add(
+            self,
+            'tail_size',
+            TailSizingComp(vec_size=n),
+            [
+                'wing_area',
+                'aspect_ratio',
+                'fuselage_length',
+                'horizontal_tail_volume_coefficient',
+                'vertical_tail_volume_coefficient',
+                'tail_arm_fraction',
+            ],
+            ['horizontal_tail_area', 'vertical_tail_area', 'tail_arm'],
+        )
+        _add(
+            self,
+            'wing',
+            WingMassComp(vec_size=n),
+            [
+                design,
+                'ultimate_load_factor',
+                'wing_area',
+                'aspect_ratio',
+                sweep,
+                'thickness_to_chord',
+                'taper_ratio',
+            ],
+            ['wing_mass'],
+        )
+        _add(
+            self,
+            'tails',
+            TailMassComp(vec_size=n),
+            [
+                design,
+                'ultimate_load_factor',
+                'horizontal_tail_area',
+                'vertical_tail_area',
+                'tail_arm',
+            ],
+            ['horizontal_tail_mass', 'vertical_tail_mass'],
+        )
+        _add(
+            self,
+            'fuselage',
+            FuselageMassComp(vec_size=n),
+            [
+                design,
+                'ultimate_load_factor',
+                'fuselage_length',
+                'fuselage_wetted_area',
+                'fuselage_diameter',
+                'wingspan',
+                sweep,
+                'taper_ratio',
+            ],
+            ['fuselage_mass'],
+        )
+        _add(self, 'gear', LandingGearMassComp(vec_size=n), [design], ['landing_gear_mass'])
+        _add(
+            self,
+            'systems',
+            SystemsMassComp(vec_size=n),
+            [
+                design,
+                'payload',
+                'systems_fraction',
+                'mass_per_passenger',
+                'furnishings_per_passenger',
+                'operating_items_per_passenger',
+            ],
+            ['systems_mass', 'furnishings_mass', 'operating_items_mass'],
+        )
+        _add(
+            self,
+            'equipment',
+            MassSumComp(
+                vec_size=n,
+                items=['systems', 'furnishings', 'operating_items'],
+                total='equipment_mass',
+            ),
+            ['systems_mass', 'furnishings_mass', 'operating_items_mass'],
+            ['equipment_mass'],
+        )
+        _add(
+            self,
+            'sum',
+            MassSumComp(vec_size=n, items=list(AIRFRAME_ITEMS)),
+            [f'{item}_mass' for item in AIRFRAME_ITEMS],
+            ['airframe_mass'],
+        )
+
+
 class SizingLoop(om.Group):
     """
     The coupled sizing loop, solved by Newton's method with a direct linear solver.
@@ -586,11 +802,17 @@ class SizingLoop(om.Group):
                 ['mtow', 'design_wing_loading'],
                 ['wing_area'],
             )
-        _add(self, 'aerodynamics', AerodynamicsGroup(vec_size=n), ['*'], ['*'])
+        _add(
+            self,
+            'aerodynamics',
+            AerodynamicsGroup(vec_size=n, structure=opt['structure']),
+            ['*'],
+            ['*'],
+        )
         _add(
             self,
             'turbofans',
-            TurbofanGroup(vec_size=n, num_engines=opt['num_engines']),
+            TurbofanGroup(vec_size=n, num_engines=opt['num_engines'], aft_fan=opt['aft_fan']),
             ['*'],
             ['*'],
         )
@@ -622,13 +844,23 @@ class SizingLoop(om.Group):
             [('net_thrust', 'drag'), 'true_airspeed', 'fuel_flow', 'fuel_heating_value'],
             ['overall_efficiency', 'tsfc'],
         )
-        _add(
-            self,
-            'airframe',
-            AirframeMassComp(vec_size=n),
-            ['mtow', 'airframe_mass_coefficient', 'airframe_mass_exponent'],
-            ['airframe_mass'],
-        )
+        if opt['structure'] == 'build_up':
+            _add(
+                self,
+                'wing',
+                WingGeometryComp(vec_size=n),
+                ['wing_area', 'aspect_ratio'],
+                ['wingspan'],
+            )
+            _add(self, 'airframe', AirframeBuildUpGroup(vec_size=n), ['*'], ['*'])
+        else:
+            _add(
+                self,
+                'airframe',
+                AirframeMassComp(vec_size=n),
+                ['mtow', 'airframe_mass_coefficient', 'airframe_mass_exponent'],
+                ['airframe_mass'],
+            )
         _add(
             self,
             'masses',
@@ -777,10 +1009,10 @@ class PerformanceGroup(om.Group):
     """
     Performance constraints of the sized aircraft: field lengths, climb, buffet, ratings.
 
-    The take-off thrust counts the turbofans at their rated thrust less what the generators
-    draw at take-off, and the aft fan at what its rated motor power gives at sea-level
-    static. Top of climb is flown at cruise altitude and Mach number at MTOW (conservative)
-    with the cruise L/D and that thrust lapsed.
+    The take-off thrust counts the turbofans at their rated thrust (their cores are sized
+    for the generators' take-off draw as well) and the aft fan at what its rated motor power
+    gives at sea-level static. Top of climb is flown at cruise altitude and Mach number at
+    MTOW (conservative) with the cruise L/D and that thrust lapsed.
 
     Parameters
     ----------
@@ -800,13 +1032,6 @@ class PerformanceGroup(om.Group):
         """
         n, count = self.options['vec_size'], self.options['num_engines']
         aft = self.options['aft_fan']
-        _add(
-            self,
-            'turbofan_static',
-            StaticThrustPerPowerComp(vec_size=n),
-            _prefixed('turbofan', ['fan_pressure_ratio', 'fan_efficiency']),
-            [('thrust_per_power', 'turbofan_static_thrust_per_power')],
-        )
         electric = []
         if aft:
             _add(
@@ -820,8 +1045,6 @@ class PerformanceGroup(om.Group):
                 [('thrust_per_power', 'aft_fan_static_thrust_per_power')],
             )
             electric = [
-                ('shaft_power_extracted', 'generator_input_power'),
-                ('sizing_factor', 'electrical_sizing_factor'),
                 'motor_rated_power',
                 ('aft_thrust_per_power', 'aft_fan_static_thrust_per_power'),
             ]
@@ -829,16 +1052,11 @@ class PerformanceGroup(om.Group):
             self,
             'takeoff_thrust',
             TakeoffThrustComp(vec_size=n, num_engines=count),
-            [
-                'turbofan_rated_thrust',
-                ('turbofan_thrust_per_power', 'turbofan_static_thrust_per_power'),
-            ]
-            + electric,
+            ['turbofan_rated_thrust'] + electric,
             [
                 'installed_thrust',
                 'turbofan_takeoff_thrust',
                 'turbofans_takeoff_thrust',
-                'takeoff_power_extraction',
                 'aft_fan_takeoff_thrust',
                 'aft_fan_takeoff_power',
             ],
@@ -996,9 +1214,14 @@ class AircraftModel(om.Group):
         )
         loop = {name: opt[name] for name in _OPTIONS}
         _add(self, 'sizing', SizingLoop(**loop), ['*'], ['*'])
-        _add(
-            self, 'wing', WingGeometryComp(vec_size=n), ['wing_area', 'aspect_ratio'], ['wingspan']
-        )
+        if opt['structure'] != 'build_up':  # the build-up sizes the span inside the loop
+            _add(
+                self,
+                'wing',
+                WingGeometryComp(vec_size=n),
+                ['wing_area', 'aspect_ratio'],
+                ['wingspan'],
+            )
         if opt['aft_fan']:
             _add(self, 'power_saving', PowerSavingGroup(vec_size=n), ['*'], ['*'])
         _add(

@@ -24,6 +24,8 @@ TARGETS = {
 FREE = [
     'wing.loading',
     'wing.aspect_ratio',
+    'wing.sweep',
+    'wing.thickness_to_chord',
     'turbofans.fan_pressure_ratio',
     'turbofans.rated_to_cruise_thrust',
     'electrical.cable.voltage',
@@ -76,8 +78,8 @@ def test_every_point_succeeds_and_only_the_free_variables_are_optimised(serial):
             for key in ('block_fuel_kg', 'mtow_kg', 'power_saving_coefficient')
         )
         assert point['electrical_mass_kg'] > 0.0 and point['aft_fan_mass_kg'] > 0.0
-        # The demo's optimum has the span limit active (the optimiser wants more span).
-        assert 'wingspan' in point['active_constraints']
+        # The bus voltage is held by the partial-discharge limit at every point.
+        assert 'cable_voltage_margin' in point['active_constraints']
         assert all(isinstance(name, str) for name in point['active_constraints'])
 
 
@@ -115,9 +117,12 @@ def test_fuel_burn_change_is_against_the_optimised_conventional_reference(serial
         assert point['fuel_burn_change_percent'] == pytest.approx(
             100.0 * (point['block_fuel_kg'] - fuel) / fuel, rel=1e-12
         )
-    # At the larger aft-fan thrust share the electrical chain's mass outweighs the saving.
+    # At the smaller aft-fan thrust share the fan's minimum blade height binds: the fan needs
+    # thrust, so the optimiser keeps the drag up (a lower aspect ratio) and burns more.
     changes = [p['fuel_burn_change_percent'] for p in serial['points']]
-    assert changes[1] > changes[0] and changes[3] > changes[2]
+    assert changes[1] < changes[0] and changes[3] < changes[2]
+    for small in (serial['points'][0], serial['points'][2]):
+        assert 'aft_fan_hub_to_tip_margin' in small['active_constraints']
 
 
 def test_an_output_target_is_an_equality_constraint(demo_optimum):

@@ -30,6 +30,8 @@ FIELDS = {
     'airframe_mass_kg': ('airframe_mass', 'kg'),
     'propulsion_mass_kg': ('propulsion_mass', 'kg'),
     'engines_mass_kg': ('engines_mass', 'kg'),
+    'nacelle_mass_kg': ('nacelles_mass', 'kg'),
+    'turbofan_core_shaft_power_kW': ('turbofan_core_shaft_power', 'kW'),
     'cruise_lift_to_drag': ('lift_to_drag', None),
     'cruise_cl': ('lift_coefficient', None),
     'cruise_drag_kN': ('drag', 'kN'),
@@ -92,6 +94,9 @@ AFT_FAN_FIELDS = {
     'motor_rated_power_kW': ('motor_rated_power', 'kW'),
     'aft_fan_diameter_margin': ('aft_fan_diameter_margin', None),
     'aft_fan_hub_to_tip_margin': ('aft_fan_hub_to_tip_margin', None),
+    'cable_voltage_margin': ('cable_voltage_margin', None),
+    'cable_discharge_voltage_V': ('cable_discharge_voltage', 'V'),
+    'cable_insulation_mass_kg': ('cable_insulation_mass', 'kg'),
     'motor_power_margin': ('motor_power_margin', None),
 }
 
@@ -222,6 +227,20 @@ def set_model_inputs(prob, config, setup=False):
         prob.set_val(name, value, units=units)
 
 
+#: Extra fields of a design whose airframe mass is built up from its components
+#: (structure.method: build_up); absent with the regression.
+BUILD_UP_FIELDS = {
+    'wing_mass_kg': ('wing_mass', 'kg'),
+    'fuselage_mass_kg': ('fuselage_mass', 'kg'),
+    'horizontal_tail_mass_kg': ('horizontal_tail_mass', 'kg'),
+    'vertical_tail_mass_kg': ('vertical_tail_mass', 'kg'),
+    'landing_gear_mass_kg': ('landing_gear_mass', 'kg'),
+    'systems_mass_kg': ('equipment_mass', 'kg'),
+    'horizontal_tail_area_m2': ('horizontal_tail_area', 'm**2'),
+    'vertical_tail_area_m2': ('vertical_tail_area', 'm**2'),
+    'fuselage_length_m': ('fuselage_length', 'm'),
+}
+
 #: Values of the aft-fan fields for a design without an aft fan (efficiencies are 1).
 _NO_AFT_FAN = {'electrical_chain_efficiency': 1.0, 'cable_efficiency': 1.0}
 
@@ -246,6 +265,8 @@ def read_field_arrays(prob, aft_fan, names=None):
     """
     size = prob.model.options['vec_size']
     table = {**FIELDS, **AFT_FAN_FIELDS}
+    if prob.model.options['structure'] == 'build_up':
+        table.update(BUILD_UP_FIELDS)
     out = {}
     for key in names or table:
         name, units = table[key]

@@ -56,6 +56,22 @@ _AFT_ONLY = (
     'performance.motor_power_limit',
 )
 
+#: Keys read only by one airframe-mass method (structure.method).
+_REGRESSION_ONLY = ('structure.airframe_mass_coefficient', 'structure.airframe_mass_exponent')
+_BUILD_UP_ONLY = (
+    'wing.sweep',
+    'wing.thickness_to_chord',
+    'wing.taper_ratio',
+    'structure.ultimate_load_factor',
+    'structure.horizontal_tail_volume_coefficient',
+    'structure.vertical_tail_volume_coefficient',
+    'structure.tail_arm_fraction',
+    'structure.systems_fraction',
+    'structure.mass_per_passenger',
+    'structure.furnishings_per_passenger',
+    'structure.operating_items_per_passenger',
+)
+
 _CHECKS = {
     'positive': (lambda v: v > 0, 'a value > 0'),
     'nonnegative': (lambda v: v >= 0, 'a value >= 0'),
@@ -66,6 +82,7 @@ _CHECKS = {
     'above_one': (lambda v: v > 1, 'a value > 1'),
     'above_two': (lambda v: v > 2, 'a value > 2'),
     'isa_altitude': (lambda v: 0 <= v <= 20000, 'a value from 0 to 20 km (the ISA range modelled)'),
+    'below_right_angle': (lambda v: 0 <= v < 1.3962634015954636, 'an angle from 0 to 80 deg'),
 }
 
 
@@ -115,6 +132,11 @@ class Config:
         """
         return 'aft_fan' in self.data and self.values['aft_fan.thrust_fraction'] > 0.0
 
+    @property
+    def structure(self):
+        """str: The airframe-mass method, 'regression' or 'build_up'."""
+        return self.values['structure.method']
+
     def model_inputs(self):
         """
         Return the model inputs set by this configuration.
@@ -125,10 +147,13 @@ class Config:
             Promoted model input name -> (SI value, SI units).
         """
         out = {}
+        unread = _BUILD_UP_ONLY if self.structure == 'regression' else _REGRESSION_ONLY
         for path, value in self.values.items():
             if not self.has_aft_fan and (
                 path.split('.')[0] in ('aft_fan', 'electrical') or path in _AFT_ONLY
             ):
+                continue
+            if path in unread:
                 continue
             field = field_at(path)
             if field is not None and field.target:
@@ -152,6 +177,7 @@ class Config:
             'num_engines': self.values['turbofans.count'],
             'aft_fan': self.has_aft_fan,
             'wing_sizing': 'loading' if 'wing.loading' in self.values else 'area',
+            'structure': self.structure,
             'max_iterations': self.values.get('solver.max_iterations', 30),
             'tolerance': self.values.get('solver.tolerance', 1e-10),
         }
@@ -566,7 +592,26 @@ def _validate(data, source, lines, overrides, overridden=()):
             **where,
         )
     _check_wing(data, values, lines, source, overridden)
+    _check_structure(values, lines, source, overridden)
     return Config(data, values, origins, source)
+
+
+def _check_structure(values, lines, source, overridden):
+    """Resolve the airframe-mass method; the regression needs its two constants."""
+    if values.get('structure.method') is None:
+        # An older config names only the regression constants: it keeps the regression.
+        given = any(path in values for path in _REGRESSION_ONLY)
+        values['structure.method'] = 'regression' if given else 'build_up'
+    if values['structure.method'] != 'regression':
+        return
+    for path in _REGRESSION_ONLY:
+        if path not in values:
+            raise ConfigError(
+                'missing key; expected a number (the airframe-mass regression, '
+                'structure.method: regression, needs airframe_mass_coefficient and '
+                'airframe_mass_exponent)',
+                **_where(tuple(path.split('.')), lines, source, overridden),
+            )
 
 
 def _check_wing(data, values, lines, source, overridden):

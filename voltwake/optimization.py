@@ -48,6 +48,7 @@ AFT_FAN_CONSTRAINTS = (
     'aft_fan_hub_to_tip_margin',
     'motor_power_margin',
     'cable_current_density_margin',
+    'cable_voltage_margin',
 )
 
 

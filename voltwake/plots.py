@@ -30,6 +30,29 @@ _MASS_PARTS = [
     ('total_fuel_kg', 'fuel (trip + reserve)'),
 ]
 
+#: The airframe's own parts when it was built up from its components (build-up method).
+_AIRFRAME_PARTS = [
+    ('wing_mass_kg', 'wing'),
+    ('fuselage_mass_kg', 'fuselage'),
+    (('horizontal_tail_mass_kg', 'vertical_tail_mass_kg'), 'tails'),
+    ('landing_gear_mass_kg', 'landing gear'),
+    ('systems_mass_kg', 'systems, furnishings, operating items'),
+]
+
+
+def _parts_of(masses):
+    """Return the (key or keys, label) parts for a design: airframe split when built up."""
+    if 'wing_mass_kg' not in masses:
+        return _MASS_PARTS
+    return _AIRFRAME_PARTS + _MASS_PARTS[1:]
+
+
+def _part_mass(masses, key):
+    """Return the mass of a part (the sum when it names several keys; missing keys are 0)."""
+    keys = key if isinstance(key, tuple) else (key,)
+    return sum(float(masses.get(name, 0.0)) for name in keys)
+
+
 _CHAIN = [
     ('generator', 'generator_loss_kW'),
     ('rectifier', 'rectifier_loss_kW'),
@@ -358,9 +381,9 @@ def _mass_parts(masses, name):
     Returns
     -------
     list of float
-        The parts in the order of ``_MASS_PARTS``.
+        The parts in the order of ``_parts_of(masses)``.
     """
-    parts = [float(masses.get(key, 0.0)) for key, _ in _MASS_PARTS]
+    parts = [_part_mass(masses, key) for key, _ in _parts_of(masses)]
     if 'mtow_kg' in masses:
         mtow = float(masses['mtow_kg'])
         if abs(mtow - sum(parts)) > MASS_BALANCE_RTOL * abs(mtow):
@@ -377,8 +400,9 @@ def plot_mass_breakdown(
     Draw stacked bars of the mass breakdown of a design and its reference.
 
     MTOW = airframe + turbofans + aft fan + electrical + payload + fuel (the mass
-    build-up of the model); each bar is labelled with its total. If a dict also holds
-    'mtow_kg', the parts must add up to it.
+    build-up of the model), with the airframe split into wing, fuselage, tails, landing gear
+    and systems when the design holds that build-up; each bar is labelled with its total. If
+    a dict also holds 'mtow_kg', the parts must add up to it.
 
     Parameters
     ----------
@@ -405,7 +429,7 @@ def plot_mass_breakdown(
     ax = fig.add_subplot()
     positions = np.arange(len(bars))
     bottom = np.zeros(len(bars))
-    for i, (_, label) in enumerate(_MASS_PARTS):
+    for i, (_, label) in enumerate(_parts_of(design)):
         heights = np.array([parts[i] for _, parts in bars]) / 1000.0
         ax.bar(positions, heights, 0.55, bottom=bottom, label=label)
         bottom = bottom + heights

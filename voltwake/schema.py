@@ -7,6 +7,7 @@ fields with no target set model options (counts, choices). Values are stored in 
 (``units``); a config may give any unit OpenMDAO can convert to it.
 """
 
+import math
 from dataclasses import dataclass
 
 REQUIRED = object()
@@ -31,7 +32,7 @@ class Field:
     check : str or None
         Physical limit: 'positive', 'nonnegative', 'fraction' (0 < x <= 1),
         'open_fraction' (0 < x < 1), 'unit_fraction' (0 <= x < 1), 'at_least_one',
-        'above_one', 'above_two', 'isa_altitude' (0 to 20 km).
+        'above_one', 'above_two', 'isa_altitude' (0 to 20 km), 'below_right_angle' (0 to 80 deg).
     target : str or None
         Promoted model input fed by this value.
     choices : tuple
@@ -126,6 +127,21 @@ SECTIONS = {
         ),
         'aspect_ratio': _n('wing aspect ratio', 'aspect_ratio'),
         'oswald_efficiency': _n('Oswald span efficiency', 'oswald_efficiency', check='fraction'),
+        # Wing geometry of the component mass build-up (structure.method: build_up).
+        'sweep': _q(
+            'rad',
+            'quarter-chord sweep (e.g. 25 deg)',
+            'wing_sweep',
+            check='below_right_angle',
+            default=math.radians(25.0),
+        ),
+        'thickness_to_chord': _n(
+            'mean thickness-to-chord ratio',
+            'thickness_to_chord',
+            check='open_fraction',
+            default=0.12,
+        ),
+        'taper_ratio': _n('tip chord / root chord', 'taper_ratio', check='fraction', default=0.25),
     },
     'fuselage': {
         'diameter': _q('m', 'maximum fuselage diameter', 'fuselage_diameter'),
@@ -146,11 +162,66 @@ SECTIONS = {
         ),
     },
     'structure': {
+        # Left out: build_up, unless the regression constants are given (an older config).
+        'method': Field(
+            'choice',
+            'airframe mass: build_up (wing, fuselage, tails, gear, systems from statistical '
+            'equations) or regression (c * MTOW**k)',
+            default=None,
+            choices=('regression', 'build_up'),
+        ),
+        # regression (exactly these two; checked in voltwake.config)
         'airframe_mass_coefficient': _n(
-            'c in airframe mass = c * MTOW**k (kg)', 'airframe_mass_coefficient'
+            'c in airframe mass = c * MTOW**k (kg); method regression',
+            'airframe_mass_coefficient',
+            default=None,
         ),
         'airframe_mass_exponent': _n(
-            'k in airframe mass = c * MTOW**k (kg)', 'airframe_mass_exponent'
+            'k in airframe mass = c * MTOW**k (kg); method regression',
+            'airframe_mass_exponent',
+            default=None,
+        ),
+        # build_up
+        'ultimate_load_factor': _n(
+            'ultimate load factor: 1.5 x the limit manoeuvring load factor (2.5 for transports)',
+            'ultimate_load_factor',
+            check='at_least_one',
+            default=3.75,
+        ),
+        'horizontal_tail_volume_coefficient': _n(
+            'horizontal tail volume coefficient',
+            'horizontal_tail_volume_coefficient',
+            default=1.0,
+        ),
+        'vertical_tail_volume_coefficient': _n(
+            'vertical tail volume coefficient', 'vertical_tail_volume_coefficient', default=0.09
+        ),
+        'tail_arm_fraction': _n(
+            'tail moment arm / fuselage length', 'tail_arm_fraction', check='fraction', default=0.5
+        ),
+        'systems_fraction': _n(
+            'systems mass / MTOW (controls, hydraulics, electrical, avionics, APU, air '
+            'conditioning, anti-ice)',
+            'systems_fraction',
+            check='open_fraction',
+            default=0.08,
+        ),
+        'mass_per_passenger': _q(
+            'kg', 'payload per passenger (with bags)', 'mass_per_passenger', default=100.0
+        ),
+        'furnishings_per_passenger': _q(
+            'kg',
+            'furnishings mass per passenger',
+            'furnishings_per_passenger',
+            check='nonnegative',
+            default=50.0,
+        ),
+        'operating_items_per_passenger': _q(
+            'kg',
+            'operating items mass per passenger',
+            'operating_items_per_passenger',
+            check='nonnegative',
+            default=15.0,
         ),
     },
     'turbofans': {
@@ -177,7 +248,24 @@ SECTIONS = {
             'rated_to_cruise_thrust',
             check='at_least_one',
         ),
-        'thrust_to_weight': _n('rated thrust / installed engine weight', 'thrust_to_weight'),
+        'fan_areal_mass': _q(
+            'kg/m**2',
+            'fan section mass (fan, case, gearbox, low-pressure shaft) per fan disc area',
+            'turbofan_fan_areal_mass',
+            default=500.0,
+        ),
+        'core_specific_power': _q(
+            'W/kg',
+            'core maximum shaft power (fan at rated thrust plus generators) per core mass',
+            'turbofan_core_specific_power',
+            default=11.5e3,
+        ),
+        'nacelle_areal_mass': _q(
+            'kg/m**2',
+            'nacelle mass (inlet, cowls, reverser, pylon fairing) per wetted area',
+            'turbofan_nacelle_areal_mass',
+            default=20.0,
+        ),
         'nacelle_diameter_ratio': _n(
             'nacelle maximum diameter / fan diameter',
             'turbofan_nacelle_diameter_ratio',
@@ -327,9 +415,36 @@ SECTIONS['electrical'] = {
             'A/m**2', 'conductor current density at rated current', 'cable_current_density_limit'
         ),
         'mass_factor': _n(
-            'cable mass / conductor mass (insulation, shield, supports)',
+            'cable mass without insulation / conductor mass (shield, supports)',
             'cable_mass_factor',
             check='at_least_one',
+        ),
+        'dielectric_strength': _q(
+            'V/m',
+            'dielectric strength of the insulation',
+            'cable_dielectric_strength',
+            default=1.0e8,
+        ),
+        'insulation_design_factor': _n(
+            'insulation wall / the wall that just withstands the bus voltage',
+            'cable_insulation_design_factor',
+            check='at_least_one',
+            default=10.0,
+        ),
+        'insulation_density': _q(
+            'kg/m**3', 'insulation density', 'cable_insulation_density', default=1420.0
+        ),
+        'discharge_gap': _q(
+            'm',
+            'characteristic air gap for partial discharge (Paschen) at cable surfaces and ends',
+            'cable_discharge_gap',
+            default=1.0e-3,
+        ),
+        'discharge_safety_factor': _n(
+            'Paschen breakdown voltage / highest allowed bus voltage',
+            'cable_discharge_safety_factor',
+            check='at_least_one',
+            default=1.5,
         ),
     },
     'thermal': {
@@ -355,6 +470,8 @@ RETIRED_KEYS = {
     '(Breguet endurance form), so its speed does not enter',
     'aft_fan.hub_to_tip_ratio': 'the aft-fan hub is the fuselage at the fan station '
     '(aft_fan.station_diameter_ratio) and the hub-to-tip ratio follows from the annulus area',
+    'turbofans.thrust_to_weight': 'the engine mass is built from its fan size and its core '
+    'power (turbofans.fan_areal_mass, core_specific_power, nacelle_areal_mass)',
 }
 
 SECTIONS['optimization'] = {

@@ -17,10 +17,25 @@ _ROWS = [
             ('OEW', 'oew_kg', 'kg', '{:,.0f}'),
             ('  airframe', 'airframe_mass_kg', 'kg', '{:,.0f}'),
             ('  propulsion', 'propulsion_mass_kg', 'kg', '{:,.0f}'),
-            ('    turbofans', 'engines_mass_kg', 'kg', '{:,.0f}'),
+            ('    turbofans (with nacelles)', 'engines_mass_kg', 'kg', '{:,.0f}'),
+            ('      nacelles', 'nacelle_mass_kg', 'kg', '{:,.0f}'),
             ('    aft fan', 'aft_fan_mass_kg', 'kg', '{:,.0f}'),
             ('    electrical (incl. thermal)', 'electrical_mass_kg', 'kg', '{:,.0f}'),
             ('Payload', 'payload_kg', 'kg', '{:,.0f}'),
+        ],
+    ),
+    (
+        'Airframe build-up',
+        [
+            ('wing', 'wing_mass_kg', 'kg', '{:,.0f}'),
+            ('fuselage', 'fuselage_mass_kg', 'kg', '{:,.0f}'),
+            ('horizontal tail', 'horizontal_tail_mass_kg', 'kg', '{:,.0f}'),
+            ('vertical tail', 'vertical_tail_mass_kg', 'kg', '{:,.0f}'),
+            ('landing gear', 'landing_gear_mass_kg', 'kg', '{:,.0f}'),
+            ('systems, furnishings, operating items', 'systems_mass_kg', 'kg', '{:,.0f}'),
+            ('Horizontal tail area', 'horizontal_tail_area_m2', 'm**2', '{:.2f}'),
+            ('Vertical tail area', 'vertical_tail_area_m2', 'm**2', '{:.2f}'),
+            ('Fuselage length', 'fuselage_length_m', 'm', '{:.2f}'),
         ],
     ),
     (
@@ -98,6 +113,7 @@ _ROWS = [
             ('Aft-fan diameter margin', 'aft_fan_diameter_margin', '', '{:.4f}'),
             ('Aft-fan hub-to-tip margin', 'aft_fan_hub_to_tip_margin', '', '{:.4f}'),
             ('Motor power margin', 'motor_power_margin', '', '{:.4f}'),
+            ('Cable partial-discharge margin', 'cable_voltage_margin', '', '{:.4f}'),
         ],
     ),
 ]
@@ -167,6 +183,8 @@ def analysis_text(result):
     for title, rows in _ROWS:
         if title.startswith('Aft fan') and values.get('aft_thrust_fraction', 0.0) == 0.0:
             continue
+        if rows[0][1] not in values:  # e.g. the build-up of a regression design
+            continue
         lines.append(title)
         for label, key, unit, fmt in rows:
             lines.append(f'  {label:<32s}{fmt.format(values[key]):>14s} {unit}')
@@ -194,6 +212,8 @@ def comparison_text(design, reference, diff):
     lines = [f'{"":34s}{"turbo-electric":>16s}{"reference":>16s}{"change":>10s}']
     ours, theirs = _with_wing_loading(design.values), _with_wing_loading(reference.values)
     for title, rows in _ROWS:
+        if rows[0][1] not in ours:
+            continue
         lines.append(title)
         for label, key, unit, fmt in rows:
             a, b = ours[key], theirs[key]
