@@ -182,7 +182,7 @@ def test_larger_sizing_factor_lowers_loss_raises_mass():
 
 
 def test_insulation_hand_values():
-    # Hand value from the equations in the CableComp docstring: 3 kV, E_d = 150 kV/mm, design factor 8
+    # Hand value from the equations in the CableComp docstring: 3 kV, E_d = 150 kV/mm, factor 8
     # gives t = 8 * 3000 / 1.5e8 = 0.16 mm exactly; the annulus around the conductor follows
     # from the conductor area of the same run.
     inputs = {
