@@ -471,3 +471,31 @@ def test_report_works_without_matplotlib(tmp_path):
     )
     assert done.stdout.strip() == os.path.join(str(folder), 'report.html')
     assert (folder / 'report.html').stat().st_size > 1024
+
+
+def test_mass_breakdown_splits_a_built_up_airframe(mpl, tmp_path):
+    # With the build-up, the bar shows wing, fuselage, tails, gear and systems instead of one
+    # airframe block; the parts must still add up to MTOW (bookkeeping check).
+    items = {
+        'wing_mass_kg': 4000.0,
+        'fuselage_mass_kg': 5500.0,
+        'horizontal_tail_mass_kg': 270.0,
+        'vertical_tail_mass_kg': 400.0,
+        'landing_gear_mass_kg': 2100.0,
+        'systems_mass_kg': 12000.0,
+    }
+    design = {
+        **items,
+        'airframe_mass_kg': sum(items.values()),
+        'engines_mass_kg': 4700.0,
+        'payload_kg': 12000.0,
+        'total_fuel_kg': 10500.0,
+    }
+    design['mtow_kg'] = sum(v for k, v in design.items() if k != 'airframe_mass_kg')
+    parts = plots._mass_parts(design, 'design')
+    assert len(parts) == 10 and parts[2] == 670.0  # the two tails together
+    assert sum(parts) == pytest.approx(design['mtow_kg'], rel=1e-12)
+    plot = plots.plot_mass_breakdown(design, design, str(tmp_path / 'mass.png'))
+    assert plot.details['totals_kg'][0] == pytest.approx(design['mtow_kg'], rel=1e-12)
+    with pytest.raises(ValueError, match='add up'):
+        plots._mass_parts({**design, 'mtow_kg': design['mtow_kg'] + 100.0}, 'design')

@@ -32,7 +32,7 @@ _ROWS = [
             ('horizontal tail', 'horizontal_tail_mass_kg', 'kg', '{:,.0f}'),
             ('vertical tail', 'vertical_tail_mass_kg', 'kg', '{:,.0f}'),
             ('landing gear', 'landing_gear_mass_kg', 'kg', '{:,.0f}'),
-            ('systems, furnishings, operating items', 'systems_mass_kg', 'kg', '{:,.0f}'),
+            ('systems and furnishings', 'systems_mass_kg', 'kg', '{:,.0f}'),
             ('Horizontal tail area', 'horizontal_tail_area_m2', 'm**2', '{:.2f}'),
             ('Vertical tail area', 'vertical_tail_area_m2', 'm**2', '{:.2f}'),
             ('Fuselage length', 'fuselage_length_m', 'm', '{:.2f}'),
