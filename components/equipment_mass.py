@@ -3,9 +3,7 @@
 import numpy as np
 
 from voltwake.components.base import PointwiseComponent
-
-#: Kilograms per pound (avoirdupois), exact by definition (international yard and pound, 1959).
-LB_TO_KG = 0.45359237
+from voltwake.components.imperial import LB_TO_KG
 
 #: Gear-group coefficients (A, B, C, D) of W = k_uc (A + B W**0.75 + C W + D W**1.5), W in lb,
 #: for jet transports with retractable gear (Torenbeek, Synthesis of Subsonic Airplane Design,

@@ -3,11 +3,7 @@
 import numpy as np
 
 from voltwake.components.base import PointwiseComponent
-
-#: Kilograms per pound (avoirdupois), exact by definition (international yard and pound, 1959).
-LB_TO_KG = 0.45359237
-#: Metres per foot, exact by definition (international yard and pound, 1959).
-FT_TO_M = 0.3048
+from voltwake.components.imperial import FT_TO_M, LB_TO_KG
 
 #: Cargo-door factor of the fuselage equation: 1.06 for one side cargo door (Raymer, Aircraft
 #: Design: A Conceptual Approach, 5th/6th ed., ch. 15, cargo/transport weights; from memory. The

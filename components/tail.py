@@ -3,12 +3,7 @@
 import numpy as np
 
 from voltwake.components.base import PointwiseComponent
-
-#: Kilograms per pound (avoirdupois), exact by definition (international yard and pound, 1959).
-LB_TO_KG = 0.45359237
-
-#: Metres per foot, exact by definition (international yard and pound, 1959).
-FT_TO_M = 0.3048
+from voltwake.components.imperial import FT_TO_M, LB_TO_KG
 
 # Configuration constants of a conventional low-tail transport, fixed in the tail-mass
 # equations (Raymer, Aircraft Design: A Conceptual Approach, 6th ed., ch. 15, cargo/transport
