@@ -3,8 +3,7 @@
 import numpy as np
 
 from voltwake.components.base import PointwiseComponent
-
-_LN10 = np.log(10.0)
+from voltwake.components.skin_friction import turbulent_skin_friction
 
 
 def _form_factor(shape, fineness):
@@ -72,9 +71,13 @@ class BodyDragComp(PointwiseComponent):
 
     .. math::
 
-        Re = \frac{\rho V l}{\mu}, \qquad c_f = \frac{0.455}{(\log_{10} Re)^{2.58}}
+        Re = \frac{\rho V l}{\mu}, \qquad
+        c_f = \frac{0.455}{(\log_{10} Re)^{2.58}\,(1 + 0.144 M^2)^{0.65}}
 
-    (Prandtl-Schlichting turbulent flat-plate skin friction, no compressibility correction).
+    (Prandtl-Schlichting turbulent flat-plate skin friction with the compressibility
+    correction; Raymer, Aircraft Design: A Conceptual Approach, 6th ed., ch. 12, eq. 12.27,
+    equation number from memory; see ``voltwake.components.skin_friction``). At M = 0.78 the
+    correction :math:`(1 + 0.144 M^2)^{-0.65}` is 0.9469.
     Form factor FF and wetted area S_wet of one body:
 
     * fuselage: FF = 1 + 60/f**3 + f/400 (Raymer, Aircraft Design: A Conceptual Approach,
@@ -126,6 +129,7 @@ class BodyDragComp(PointwiseComponent):
             desc='Body length divided by maximum diameter',
         )
         self.add_input('true_airspeed', np.full(n, 230.0), units='m/s', desc='True airspeed')
+        self.add_input('mach', np.full(n, 0.78), units=None, desc='Flight Mach number')
         self.add_input('density', np.full(n, 0.38), units='kg/m**3', desc='Air density')
         self.add_input(
             'viscosity', np.full(n, 1.43e-5), units='Pa*s', desc='Dynamic viscosity of air'
@@ -144,7 +148,7 @@ class BodyDragComp(PointwiseComponent):
             'skin_friction_coefficient',
             np.full(n, 0.002),
             units=None,
-            desc='Turbulent flat-plate skin friction coefficient',
+            desc='Turbulent flat-plate skin friction coefficient, compressibility-corrected',
         )
         self.add_output('form_factor', np.full(n, 1.1), units=None, desc='Form factor')
         self.add_output(
@@ -167,12 +171,13 @@ class BodyDragComp(PointwiseComponent):
         flow = ['true_airspeed', 'density', 'viscosity']
         geometry = ['diameter', 'fineness_ratio']
         self.declare_diagonal_partials('length', geometry)
-        self.declare_diagonal_partials(
-            ['reynolds_number', 'skin_friction_coefficient'], geometry + flow
-        )
+        self.declare_diagonal_partials('reynolds_number', geometry + flow)
+        self.declare_diagonal_partials('skin_friction_coefficient', geometry + flow + ['mach'])
         self.declare_diagonal_partials('form_factor', 'fineness_ratio')
         self.declare_diagonal_partials('wetted_area', geometry)
-        self.declare_diagonal_partials('drag_area', geometry + flow + ['interference_factor'])
+        self.declare_diagonal_partials(
+            'drag_area', geometry + flow + ['mach', 'interference_factor']
+        )
 
     def compute(self, inputs, outputs):
         """
@@ -191,7 +196,7 @@ class BodyDragComp(PointwiseComponent):
         fineness = inputs['fineness_ratio']
         length = fineness * diameter
         reynolds = inputs['density'] * inputs['true_airspeed'] * length / inputs['viscosity']
-        friction = 0.455 / np.log10(reynolds) ** 2.58
+        friction, _, _ = turbulent_skin_friction(reynolds, inputs['mach'])
         form_factor, _ = _form_factor(shape, fineness)
         area, _, _ = _wetted_area(shape, diameter, fineness)
 
@@ -224,10 +229,9 @@ class BodyDragComp(PointwiseComponent):
 
         length = fineness * diameter
         reynolds = density * speed * length / viscosity
-        log_re = np.log10(reynolds)
-        friction = 0.455 / log_re**2.58
+        friction, dcf_dre, dcf_dmach = turbulent_skin_friction(reynolds, inputs['mach'])
         # d cf / d ln(Re); d ln(Re)/d x is 1/x for rho, V, D, f and -1/mu.
-        dcf_dlnre = -2.58 * friction / (log_re * _LN10)
+        dcf_dlnre = dcf_dre * reynolds
         form_factor, dff_df = _form_factor(shape, fineness)
         area, darea_dd, darea_df = _wetted_area(shape, diameter, fineness)
 
@@ -243,6 +247,7 @@ class BodyDragComp(PointwiseComponent):
         ]:
             partials['reynolds_number', name] = reynolds / value
             partials['skin_friction_coefficient', name] = dcf_dlnre / value
+        partials['skin_friction_coefficient', 'mach'] = dcf_dmach
 
         partials['form_factor', 'fineness_ratio'] = dff_df
         partials['wetted_area', 'diameter'] = count * darea_dd
@@ -263,4 +268,5 @@ class BodyDragComp(PointwiseComponent):
             + friction * dff_df * area
             + friction * form_factor * darea_df
         )
+        partials['drag_area', 'mach'] = scale * form_factor * area * dcf_dmach
         partials['drag_area', 'interference_factor'] = count * friction * form_factor * area

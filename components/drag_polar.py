@@ -1,10 +1,11 @@
-"""Parabolic drag polar, total drag and lift-to-drag ratio."""
+"""Drag polar (component zero-lift drag, induced and wave drag), total drag and L/D."""
 
 import numpy as np
 
 from voltwake.components.base import PointwiseComponent
 
 _DRAG_AREAS = (
+    'wing_drag_area',
     'fuselage_drag_area',
     'nacelle_drag_area',
     'aft_nacelle_drag_area',
@@ -15,13 +16,19 @@ _DRAG_AREAS = (
 
 class DragPolarComp(PointwiseComponent):
     r"""
-    Parabolic drag polar with a zero-lift term built from body drag areas.
+    Parabolic drag polar with a zero-lift term built up by component, plus wave drag.
 
     .. math::
 
-        C_{D0} = C_{D0,other}
-        + \frac{(C_D A)_{fus} + (C_D A)_{nac} + (C_D A)_{aft} + (C_D A)_{HT} + (C_D A)_{VT}}{S},
-        \qquad C_{Di} = \frac{C_L^2}{\pi e A}, \qquad C_D = C_{D0} + C_{Di}
+        C_{D0} = C_{D,misc} + \frac{1}{S} \sum_c (C_D A)_c, \qquad
+        C_{Di} = \frac{C_L^2}{\pi e A}, \qquad C_D = C_{D0} + C_{Di} + C_{Dw}
+
+    with the drag areas :math:`(C_D A)_c` of the wing, fuselage, under-wing nacelles, aft-fan
+    nacelle and both tails (each from its wetted area, skin friction, form factor and
+    interference factor: the component build-up method, Raymer, Aircraft Design: A Conceptual
+    Approach, parasite drag chapter; from memory), :math:`C_{D,misc}` a configured increment for
+    excrescences, leakage and interference not in the components' factors, and
+    :math:`C_{Dw}` the transonic wave drag (``WaveDragComp``).
 
     .. math::
 
@@ -58,10 +65,22 @@ class DragPolarComp(PointwiseComponent):
             'dynamic_pressure', np.full(n, 1.0e4), units='Pa', desc='Flight dynamic pressure'
         )
         self.add_input(
-            'cd0_other',
-            np.full(n, 0.012),
+            'miscellaneous_drag_coefficient',
+            np.full(n, 0.001),
             units=None,
-            desc='Zero-lift drag coefficient of everything not given as a drag area',
+            desc='Zero-lift drag increment of excrescences, leakage and interference',
+        )
+        self.add_input(
+            'wave_drag_coefficient',
+            np.zeros(n),
+            units=None,
+            desc='Transonic wave drag coefficient',
+        )
+        self.add_input(
+            'wing_drag_area',
+            np.full(n, 0.7),
+            units='m**2',
+            desc='Zero-lift drag area of the wing',
         )
         self.add_input(
             'fuselage_drag_area',
@@ -86,7 +105,7 @@ class DragPolarComp(PointwiseComponent):
                 f'{tail}_tail_drag_area',
                 np.zeros(n),
                 units='m**2',
-                desc=f'Zero-lift drag area of the {tail} tail (0 when cd0_other includes it)',
+                desc=f'Zero-lift drag area of the {tail} tail',
             )
         self.add_input(
             'extra_drag',
@@ -110,7 +129,7 @@ class DragPolarComp(PointwiseComponent):
             'drag_coefficient',
             np.full(n, 0.03),
             units=None,
-            desc='Total drag coefficient of the polar',
+            desc='Total drag coefficient: zero-lift, induced and wave drag',
         )
         self.add_output(
             'drag', np.full(n, 3.6e4), units='N', desc='Total drag force including extra_drag'
@@ -128,12 +147,13 @@ class DragPolarComp(PointwiseComponent):
         Declare the diagonal partials.
         """
         induced = ['lift_coefficient', 'aspect_ratio', 'oswald_efficiency']
-        zero_lift = ['cd0_other', 'wing_area'] + list(_DRAG_AREAS)
+        zero_lift = ['miscellaneous_drag_coefficient', 'wing_area'] + list(_DRAG_AREAS)
+        total = zero_lift + induced + ['wave_drag_coefficient']
         self.declare_diagonal_partials('zero_lift_drag_coefficient', zero_lift)
         self.declare_diagonal_partials('induced_drag_coefficient', induced)
-        self.declare_diagonal_partials('drag_coefficient', zero_lift + induced)
+        self.declare_diagonal_partials('drag_coefficient', total)
         self.declare_diagonal_partials(
-            ['drag', 'lift_to_drag'], zero_lift + induced + ['dynamic_pressure', 'extra_drag']
+            ['drag', 'lift_to_drag'], total + ['dynamic_pressure', 'extra_drag']
         )
         self.declare_diagonal_partials('fuselage_drag', ['dynamic_pressure', 'fuselage_drag_area'])
 
@@ -152,13 +172,14 @@ class DragPolarComp(PointwiseComponent):
         q = inputs['dynamic_pressure']
         lift_coefficient = inputs['lift_coefficient']
         body_area = sum(inputs[name] for name in _DRAG_AREAS)
-        cd0 = inputs['cd0_other'] + body_area / area
+        cd0 = inputs['miscellaneous_drag_coefficient'] + body_area / area
         cdi = lift_coefficient**2 / (np.pi * inputs['oswald_efficiency'] * inputs['aspect_ratio'])
-        drag = q * area * (cd0 + cdi) + inputs['extra_drag']
+        cd = cd0 + cdi + inputs['wave_drag_coefficient']
+        drag = q * area * cd + inputs['extra_drag']
 
         outputs['zero_lift_drag_coefficient'] = cd0
         outputs['induced_drag_coefficient'] = cdi
-        outputs['drag_coefficient'] = cd0 + cdi
+        outputs['drag_coefficient'] = cd
         outputs['drag'] = drag
         outputs['lift_to_drag'] = lift_coefficient * q * area / drag
         outputs['fuselage_drag'] = q * inputs['fuselage_drag_area']
@@ -180,14 +201,16 @@ class DragPolarComp(PointwiseComponent):
         efficiency = inputs['oswald_efficiency']
         aspect_ratio = inputs['aspect_ratio']
         body_area = sum(inputs[name] for name in _DRAG_AREAS)
-        cd0 = inputs['cd0_other'] + body_area / area
+        cd0 = inputs['miscellaneous_drag_coefficient'] + body_area / area
         cdi = lift_coefficient**2 / (np.pi * efficiency * aspect_ratio)
-        drag = q * area * (cd0 + cdi) + inputs['extra_drag']
+        cd = cd0 + cdi + inputs['wave_drag_coefficient']
+        drag = q * area * cd + inputs['extra_drag']
         lift = lift_coefficient * q * area
 
         # Partials of the drag coefficient (zero-lift plus induced parts).
         dcd = {
-            'cd0_other': np.ones_like(area),
+            'miscellaneous_drag_coefficient': np.ones_like(area),
+            'wave_drag_coefficient': np.ones_like(area),
             'wing_area': -body_area / area**2,
             'lift_coefficient': 2.0 * lift_coefficient / (np.pi * efficiency * aspect_ratio),
             'oswald_efficiency': -cdi / efficiency,
@@ -195,15 +218,15 @@ class DragPolarComp(PointwiseComponent):
         }
         for name in _DRAG_AREAS:
             dcd[name] = 1.0 / area
-        for name in ('cd0_other', 'wing_area') + _DRAG_AREAS:
+        for name in ('miscellaneous_drag_coefficient', 'wing_area') + _DRAG_AREAS:
             partials['zero_lift_drag_coefficient', name] = dcd[name]
         for name in ('lift_coefficient', 'oswald_efficiency', 'aspect_ratio'):
             partials['induced_drag_coefficient', name] = dcd[name]
 
         # Drag and lift partials; D = q S CD + extra, L = CL q S.
         ddrag = {name: q * area * value for name, value in dcd.items()}
-        ddrag['wing_area'] = ddrag['wing_area'] + q * (cd0 + cdi)
-        ddrag['dynamic_pressure'] = area * (cd0 + cdi)
+        ddrag['wing_area'] = ddrag['wing_area'] + q * cd
+        ddrag['dynamic_pressure'] = area * cd
         ddrag['extra_drag'] = np.ones_like(area)
         dlift = {
             'lift_coefficient': q * area,

@@ -53,7 +53,7 @@ class MissionFuelComp(PointwiseComponent):
         m_{trip} &= m_{TO} - m_{land} \\
         m_{res} &= c_{cont}\, m_{trip}
                    + m_{land}\left(1 - f_{cl} f_{cr}(R_{div}) f_{ld} f_{hold}\right) \\
-        m_{fuel} &= m_{trip} + m_{res}, \quad
+        m_{fuel} &= m_{trip} + m_{res}, \quad m_{toc} = m_2, \quad
         m_{mid} = m_2 \sqrt{f_{cr}(R)}, \quad E_{trip} = m_{trip} H
 
     The diversion is flown from the landing mass (climb, cruise over the diversion range,
@@ -119,6 +119,12 @@ class MissionFuelComp(PointwiseComponent):
             'total_fuel', np.full(n, 13000.0), units='kg', desc='Trip plus reserve fuel'
         )
         self.add_output(
+            'top_of_climb_mass',
+            np.full(n, 67000.0),
+            units='kg',
+            desc='Aircraft mass at the top of climb (start of cruise)',
+        )
+        self.add_output(
             'mid_cruise_mass', np.full(n, 65000.0), units='kg', desc='Aircraft mass at mid-cruise'
         )
         self.add_output(
@@ -143,6 +149,9 @@ class MissionFuelComp(PointwiseComponent):
         self.declare_diagonal_partials(['block_fuel', 'landing_mass', 'block_energy'], list(_TRIP))
         self.declare_diagonal_partials(
             'mid_cruise_mass', [name for name in _TRIP if name != 'landing_fraction']
+        )
+        self.declare_diagonal_partials(
+            'top_of_climb_mass', ['mtow', 'takeoff_fraction', 'climb_fraction']
         )
         self.declare_diagonal_partials(['reserve_fuel', 'total_fuel'], list(_INPUTS))
 
@@ -196,6 +205,7 @@ class MissionFuelComp(PointwiseComponent):
         outputs['block_fuel'] = m_trip
         outputs['reserve_fuel'] = m_res
         outputs['total_fuel'] = m_trip + m_res
+        outputs['top_of_climb_mass'] = m_to * f_to * f_cl
         outputs['mid_cruise_mass'] = m_to * f_to * f_cl * np.sqrt(f_cr)
         outputs['landing_mass'] = m_land
         outputs['block_energy'] = m_trip * inputs['fuel_heating_value']
@@ -289,6 +299,9 @@ class MissionFuelComp(PointwiseComponent):
                 d_energy = d_energy + m_trip
             partials['block_energy', name] = d_energy
 
+        partials['top_of_climb_mass', 'mtow'] = f_to * f_cl
+        partials['top_of_climb_mass', 'takeoff_fraction'] = m_to * f_cl
+        partials['top_of_climb_mass', 'climb_fraction'] = m_to * f_to
         partials['mid_cruise_mass', 'mtow'] = f_to * f_cl * sqrt_cr
         partials['mid_cruise_mass', 'takeoff_fraction'] = m_to * f_cl * sqrt_cr
         partials['mid_cruise_mass', 'climb_fraction'] = m_to * f_to * sqrt_cr

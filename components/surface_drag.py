@@ -3,8 +3,7 @@
 import numpy as np
 
 from voltwake.components.base import PointwiseComponent
-
-_LN10 = np.log(10.0)
+from voltwake.components.skin_friction import turbulent_skin_friction
 
 #: Chordwise position of maximum thickness (x/c)_m of a conventional section (Raymer,
 #: Aircraft Design: A Conceptual Approach, parasite drag chapter; from memory).
@@ -26,10 +25,13 @@ class LiftingSurfaceDragComp(PointwiseComponent):
 
     .. math::
 
-        Re = \frac{\rho V \bar c}{\mu}, \qquad c_f = \frac{0.455}{(\log_{10} Re)^{2.58}}
+        Re = \frac{\rho V \bar c}{\mu}, \qquad
+        c_f = \frac{0.455}{(\log_{10} Re)^{2.58}\,(1 + 0.144 M^2)^{0.65}}
 
-    (Prandtl-Schlichting turbulent flat-plate skin friction with no compressibility
-    correction, the same as ``BodyDragComp`` so that bodies and surfaces are consistent).
+    (Prandtl-Schlichting turbulent flat-plate skin friction with the compressibility
+    correction; Raymer, Aircraft Design: A Conceptual Approach, 6th ed., ch. 12, eq. 12.27,
+    equation number from memory; see ``voltwake.components.skin_friction``. The same as
+    ``BodyDragComp``, so that bodies and surfaces are consistent.)
     Wetted area of one surface (Raymer, same book, configuration layout chapter, wetted area
     of wings and tails, valid for t/c > 0.05; from memory):
 
@@ -114,7 +116,7 @@ class LiftingSurfaceDragComp(PointwiseComponent):
             'skin_friction_coefficient',
             np.full(n, 0.003),
             units=None,
-            desc='Turbulent flat-plate skin friction coefficient',
+            desc='Turbulent flat-plate skin friction coefficient, compressibility-corrected',
         )
         self.add_output('form_factor', np.full(n, 1.5), units=None, desc='Form factor')
         self.add_output(
@@ -135,9 +137,8 @@ class LiftingSurfaceDragComp(PointwiseComponent):
         flow = ['true_airspeed', 'density', 'viscosity']
         shape = ['thickness_to_chord', 'mach', 'sweep']
         self.declare_diagonal_partials('mean_chord', planform)
-        self.declare_diagonal_partials(
-            ['reynolds_number', 'skin_friction_coefficient'], planform + flow
-        )
+        self.declare_diagonal_partials('reynolds_number', planform + flow)
+        self.declare_diagonal_partials('skin_friction_coefficient', planform + flow + ['mach'])
         self.declare_diagonal_partials('form_factor', shape)
         self.declare_diagonal_partials('wetted_area', ['area', 'thickness_to_chord'])
         self.declare_diagonal_partials(
@@ -189,7 +190,7 @@ class LiftingSurfaceDragComp(PointwiseComponent):
         thickness = inputs['thickness_to_chord']
         chord = np.sqrt(area / inputs['aspect_ratio'])
         reynolds = inputs['density'] * inputs['true_airspeed'] * chord / inputs['viscosity']
-        friction = 0.455 / np.log10(reynolds) ** 2.58
+        friction, _, _ = turbulent_skin_friction(reynolds, inputs['mach'])
         form_factor, _, _, _ = self._form_factor(thickness, inputs['mach'], inputs['sweep'])
         wetted = area * (WETTED_BASE + WETTED_SLOPE * thickness)
 
@@ -224,10 +225,9 @@ class LiftingSurfaceDragComp(PointwiseComponent):
 
         chord = np.sqrt(area / aspect)
         reynolds = density * speed * chord / viscosity
-        log_re = np.log10(reynolds)
-        friction = 0.455 / log_re**2.58
+        friction, dcf_dre, dcf_dmach = turbulent_skin_friction(reynolds, inputs['mach'])
         # d cf / d ln(Re); d ln(Re)/d x is 1/x for rho and V, -1/mu, 1/(2 S) and -1/(2 A).
-        dcf_dlnre = -2.58 * friction / (log_re * _LN10)
+        dcf_dlnre = dcf_dre * reynolds
         form_factor, dff_dt, dff_dm, dff_ds = self._form_factor(
             thickness, inputs['mach'], inputs['sweep']
         )
@@ -251,6 +251,7 @@ class LiftingSurfaceDragComp(PointwiseComponent):
         partials['drag_area', 'area'] = (
             scale * form_factor * (wetted * dcf_dlnre * 0.5 / area + friction * wetted_ratio)
         )
+        partials['skin_friction_coefficient', 'mach'] = dcf_dmach
 
         partials['form_factor', 'thickness_to_chord'] = dff_dt
         partials['form_factor', 'mach'] = dff_dm
@@ -262,6 +263,8 @@ class LiftingSurfaceDragComp(PointwiseComponent):
         partials['drag_area', 'thickness_to_chord'] = (
             scale * friction * (dff_dt * wetted + form_factor * WETTED_SLOPE * area)
         )
-        partials['drag_area', 'mach'] = scale * friction * dff_dm * wetted
+        partials['drag_area', 'mach'] = (
+            scale * wetted * (dcf_dmach * form_factor + friction * dff_dm)
+        )
         partials['drag_area', 'sweep'] = scale * friction * dff_ds * wetted
         partials['drag_area', 'interference_factor'] = count * friction * form_factor * wetted

@@ -136,6 +136,115 @@ class WingGeometryComp(PointwiseComponent):
         partials['wingspan', 'aspect_ratio'] = 0.5 * inputs['wing_area'] / span
 
 
+class ExposedWingComp(PointwiseComponent):
+    r"""
+    Exposed planform of a trapezoidal wing: the reference wing outside the fuselage.
+
+    The reference trapezoid runs to the aircraft centre line; the fuselage of diameter d
+    covers its inner part. With the root chord :math:`c_r = 2S / (b(1 + \lambda))` and the
+    chord at the fuselage side :math:`c_s = c_r (1 - (1 - \lambda) d / b)`:
+
+    .. math::
+
+        S_{exp} = S - d\, \frac{c_r + c_s}{2}
+                = S - d\, c_r \left(1 - (1 - \lambda) \frac{d}{2b}\right), \qquad
+        b_{exp} = b - d, \qquad A_{exp} = \frac{b_{exp}^2}{S_{exp}}
+
+    (trapezoidal-wing geometry, common practice). The exposed planform is what the wing's
+    wetted area and skin friction are taken on; its mean chord :math:`S_{exp}/b_{exp}` sets the
+    wing's Reynolds number.
+
+    Parameters
+    ----------
+    **kwargs : dict of keyword arguments
+        Keyword arguments that will be mapped into the Component options.
+    """
+
+    def setup(self):
+        """
+        Add inputs and outputs.
+        """
+        n = self.options['vec_size']
+        self.add_input('wing_area', np.full(n, 120.0), units='m**2', desc='Wing reference area')
+        self.add_input('wingspan', np.full(n, 34.0), units='m', desc='Wing span')
+        self.add_input('taper_ratio', np.full(n, 0.25), units=None, desc='Tip / root chord')
+        self.add_input(
+            'fuselage_diameter', np.full(n, 3.9), units='m', desc='Maximum fuselage diameter'
+        )
+        self.add_output(
+            'exposed_wing_area',
+            np.full(n, 100.0),
+            units='m**2',
+            desc='Wing planform area outside the fuselage',
+        )
+        self.add_output(
+            'exposed_wing_aspect_ratio',
+            np.full(n, 9.0),
+            units=None,
+            desc='Aspect ratio of the exposed planform (both panels joined)',
+        )
+
+    def setup_partials(self):
+        """
+        Declare the diagonal partials.
+        """
+        self.declare_diagonal_partials(
+            ['exposed_wing_area', 'exposed_wing_aspect_ratio'],
+            ['wing_area', 'wingspan', 'taper_ratio', 'fuselage_diameter'],
+        )
+
+    @staticmethod
+    def _exposed(inputs):
+        """Return the exposed area, its exposed span and the partials of the area."""
+        area, span = inputs['wing_area'], inputs['wingspan']
+        taper, diameter = inputs['taper_ratio'], inputs['fuselage_diameter']
+        root = 2.0 * area / (span * (1.0 + taper))
+        side = 1.0 - (1.0 - taper) * diameter / (2.0 * span)
+        exposed = area - diameter * root * side
+        d_area = {
+            'wing_area': 1.0 - diameter * side * root / area,
+            'wingspan': diameter * root * (side - (1.0 - taper) * diameter / (2.0 * span)) / span,
+            'taper_ratio': diameter * root * (side / (1.0 + taper) - diameter / (2.0 * span)),
+            'fuselage_diameter': -root * side + diameter * root * (1.0 - taper) / (2.0 * span),
+        }
+        return exposed, span - diameter, d_area
+
+    def compute(self, inputs, outputs):
+        """
+        Compute the exposed planform.
+
+        Parameters
+        ----------
+        inputs : Vector
+            Unscaled, dimensional input variables read via inputs[key].
+        outputs : Vector
+            Unscaled, dimensional output variables read via outputs[key].
+        """
+        exposed, exposed_span, _ = self._exposed(inputs)
+        outputs['exposed_wing_area'] = exposed
+        outputs['exposed_wing_aspect_ratio'] = exposed_span**2 / exposed
+
+    def compute_partials(self, inputs, partials):
+        """
+        Compute the analytic partials.
+
+        Parameters
+        ----------
+        inputs : Vector
+            Unscaled, dimensional input variables read via inputs[key].
+        partials : Jacobian
+            Sub-jac components written to partials[output_name, input_name].
+        """
+        exposed, exposed_span, d_area = self._exposed(inputs)
+        aspect = exposed_span**2 / exposed
+        d_span = {'wingspan': 1.0, 'fuselage_diameter': -1.0}
+        for name, value in d_area.items():
+            partials['exposed_wing_area', name] = value
+            partials['exposed_wing_aspect_ratio', name] = (
+                2.0 * exposed_span * d_span.get(name, 0.0) - aspect * value
+            ) / exposed
+
+
 class LiftCoefficientComp(PointwiseComponent):
     r"""
     Lift coefficient for level flight, lift equal to weight.

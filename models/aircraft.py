@@ -49,8 +49,14 @@ from voltwake.components.takeoff_thrust import StaticThrustPerPowerComp, Takeoff
 from voltwake.components.thermal_management import CHAIN_LOSS_EXPONENTS, ThermalManagementComp
 from voltwake.components.thrust_split import ThrustSplitComp
 from voltwake.components.turbofan_core import EngineMassComp, TurbofanCoreComp
+from voltwake.components.wave_drag import WaveDragComp
 from voltwake.components.weights import AirframeMassComp, MassBuildUpComp, MassSumComp
-from voltwake.components.wing import LiftCoefficientComp, WingAreaComp, WingGeometryComp
+from voltwake.components.wing import (
+    ExposedWingComp,
+    LiftCoefficientComp,
+    WingAreaComp,
+    WingGeometryComp,
+)
 from voltwake.components.wing_mass import WingMassComp
 from voltwake.models.solvers import PointwiseDirectSolver, SizingNewtonSolver
 
@@ -99,6 +105,11 @@ _OPTIONS = {
     ),
     'tolerance': dict(
         types=float, default=1e-10, desc='Relative residual tolerance of the sizing loop.'
+    ),
+    'economic_mission': dict(
+        types=bool,
+        default=False,
+        desc='Also fly the sized aircraft on the economic mission (its own payload and range).',
     ),
 }
 
@@ -159,9 +170,96 @@ class FlightConditionGroup(om.Group):
         )
 
 
+#: Zero-lift drag areas summed by the drag polar (promoted names).
+DRAG_AREAS = (
+    'wing_drag_area',
+    'fuselage_drag_area',
+    ('nacelle_drag_area', 'turbofan_nacelle_drag_area'),
+    'aft_nacelle_drag_area',
+    'horizontal_tail_drag_area',
+    'vertical_tail_drag_area',
+)
+
+
+def _prefix(prefix, name):
+    return f'{prefix}_{name}' if prefix else name
+
+
+def add_polar_point(group, name, mass, prefix=''):
+    """
+    Add lift, wave drag and the drag polar at one aircraft mass to ``group``.
+
+    Every point flies at the cruise altitude and Mach number (same dynamic pressure and
+    component drag areas) and carries the thermal-management drag.
+
+    Parameters
+    ----------
+    group : om.Group
+        The group to add to.
+    name : str
+        Prefix of the subsystem names.
+    mass : str
+        Promoted name of the aircraft mass at the point.
+    prefix : str
+        Prefix of the promoted outputs ('' for the mid-cruise point).
+    """
+    n = group.options['vec_size']
+    cl = _prefix(prefix, 'lift_coefficient')
+    _add(
+        group,
+        f'{name}_lift',
+        LiftCoefficientComp(vec_size=n),
+        [('mass', mass), 'dynamic_pressure', 'wing_area'],
+        [('lift_coefficient', cl)],
+    )
+    _add(
+        group,
+        f'{name}_wave',
+        WaveDragComp(vec_size=n),
+        [
+            'mach',
+            ('lift_coefficient', cl),
+            ('sweep', 'wing_sweep'),
+            'thickness_to_chord',
+            ('technology_factor', 'airfoil_technology_factor'),
+        ],
+        [
+            (out, _prefix(prefix, out))
+            for out in ('drag_divergence_mach', 'critical_mach', 'wave_drag_coefficient')
+        ],
+    )
+    _add(
+        group,
+        f'{name}_polar',
+        DragPolarComp(vec_size=n),
+        [
+            ('lift_coefficient', cl),
+            ('wave_drag_coefficient', _prefix(prefix, 'wave_drag_coefficient')),
+            'aspect_ratio',
+            'oswald_efficiency',
+            'wing_area',
+            'dynamic_pressure',
+            'miscellaneous_drag_coefficient',
+            ('extra_drag', 'thermal_drag'),
+        ]
+        + list(DRAG_AREAS),
+        [
+            (out, _prefix(prefix, out))
+            for out in (
+                'zero_lift_drag_coefficient',
+                'induced_drag_coefficient',
+                'drag_coefficient',
+                'drag',
+                'lift_to_drag',
+                'fuselage_drag',
+            )
+        ],
+    )
+
+
 class AerodynamicsGroup(om.Group):
     """
-    Mid-cruise lift coefficient and drag build-up.
+    Wing planform, tail sizing, component zero-lift drag and the mid-cruise drag polar.
 
     Parameters
     ----------
@@ -173,50 +271,59 @@ class AerodynamicsGroup(om.Group):
         """
         Declare options.
         """
-        _declare(self.options, 'vec_size', 'structure')
+        _declare(self.options, 'vec_size')
 
     def setup(self):
         """
-        Add the lift and drag components.
+        Add the planform, tail sizing, component drag and polar components.
         """
         n = self.options['vec_size']
+        flight = ['mach', 'true_airspeed', 'density', 'viscosity']
         _add(
-            self,
-            'lift',
-            LiftCoefficientComp(vec_size=n),
-            [('mass', 'mid_cruise_mass'), 'dynamic_pressure', 'wing_area'],
-            ['lift_coefficient'],
+            self, 'span', WingGeometryComp(vec_size=n), ['wing_area', 'aspect_ratio'], ['wingspan']
         )
         _add(
             self,
-            'polar',
-            DragPolarComp(vec_size=n),
+            'exposed',
+            ExposedWingComp(vec_size=n),
+            ['wing_area', 'wingspan', 'taper_ratio', 'fuselage_diameter'],
+            ['exposed_wing_area', 'exposed_wing_aspect_ratio'],
+        )
+        _add(
+            self,
+            'wing_drag',
+            LiftingSurfaceDragComp(vec_size=n),
             [
-                'lift_coefficient',
-                'aspect_ratio',
-                'oswald_efficiency',
+                ('area', 'exposed_wing_area'),
+                ('aspect_ratio', 'exposed_wing_aspect_ratio'),
+                'thickness_to_chord',
+                ('sweep', 'wing_sweep'),
+                ('interference_factor', 'wing_interference_factor'),
+            ]
+            + flight,
+            [
+                ('drag_area', 'wing_drag_area'),
+                ('wetted_area', 'wing_wetted_area'),
+                ('reynolds_number', 'wing_reynolds_number'),
+                ('skin_friction_coefficient', 'wing_skin_friction_coefficient'),
+                ('form_factor', 'wing_form_factor'),
+            ],
+        )
+        _add(
+            self,
+            'tail_size',
+            TailSizingComp(vec_size=n),
+            [
                 'wing_area',
-                'dynamic_pressure',
-                'cd0_other',
-                'fuselage_drag_area',
-                ('nacelle_drag_area', 'turbofan_nacelle_drag_area'),
-                'aft_nacelle_drag_area',
-                'horizontal_tail_drag_area',
-                'vertical_tail_drag_area',
-                ('extra_drag', 'thermal_drag'),
+                'aspect_ratio',
+                'fuselage_length',
+                'horizontal_tail_volume_coefficient',
+                'vertical_tail_volume_coefficient',
+                'tail_arm_fraction',
             ],
-            [
-                'zero_lift_drag_coefficient',
-                'induced_drag_coefficient',
-                'drag_coefficient',
-                'drag',
-                'lift_to_drag',
-                'fuselage_drag',
-            ],
+            ['horizontal_tail_area', 'vertical_tail_area', 'tail_arm'],
         )
-        if self.options['structure'] != 'build_up':
-            return  # the tails' drag is part of cd0_other
-        # The tails sized by the build-up; their planform constants are those of their mass.
+        # The tails' planform constants are those of their mass equations.
         for tail, aspect, sweep in (
             ('horizontal', HT_ASPECT_RATIO, HT_SWEEP),
             ('vertical', VT_ASPECT_RATIO, VT_SWEEP),
@@ -230,11 +337,8 @@ class AerodynamicsGroup(om.Group):
                     ('aspect_ratio', f'{tail}_tail_aspect_ratio'),
                     ('thickness_to_chord', 'tail_thickness_to_chord'),
                     ('sweep', f'{tail}_tail_sweep'),
-                    'mach',
-                    'true_airspeed',
-                    'density',
-                    'viscosity',
-                ],
+                ]
+                + flight,
                 [
                     ('drag_area', f'{tail}_tail_drag_area'),
                     ('wetted_area', f'{tail}_tail_wetted_area'),
@@ -243,6 +347,7 @@ class AerodynamicsGroup(om.Group):
             self.set_input_defaults(f'{tail}_tail_aspect_ratio', np.full(n, aspect))
             self.set_input_defaults(f'{tail}_tail_sweep', np.full(n, sweep), units='rad')
         self.set_input_defaults('tail_thickness_to_chord', np.full(n, VT_THICKNESS_TO_CHORD))
+        add_polar_point(self, 'cruise', 'mid_cruise_mass')
 
 
 class TurbofanGroup(om.Group):
@@ -312,6 +417,7 @@ class TurbofanGroup(om.Group):
                 ('diameter', 'turbofan_nacelle_diameter'),
                 ('fineness_ratio', 'turbofan_nacelle_fineness_ratio'),
                 ('interference_factor', 'turbofan_nacelle_interference_factor'),
+                'mach',
                 'true_airspeed',
                 'density',
                 'viscosity',
@@ -510,6 +616,7 @@ class AftFanGroup(om.Group):
                 ('diameter', 'aft_nacelle_diameter'),
                 ('fineness_ratio', 'aft_nacelle_fineness_ratio'),
                 ('interference_factor', 'aft_nacelle_interference_factor'),
+                'mach',
                 'true_airspeed',
                 'density',
                 'viscosity',
@@ -674,25 +781,11 @@ class AirframeBuildUpGroup(om.Group):
 
     def setup(self):
         """
-        Add the tail sizing and one component per mass item.
+        Add one component per mass item.
         """
         n = self.options['vec_size']
         design = ('design_mass', 'mtow')
         sweep = ('sweep', 'wing_sweep')
-        _add(
-            self,
-            'tail_size',
-            TailSizingComp(vec_size=n),
-            [
-                'wing_area',
-                'aspect_ratio',
-                'fuselage_length',
-                'horizontal_tail_volume_coefficient',
-                'vertical_tail_volume_coefficient',
-                'tail_arm_fraction',
-            ],
-            ['horizontal_tail_area', 'vertical_tail_area', 'tail_arm'],
-        )
         _add(
             self,
             'wing',
@@ -805,7 +898,7 @@ class SizingLoop(om.Group):
         _add(
             self,
             'aerodynamics',
-            AerodynamicsGroup(vec_size=n, structure=opt['structure']),
+            AerodynamicsGroup(vec_size=n),
             ['*'],
             ['*'],
         )
@@ -845,13 +938,6 @@ class SizingLoop(om.Group):
             ['overall_efficiency', 'tsfc'],
         )
         if opt['structure'] == 'build_up':
-            _add(
-                self,
-                'wing',
-                WingGeometryComp(vec_size=n),
-                ['wing_area', 'aspect_ratio'],
-                ['wingspan'],
-            )
             _add(self, 'airframe', AirframeBuildUpGroup(vec_size=n), ['*'], ['*'])
         else:
             _add(
@@ -891,6 +977,7 @@ class SizingLoop(om.Group):
                 'block_fuel',
                 'reserve_fuel',
                 'total_fuel',
+                'top_of_climb_mass',
                 'mid_cruise_mass',
                 'landing_mass',
                 'block_energy',
@@ -1012,7 +1099,8 @@ class PerformanceGroup(om.Group):
     The take-off thrust counts the turbofans at their rated thrust (their cores are sized
     for the generators' take-off draw as well) and the aft fan at what its rated motor power
     gives at sea-level static. Top of climb is flown at cruise altitude and Mach number at
-    MTOW (conservative) with the cruise L/D and that thrust lapsed.
+    the start-of-cruise mass, with the drag polar (and wave drag) at its own lift
+    coefficient and that thrust lapsed.
 
     Parameters
     ----------
@@ -1089,6 +1177,7 @@ class PerformanceGroup(om.Group):
             ],
             ['stall_speed', 'approach_speed', 'landing_field_length'],
         )
+        add_polar_point(self, 'climb', 'top_of_climb_mass', prefix='top_of_climb')
         _add(
             self,
             'lapse',
@@ -1103,8 +1192,8 @@ class PerformanceGroup(om.Group):
             [
                 ('rated_thrust', 'turbofans_takeoff_thrust'),
                 'thrust_lapse',
-                ('mass', 'mtow'),
-                'lift_to_drag',
+                ('mass', 'top_of_climb_mass'),
+                ('lift_to_drag', 'top_of_climb_lift_to_drag'),
                 'true_airspeed',
                 'residual_climb_rate',
             ]
@@ -1165,6 +1254,102 @@ class PerformanceGroup(om.Group):
         )
 
 
+#: Inputs of the Breguet mission shared by the design and the economic missions.
+_MISSION_SHARED = [
+    'overall_efficiency',
+    'fuel_heating_value',
+    'takeoff_fraction',
+    'climb_fraction',
+    'landing_fraction',
+    'diversion_range',
+    'hold_time',
+    'true_airspeed',
+    'contingency_fraction',
+]
+
+
+class EconomicMissionGroup(om.Group):
+    """
+    The sized aircraft flown on a shorter economic mission.
+
+    The masses, wing, engines and aft fan are those the design mission sized; the economic
+    mission sets its own payload and range, and its take-off mass (operating empty mass,
+    payload and fuel, reserves included) is solved with its fuel by Newton's method. It
+    cruises at the design cruise altitude and Mach number with the drag polar at its own
+    lift coefficient, and with the design cruise point's overall efficiency (part-power
+    changes of the propulsion system are not modelled).
+
+    Parameters
+    ----------
+    **kwargs : dict of keyword arguments
+        Keyword arguments that will be mapped into the Group options.
+    """
+
+    def initialize(self):
+        """
+        Declare options.
+        """
+        _declare(self.options, 'vec_size', 'max_iterations', 'tolerance')
+
+    def setup(self):
+        """
+        Add the mission, its drag polar, its take-off mass and the take-off mass margin.
+        """
+        opt = self.options
+        n = opt['vec_size']
+        _add(
+            self,
+            'mission',
+            MissionFuelComp(vec_size=n),
+            [
+                ('mtow', 'economic_takeoff_mass'),
+                ('range', 'economic_range'),
+                ('lift_to_drag', 'economic_lift_to_drag'),
+            ]
+            + _MISSION_SHARED,
+            _prefixed(
+                'economic',
+                [
+                    'cruise_fuel_fraction',
+                    'block_fuel',
+                    'reserve_fuel',
+                    'total_fuel',
+                    'top_of_climb_mass',
+                    'mid_cruise_mass',
+                    'landing_mass',
+                    'block_energy',
+                ],
+            ),
+        )
+        add_polar_point(self, 'economic', 'economic_mid_cruise_mass', prefix='economic')
+        _add(
+            self,
+            'takeoff_mass',
+            MassSumComp(vec_size=n, items=['empty', 'payload', 'fuel'], total='takeoff_mass'),
+            [
+                ('empty_mass', 'oew'),
+                ('payload_mass', 'economic_payload'),
+                ('fuel_mass', 'economic_total_fuel'),
+            ],
+            [('takeoff_mass', 'economic_takeoff_mass')],
+        )
+        _add(
+            self,
+            'takeoff_mass_margin',
+            RatingMarginComp(vec_size=n, units='kg'),
+            [('value', 'economic_takeoff_mass'), ('rating', 'mtow')],
+            [('margin', 'economic_takeoff_mass_margin')],
+        )
+        newton = self.nonlinear_solver = SizingNewtonSolver(solve_subsystems=False)
+        newton.options['maxiter'] = opt['max_iterations']
+        newton.options['rtol'] = opt['tolerance']
+        newton.options['atol'] = 1e-8
+        newton.options['iprint'] = -1
+        newton.options['err_on_non_converge'] = True
+        newton.linesearch = None
+        self.linear_solver = PointwiseDirectSolver(assemble_jac=True)
+
+
 class AircraftModel(om.Group):
     """
     The whole aircraft: cruise flight condition, fuselage drag and the sizing loop.
@@ -1196,6 +1381,7 @@ class AircraftModel(om.Group):
                 ('diameter', 'fuselage_diameter'),
                 ('fineness_ratio', 'fuselage_fineness_ratio'),
                 ('interference_factor', 'fuselage_interference_factor'),
+                'mach',
                 'true_airspeed',
                 'density',
                 'viscosity',
@@ -1214,16 +1400,18 @@ class AircraftModel(om.Group):
         )
         loop = {name: opt[name] for name in _OPTIONS}
         _add(self, 'sizing', SizingLoop(**loop), ['*'], ['*'])
-        if opt['structure'] != 'build_up':  # the build-up sizes the span inside the loop
-            _add(
-                self,
-                'wing',
-                WingGeometryComp(vec_size=n),
-                ['wing_area', 'aspect_ratio'],
-                ['wingspan'],
-            )
         if opt['aft_fan']:
             _add(self, 'power_saving', PowerSavingGroup(vec_size=n), ['*'], ['*'])
+        if opt['economic_mission']:
+            _add(
+                self,
+                'economic',
+                EconomicMissionGroup(
+                    vec_size=n, max_iterations=opt['max_iterations'], tolerance=opt['tolerance']
+                ),
+                ['*'],
+                ['*'],
+            )
         _add(
             self,
             'performance',

@@ -29,18 +29,40 @@ UNIT_BODY = {
 }
 
 
+# Prandtl-Schlichting cf = 0.455 / (log10 Re)**2.58 at Re = 1e6, 1e7, 1e8 (M = 0), evaluated
+# by hand: 0.455 / 6**2.58, 0.455 / 7**2.58, 0.455 / 8**2.58.
+INCOMPRESSIBLE_CF = np.array([0.004470758085612, 0.003003713133159, 0.002128331291413])
+
+
 @pytest.mark.parametrize('shape', ['fuselage', 'nacelle'])
 def test_skin_friction_hand_values(shape):
-    prob = _run(BodyDragComp(vec_size=3, shape=shape), UNIT_BODY)
+    prob = _run(BodyDragComp(vec_size=3, shape=shape), dict(UNIT_BODY, mach=[0.0, 0.78, 0.85]))
     np.testing.assert_allclose(prob.get_val('reynolds_number'), [1.0e6, 1.0e7, 1.0e8], rtol=1e-13)
     np.testing.assert_allclose(prob.get_val('length'), [10.0, 10.0, 10.0], rtol=1e-15)
-    # Prandtl-Schlichting cf = 0.455 / (log10 Re)**2.58 evaluated by hand:
-    # 0.455 / 6**2.58, 0.455 / 7**2.58, 0.455 / 8**2.58.
+    # Compressibility correction (1 + 0.144 M**2)**-0.65 (Raymer, Aircraft Design: A
+    # Conceptual Approach, 6th ed., ch. 12, eq. 12.27; equation number from memory), hand
+    # values: 1 at M = 0, 1.0876096**-0.65 = 0.9468747 at M = 0.78, 1.10404**-0.65 = 0.9376913
+    # at M = 0.85.
     np.testing.assert_allclose(
         prob.get_val('skin_friction_coefficient'),
-        [0.004470758085612, 0.003003713133159, 0.002128331291413],
+        INCOMPRESSIBLE_CF * [1.0, 0.9468747357762, 0.9376912739477],
         rtol=1e-12,
     )
+
+
+def test_compressibility_scales_friction_and_drag_area():
+    # At fixed Reynolds number the Mach number acts only through the correction factor.
+    prob = _run(BodyDragComp(vec_size=3), dict(UNIT_BODY, mach=[0.78, 0.78, 0.78]))
+    rest = _run(BodyDragComp(vec_size=3), dict(UNIT_BODY, mach=[0.0, 0.0, 0.0]))
+    np.testing.assert_allclose(
+        rest.get_val('skin_friction_coefficient'), INCOMPRESSIBLE_CF, rtol=1e-12
+    )
+    for name in ['skin_friction_coefficient', 'drag_area']:
+        np.testing.assert_allclose(
+            prob.get_val(name) / rest.get_val(name), 0.9468747357762, rtol=1e-12
+        )
+    for name in ['reynolds_number', 'form_factor', 'wetted_area']:
+        np.testing.assert_allclose(prob.get_val(name), rest.get_val(name), rtol=1e-15)
 
 
 def test_fuselage_form_factor_wetted_area_and_drag_area():
@@ -104,6 +126,7 @@ POINTS = [
         'diameter': [3.9, 4.1, 6.0],
         'fineness_ratio': [9.5, 11.0, 12.5],
         'true_airspeed': [230.0, 75.0, 250.0],
+        'mach': [0.78, 0.3, 0.85],
         'density': [0.38, 1.2, 0.31],
         'viscosity': [1.43e-5, 1.79e-5, 1.42e-5],
         'interference_factor': [1.0, 1.05, 1.2],
@@ -112,6 +135,7 @@ POINTS = [
         'diameter': [2.2, 1.8, 3.0],
         'fineness_ratio': [3.0, 4.5, 6.0],
         'true_airspeed': [120.0, 200.0, 240.0],
+        'mach': [0.3, 0.85, 0.78],
         'density': [0.9, 0.5, 0.36],
         'viscosity': [1.7e-5, 1.5e-5, 1.42e-5],
         'interference_factor': [1.3, 1.0, 1.1],

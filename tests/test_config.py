@@ -225,10 +225,10 @@ def test_missing_required_key_points_at_its_section(tmp_path):
 
 
 def test_missing_section(tmp_path):
-    path = write(tmp_path, drop_section(demo_text(), 'drag'))
+    path = write(tmp_path, drop_section(demo_text(), 'fuselage'))
     err = config_error(path)
-    assert_points_at(err, path, None, 'drag')
-    assert 'missing section' in err.message and 'cd0_other' in err.message
+    assert_points_at(err, path, None, 'fuselage')
+    assert 'missing section' in err.message and 'diameter' in err.message
 
 
 # --- wrong types ---------------------------------------------------------------------------

@@ -28,23 +28,26 @@ def test_hand_values():
             'oswald_efficiency': 0.8,
             'wing_area': 100.0,
             'dynamic_pressure': 1.0e4,
-            'cd0_other': 0.01,
+            'miscellaneous_drag_coefficient': 0.001,
+            'wing_drag_area': 0.9,
             'fuselage_drag_area': 0.6,
             'nacelle_drag_area': 0.3,
             'aft_nacelle_drag_area': 0.1,
+            'wave_drag_coefficient': 0.0005,
             'extra_drag': 500.0,
         },
     )
     # Hand calculation from the formulas in the class docstring:
-    # CD0 = 0.01 + (0.6 + 0.3 + 0.1) / 100 = 0.02; CDi = 0.25 / (8 pi) = 0.009947183943243;
-    # D = 1e4 * 100 * (0.02 + CDi) + 500 = 30447.18394324 N; L/D = 5e5 / D = 16.42187996539.
+    # CD0 = 0.001 + (0.9 + 0.6 + 0.3 + 0.1) / 100 = 0.02; CDi = 0.25 / (8 pi)
+    # = 0.009947183943243; CD = CD0 + CDi + 0.0005;
+    # D = 1e4 * 100 * CD + 500 = 30947.18394324 N; L/D = 5e5 / D = 16.15654137...
     assert prob.get_val('zero_lift_drag_coefficient')[0] == pytest.approx(0.02, rel=1e-14)
     assert prob.get_val('induced_drag_coefficient')[0] == pytest.approx(
         0.009947183943243, rel=1e-12
     )
-    assert prob.get_val('drag_coefficient')[0] == pytest.approx(0.029947183943243, rel=1e-12)
-    assert prob.get_val('drag')[0] == pytest.approx(30447.18394324, rel=1e-12)
-    assert prob.get_val('lift_to_drag')[0] == pytest.approx(16.42187996539, rel=1e-12)
+    assert prob.get_val('drag_coefficient')[0] == pytest.approx(0.030447183943243, rel=1e-12)
+    assert prob.get_val('drag')[0] == pytest.approx(30947.18394324, rel=1e-12)
+    assert prob.get_val('lift_to_drag')[0] == pytest.approx(5.0e5 / 30947.18394324, rel=1e-12)
     assert prob.get_val('fuselage_drag')[0] == pytest.approx(6000.0, rel=1e-14)
 
 
@@ -61,13 +64,14 @@ def test_best_lift_to_drag_by_scan():
             'aspect_ratio': np.full(n, 9.5),
             'oswald_efficiency': np.full(n, 0.8),
             'wing_area': np.full(n, 120.0),
-            'cd0_other': np.full(n, 0.012),
+            'miscellaneous_drag_coefficient': np.full(n, 0.002),
+            'wing_drag_area': np.full(n, 1.2),
             'fuselage_drag_area': np.full(n, 0.8),
             'nacelle_drag_area': np.full(n, 0.2),
             'aft_nacelle_drag_area': np.full(n, 0.1),
         },
     )
-    cd0 = 0.012 + 1.1 / 120.0
+    cd0 = 0.002 + 2.3 / 120.0
     best_cl = np.sqrt(cd0 * np.pi * 0.8 * 9.5)
     ratio = prob.get_val('lift_to_drag')
     assert lift_coefficient[np.argmax(ratio)] == pytest.approx(best_cl, abs=step)
@@ -92,7 +96,9 @@ POINTS = [
         'oswald_efficiency': [0.75, 0.8, 0.85],
         'wing_area': [110.0, 122.0, 140.0],
         'dynamic_pressure': [8.0e3, 1.0e4, 1.3e4],
-        'cd0_other': [0.010, 0.012, 0.014],
+        'miscellaneous_drag_coefficient': [0.0010, 0.0012, 0.0014],
+        'wing_drag_area': [0.8, 1.0, 1.3],
+        'wave_drag_coefficient': [0.0, 0.0004, 0.003],
         'fuselage_drag_area': [0.7, 0.8, 0.9],
         'nacelle_drag_area': [0.15, 0.2, 0.25],
         'aft_nacelle_drag_area': [0.0, 0.05, 0.1],
@@ -106,7 +112,9 @@ POINTS = [
         'oswald_efficiency': [0.7, 0.9, 0.82],
         'wing_area': [60.0, 300.0, 90.0],
         'dynamic_pressure': [3.0e3, 6.0e3, 1.6e4],
-        'cd0_other': [0.02, 0.009, 0.015],
+        'miscellaneous_drag_coefficient': [0.002, 0.0009, 0.0],
+        'wing_drag_area': [0.5, 2.6, 0.7],
+        'wave_drag_coefficient': [0.01, 0.0, 1e-5],
         'fuselage_drag_area': [0.4, 1.8, 0.6],
         'nacelle_drag_area': [0.1, 0.5, 0.12],
         'aft_nacelle_drag_area': [0.02, 0.2, 0.0],

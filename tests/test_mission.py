@@ -137,6 +137,8 @@ def test_closed_form_identities():
     np.testing.assert_allclose(
         prob.get_val('mid_cruise_mass'), np.sqrt(m_start * m_start * f_cr), rtol=1e-12
     )
+    # the top of climb is the start of cruise
+    np.testing.assert_allclose(prob.get_val('top_of_climb_mass'), m_start, rtol=1e-14)
 
 
 def test_cruise_fraction_multiplies_over_legs():

@@ -8,6 +8,7 @@ import pytest
 import yaml
 from openmdao.utils.assert_utils import assert_check_totals
 
+from voltwake.analysis import analyze
 from voltwake.cli import main
 from voltwake.config import demo_path, load_config
 from voltwake.optimization import build_problem, optimize
@@ -15,7 +16,7 @@ from voltwake.optimization import build_problem, optimize
 TURBO_ELECTRIC = demo_path('turbo_electric')
 
 
-def _conventional_with(optimization, wing_area=None, regression=False):
+def _conventional_with(optimization, wing_area=None, regression=False, overrides=None):
     with open(demo_path('conventional')) as handle:
         data = yaml.safe_load(handle)
     if wing_area is not None:  # a fixed wing area instead of the demo's wing loading
@@ -24,7 +25,9 @@ def _conventional_with(optimization, wing_area=None, regression=False):
     data['optimization'] = optimization
     if regression:  # airframe mass from MTOW alone, whatever the wing
         data['structure'] = {'airframe_mass_coefficient': 1.1, 'airframe_mass_exponent': 0.94}
-        data['drag']['cd0_other'] = 0.0125  # the tails' drag is part of it again
+    for path, value in (overrides or {}).items():
+        section, key = path.split('.')
+        data[section][key] = value
     return load_config(data)
 
 
@@ -32,12 +35,14 @@ def test_wing_area_for_least_fuel_gives_the_best_lift_coefficient():
     """
     Check that the least-fuel wing area gives the best lift coefficient.
 
-    Only the wing area varies; airframe mass depends on MTOW alone and the fuselage and
-    nacelle drag areas do not scale with the wing, so fuel is least where cruise drag is
-    least at the mid-cruise weight: dD/dS = q cd0_wing - W^2/(q S^2 pi e AR) = 0, i.e.
-    CL* = sqrt(cd0_wing pi e AR) (the parabolic-polar minimum-drag condition, e.g. Anderson,
-    Introduction to Flight, ch. 6; from memory), with cd0_wing the wing-area-proportional
-    zero-lift drag coefficient.
+    Only the wing area varies; airframe mass depends on MTOW alone, and at Mach 0.6 the wing
+    has no wave drag, so fuel is least where cruise drag is least at the mid-cruise weight:
+    dD/dS = q d(C_D0 S)/dS - W^2/(q S^2 pi e AR) = 0, i.e. CL* = sqrt(c_S pi e AR) (the
+    parabolic-polar minimum-drag condition, e.g. Anderson, Introduction to Flight, ch. 6;
+    from memory), with c_S = d(C_D0 S)/dS the growth of the zero-lift drag area with the
+    wing area: the miscellaneous increment, and the wing's and the tails' drag areas (the
+    tails are sized on the wing by their volume coefficients). The fuselage and nacelles do
+    not scale with the wing.
     """
     config = _conventional_with(
         {
@@ -46,12 +51,20 @@ def test_wing_area_for_least_fuel_gives_the_best_lift_coefficient():
         },
         wing_area='122 m**2',
         regression=True,
+        overrides={'mission.cruise_mach': 0.6},
     )
     result = optimize(config)
     assert result.success, result.message
-    cd0_wing = config.value('drag.cd0_other')
+    assert result.outputs['wave_drag_coefficient'] == pytest.approx(0.0, abs=1e-12)
+    area = result.design['wing.area']['value']
+    at_optimum = analyze(config, {'wing.area': area})
+    scaling = ['wing_drag_area', 'horizontal_tail_drag_area', 'vertical_tail_drag_area']
+    totals = at_optimum.problem.compute_totals(of=scaling, wrt=['wing_area'])
+    growth = config.value('drag.miscellaneous_drag_coefficient') + sum(
+        float(totals[name, 'wing_area'][0, 0]) for name in scaling
+    )
     expected = math.sqrt(
-        cd0_wing
+        growth
         * math.pi
         * config.value('wing.oswald_efficiency')
         * config.value('wing.aspect_ratio')

@@ -16,8 +16,8 @@ DEMO = load_config(demo_path('turbo_electric'))
 #: Inside the demo's design-variable bounds (aft-fan pressure ratio 1.15-1.6, thrust
 #: fraction 0.05-0.45) and large enough for the aft fan's minimum blade height.
 TARGETS = {
-    'aft_fan.fan_pressure_ratio': np.array([1.2, 1.25]),
-    'aft_fan.thrust_fraction': [0.18, 0.22],
+    'aft_fan.fan_pressure_ratio': np.array([1.15, 1.2]),
+    'aft_fan.thrust_fraction': [0.22, 0.26],
 }
 
 #: Design variables of the demo that stay free when both aft-fan variables are swept.
@@ -65,7 +65,7 @@ def test_full_factorial_with_the_first_target_slowest(serial):
         (p['target:aft_fan.fan_pressure_ratio'], p['target:aft_fan.thrust_fraction'])
         for p in serial['points']
     ]
-    assert got == [(1.2, 0.18), (1.2, 0.22), (1.25, 0.18), (1.25, 0.22)]
+    assert got == [(1.15, 0.22), (1.15, 0.26), (1.2, 0.22), (1.2, 0.26)]
     assert all(type(value) is float for pair in got for value in pair)  # JSON-ready
 
 
@@ -85,7 +85,7 @@ def test_every_point_succeeds_and_only_the_free_variables_are_optimised(serial):
 
 def test_a_point_is_the_optimum_with_its_targets_fixed(serial):
     single = optimize(
-        _by_hand({'aft_fan.fan_pressure_ratio': 1.25, 'aft_fan.thrust_fraction': 0.22})
+        _by_hand({'aft_fan.fan_pressure_ratio': 1.2, 'aft_fan.thrust_fraction': 0.26})
     )
     assert single.success, single.message
     point = serial['points'][3]
@@ -117,12 +117,13 @@ def test_fuel_burn_change_is_against_the_optimised_conventional_reference(serial
         assert point['fuel_burn_change_percent'] == pytest.approx(
             100.0 * (point['block_fuel_kg'] - fuel) / fuel, rel=1e-12
         )
-    # At the smaller aft-fan thrust share the fan's minimum blade height binds: the fan needs
-    # thrust, so the optimiser keeps the drag up (a lower aspect ratio) and burns more.
+    # At these aft-fan thrust shares the fan is larger than its minimum blade height needs
+    # (the demo optimum, near 0.17, sits on that limit); past it, a larger share costs fuel:
+    # the chain's losses and mass grow faster than the ingestion saving.
     changes = [p['fuel_burn_change_percent'] for p in serial['points']]
-    assert changes[1] < changes[0] and changes[3] < changes[2]
-    for small in (serial['points'][0], serial['points'][2]):
-        assert 'aft_fan_hub_to_tip_margin' in small['active_constraints']
+    assert changes[1] > changes[0] and changes[3] > changes[2]
+    for point in serial['points']:
+        assert 'aft_fan_hub_to_tip_margin' not in point['active_constraints']
 
 
 def test_an_output_target_is_an_equality_constraint(demo_optimum):

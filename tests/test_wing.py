@@ -4,7 +4,12 @@ import numpy as np
 import openmdao.api as om
 import pytest
 
-from voltwake.components.wing import LiftCoefficientComp, WingAreaComp, WingGeometryComp
+from voltwake.components.wing import (
+    ExposedWingComp,
+    LiftCoefficientComp,
+    WingAreaComp,
+    WingGeometryComp,
+)
 
 from partials import check_component_partials
 
@@ -116,3 +121,57 @@ def test_wing_geometry_partials(point):
 def test_lift_coefficient_partials(point):
     # atol=0 so that only the relative error counts (complex step is exact to round-off).
     check_component_partials(LiftCoefficientComp(vec_size=3), point, atol=0.0)
+
+
+def test_exposed_wing_hand_values():
+    # hand value from the trapezoid of the class docstring: S = 122 m**2, b = 36 m,
+    # taper 0.25, d = 3.9 m: c_r = 244 / 45 = 5.4222 m, c_s = c_r (1 - 0.75 * 3.9 / 36)
+    # = 4.9817 m, S_exp = 122 - 3.9 (c_r + c_s) / 2 = 101.712 m**2; b_exp = 32.1 m.
+    prob = _run(
+        ExposedWingComp(),
+        {'wing_area': 122.0, 'wingspan': 36.0, 'taper_ratio': 0.25, 'fuselage_diameter': 3.9},
+    )
+    root = 244.0 / 45.0
+    side = root * (1.0 - 0.75 * 3.9 / 36.0)
+    exposed = 122.0 - 3.9 * 0.5 * (root + side)
+    assert exposed == pytest.approx(101.712, abs=1e-3)
+    assert prob.get_val('exposed_wing_area')[0] == pytest.approx(exposed, rel=1e-13)
+    assert prob.get_val('exposed_wing_aspect_ratio')[0] == pytest.approx(
+        32.1**2 / exposed, rel=1e-13
+    )
+
+
+def test_exposed_wing_limits():
+    # no fuselage: the whole reference wing is exposed; a rectangular wing loses d * chord.
+    prob = _run(
+        ExposedWingComp(vec_size=2),
+        {
+            'wing_area': [100.0, 100.0],
+            'wingspan': [30.0, 30.0],
+            'taper_ratio': [0.3, 1.0],
+            'fuselage_diameter': [0.0, 3.0],
+        },
+    )
+    assert prob.get_val('exposed_wing_area') == pytest.approx([100.0, 100.0 - 3.0 * 100.0 / 30.0])
+    assert prob.get_val('exposed_wing_aspect_ratio')[0] == pytest.approx(9.0, rel=1e-14)
+
+
+@pytest.mark.parametrize(
+    'point',
+    [
+        {
+            'wing_area': [80.0, 122.0, 200.0],
+            'wingspan': [28.0, 36.0, 52.0],
+            'taper_ratio': [0.2, 0.3, 0.45],
+            'fuselage_diameter': [3.7, 3.9, 5.6],
+        },
+        {
+            'wing_area': [60.0, 140.0, 90.0],
+            'wingspan': [20.0, 48.0, 30.0],
+            'taper_ratio': [1.0, 0.15, 0.6],
+            'fuselage_diameter': [2.0, 4.5, 3.0],
+        },
+    ],
+)
+def test_exposed_wing_partials(point):
+    check_component_partials(ExposedWingComp(vec_size=3), point)

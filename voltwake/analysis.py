@@ -36,6 +36,12 @@ FIELDS = {
     'cruise_cl': ('lift_coefficient', None),
     'cruise_drag_kN': ('drag', 'kN'),
     'zero_lift_drag_coefficient': ('zero_lift_drag_coefficient', None),
+    'induced_drag_coefficient': ('induced_drag_coefficient', None),
+    'wave_drag_coefficient': ('wave_drag_coefficient', None),
+    'drag_divergence_mach': ('drag_divergence_mach', None),
+    'wing_drag_area_m2': ('wing_drag_area', 'm**2'),
+    'top_of_climb_cl': ('top_of_climb_lift_coefficient', None),
+    'top_of_climb_lift_to_drag': ('top_of_climb_lift_to_drag', None),
     'tsfc_g_per_kN_s': ('tsfc', 'g/(kN*s)'),
     'overall_efficiency': ('overall_efficiency', None),
     'wingspan_m': ('wingspan', 'm'),
@@ -241,6 +247,17 @@ BUILD_UP_FIELDS = {
     'fuselage_length_m': ('fuselage_length', 'm'),
 }
 
+#: Extra fields of a design flown on an economic mission (economic_mission section).
+ECONOMIC_FIELDS = {
+    'economic_block_fuel_kg': ('economic_block_fuel', 'kg'),
+    'economic_block_energy_MJ': ('economic_block_energy', 'MJ'),
+    'economic_reserve_fuel_kg': ('economic_reserve_fuel', 'kg'),
+    'economic_takeoff_mass_kg': ('economic_takeoff_mass', 'kg'),
+    'economic_cruise_lift_to_drag': ('economic_lift_to_drag', None),
+    'economic_cruise_cl': ('economic_lift_coefficient', None),
+    'economic_takeoff_mass_margin': ('economic_takeoff_mass_margin', None),
+}
+
 #: Values of the aft-fan fields for a design without an aft fan (efficiencies are 1).
 _NO_AFT_FAN = {'electrical_chain_efficiency': 1.0, 'cable_efficiency': 1.0}
 
@@ -267,6 +284,8 @@ def read_field_arrays(prob, aft_fan, names=None):
     table = {**FIELDS, **AFT_FAN_FIELDS}
     if prob.model.options['structure'] == 'build_up':
         table.update(BUILD_UP_FIELDS)
+    if prob.model.options['economic_mission']:
+        table.update(ECONOMIC_FIELDS)
     out = {}
     for key in names or table:
         name, units = table[key]

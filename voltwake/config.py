@@ -59,13 +59,7 @@ _AFT_ONLY = (
 #: Keys read only by one airframe-mass method (structure.method).
 _REGRESSION_ONLY = ('structure.airframe_mass_coefficient', 'structure.airframe_mass_exponent')
 _BUILD_UP_ONLY = (
-    'wing.sweep',
-    'wing.thickness_to_chord',
-    'wing.taper_ratio',
     'structure.ultimate_load_factor',
-    'structure.horizontal_tail_volume_coefficient',
-    'structure.vertical_tail_volume_coefficient',
-    'structure.tail_arm_fraction',
     'structure.systems_fraction',
     'structure.mass_per_passenger',
     'structure.furnishings_per_passenger',
@@ -133,6 +127,11 @@ class Config:
         return 'aft_fan' in self.data and self.values['aft_fan.thrust_fraction'] > 0.0
 
     @property
+    def has_economic_mission(self):
+        """bool: True when the design is also flown on an economic mission."""
+        return 'economic_mission' in self.data
+
+    @property
     def structure(self):
         """str: The airframe-mass method, 'regression' or 'build_up'."""
         return self.values['structure.method']
@@ -180,6 +179,7 @@ class Config:
             'structure': self.structure,
             'max_iterations': self.values.get('solver.max_iterations', 30),
             'tolerance': self.values.get('solver.tolerance', 1e-10),
+            'economic_mission': self.has_economic_mission,
         }
         if self.has_aft_fan:
             opts['profile_exponent'] = self.values['aft_fan.profile_exponent']

@@ -36,6 +36,8 @@ OBJECTIVES = {
     'block_energy': 'block_energy',
     'total_energy': 'block_energy',
     'total_fuel': 'total_fuel',
+    'economic_block_fuel': 'economic_block_fuel',
+    'economic_block_energy': 'economic_block_energy',
 }
 
 #: Largest scaled constraint violation accepted as feasible.
@@ -298,12 +300,55 @@ def configured_constraints(config, prob):
     return constraint_table(constraints(config, prob), prob)
 
 
+def _parity(perm):
+    """Return +1 for an even permutation, -1 for an odd one."""
+    seen = np.zeros(len(perm), dtype=bool)
+    cycles = 0
+    for start in range(len(perm)):
+        if not seen[start]:
+            cycles += 1
+            j = start
+            while not seen[j]:
+                seen[j] = True
+                j = perm[j]
+    return -1 if (len(perm) - cycles) % 2 else 1
+
+
+def jacobian_sign(solver):
+    """
+    Return the sign of the determinant of the last Jacobian a direct solver factorised.
+
+    The sizing loop's mass balance can have two roots at the same inputs: the aircraft
+    designers mean, and a far heavier one flying high up its drag polar, where adding payload
+    would lower MTOW (a negative growth factor). The roots meet at a fold where the Jacobian
+    is singular, so the sign of its determinant differs between them. From the LU factors
+    P_r A P_c = L U with unit-diagonal L: sign det A = sign(prod diag U) parity(P_r)
+    parity(P_c).
+
+    Parameters
+    ----------
+    solver : om.DirectSolver
+        A direct solver after a linearisation of a single-point model.
+
+    Returns
+    -------
+    int
+        +1 or -1, or 0 when the factors are not available.
+    """
+    lu = getattr(solver, '_lu', None)
+    if lu is None or not hasattr(lu, 'U'):
+        return 0
+    sign = np.prod(np.sign(np.real(lu.U.diagonal())))
+    return int(sign * _parity(lu.perm_r) * _parity(lu.perm_c))
+
+
 class SizingOptimizeDriver(om.ScipyOptimizeDriver):
     """
     ScipyOptimizeDriver that survives trial points where the sizing loop does not close.
 
     Each model evaluation starts from the last converged state; a trial point that still
-    does not close is counted (``failed_points``) and its outputs are left as found.
+    does not close, or that closes on the heavy root of the mass balance (see
+    :func:`jacobian_sign`), is counted (``failed_points``) and its outputs are left as found.
 
     Parameters
     ----------
@@ -318,6 +363,8 @@ class SizingOptimizeDriver(om.ScipyOptimizeDriver):
         self.history = []
         self.on_evaluation = None
         self._last_good = None
+        self._first_good = None
+        self._branch = None
         self.spec_constraints = []
         self.design_variables = []
         self.start_note = ''
@@ -329,10 +376,14 @@ class SizingOptimizeDriver(om.ScipyOptimizeDriver):
         newton = loop.nonlinear_solver
         closed = False
         # From the last converged state plain Newton steps suffice; if they fail, solve again
-        # from that state with the sub-system sweeps that make the solve robust.
-        for sweeps in (False, True) if self._last_good is not None else (True,):
-            if self._last_good is not None:  # the loop's states only, not the design variables
-                loop._outputs.set_val(self._last_good)
+        # from that state with the sub-system sweeps that make the solve robust, and last from
+        # the first converged state (the start).
+        attempts = [(self._last_good, False), (self._last_good, True), (self._first_good, True)]
+        if self._last_good is None:
+            attempts = [(None, True)]
+        for state, sweeps in attempts:
+            if state is not None:  # the loop's states only, not the design variables
+                loop._outputs.set_val(state)
             newton.options['solve_subsystems'] = sweeps
             try:
                 with np.errstate(all='ignore'):
@@ -342,10 +393,22 @@ class SizingOptimizeDriver(om.ScipyOptimizeDriver):
                 closed = False
             finally:
                 newton.options['solve_subsystems'] = True
+            branch = jacobian_sign(loop.linear_solver)
+            if self._branch is None:
+                self._branch = branch
+            elif closed and branch != self._branch:
+                # The mass balance has a second, heavy root: an aircraft so heavy that it
+                # flies far up its drag polar and needs the extra fuel that makes it heavy
+                # (there, adding payload would lower MTOW: a negative growth factor). The
+                # fold between the roots is where the loop's Jacobian is singular, so the
+                # sign of its determinant tells the roots apart.
+                closed = False
             if closed:
                 break
         if closed:
             self._last_good = loop._outputs.asarray().copy()
+            if self._first_good is None:
+                self._first_good = self._last_good
         else:
             self.failed_points += 1
         self._log(closed)
@@ -406,6 +469,11 @@ def build_problem(config, overrides=None, recorder_path=None):
     objective = config.values['optimization.objective']
     target = OBJECTIVES.get(objective, objective)
     outputs = _outputs(probe)
+    if target.startswith('economic_') and not config.has_economic_mission:
+        raise ConfigError(
+            f"objective '{objective}' needs an 'economic_mission' section (range and payload)",
+            **_where(config, 'optimization.objective'),
+        )
     if target not in outputs:
         close = difflib.get_close_matches(target, list(outputs), n=1)
         hint = f" (did you mean '{close[0]}'?)" if close else ''

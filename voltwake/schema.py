@@ -142,6 +142,19 @@ SECTIONS = {
             default=0.12,
         ),
         'taper_ratio': _n('tip chord / root chord', 'taper_ratio', check='fraction', default=0.25),
+        'airfoil_technology_factor': _n(
+            'Korn airfoil technology factor: 0.87 conventional, 0.95 supercritical sections',
+            'airfoil_technology_factor',
+            check='open_fraction',
+            default=0.95,
+        ),
+        'interference_factor': _n(
+            'interference factor of the wing drag', 'wing_interference_factor', default=1.0
+        ),
+    },
+    'economic_mission': {
+        'range': _q('m', 'economic-mission range (cruise distance)', 'economic_range'),
+        'payload': _q('kg', 'economic-mission payload', 'economic_payload', check='nonnegative'),
     },
     'fuselage': {
         'diameter': _q('m', 'maximum fuselage diameter', 'fuselage_diameter'),
@@ -155,10 +168,12 @@ SECTIONS = {
         ),
     },
     'drag': {
-        'cd0_other': _n(
-            'zero-lift drag coefficient of wing, tails and the rest (on wing area)',
-            'cd0_other',
+        'miscellaneous_drag_coefficient': _n(
+            'zero-lift drag of excrescences, leakage, protuberances and interference not in the '
+            'components\' factors (on wing area)',
+            'miscellaneous_drag_coefficient',
             check='nonnegative',
+            default=0.0015,
         ),
     },
     'structure': {
@@ -283,7 +298,14 @@ SECTIONS = {
 }
 
 #: Sections that may be left out: with no ``aft_fan`` the aircraft is conventional.
-OPTIONAL_SECTIONS = {'aft_fan', 'electrical', 'optimization', 'solver', 'performance'}
+OPTIONAL_SECTIONS = {
+    'aft_fan',
+    'electrical',
+    'economic_mission',
+    'optimization',
+    'solver',
+    'performance',
+}
 #: Optional sections whose keys all have defaults: left out, the defaults apply.
 DEFAULTED_SECTIONS = {'solver', 'performance'}
 
@@ -472,12 +494,16 @@ RETIRED_KEYS = {
     '(aft_fan.station_diameter_ratio) and the hub-to-tip ratio follows from the annulus area',
     'turbofans.thrust_to_weight': 'the engine mass is built from its fan size and its core '
     'power (turbofans.fan_areal_mass, core_specific_power, nacelle_areal_mass)',
+    'drag.cd0_other': 'the zero-lift drag is built up by component (wing, fuselage, nacelles, '
+    'tails, each from its wetted area and skin friction); only excrescences and interference '
+    'are left, as drag.miscellaneous_drag_coefficient',
 }
 
 SECTIONS['optimization'] = {
     'objective': Field(
         'text',
-        'model output to minimise: block_fuel, mtow, block_energy or any scalar model output',
+        'model output to minimise: block_fuel, economic_block_fuel (with an economic_mission '
+        'section), mtow, block_energy or any scalar model output',
         default='block_fuel',
     ),
     'design_variables': Field('mapping', 'config key path -> {lower, upper[, scaler]}'),

@@ -48,10 +48,23 @@ _ROWS = [
         ],
     ),
     (
+        'Economic mission',
+        [
+            ('Block (trip) fuel', 'economic_block_fuel_kg', 'kg', '{:,.0f}'),
+            ('Block energy', 'economic_block_energy_MJ', 'MJ', '{:,.0f}'),
+            ('Reserve fuel', 'economic_reserve_fuel_kg', 'kg', '{:,.0f}'),
+            ('Take-off mass', 'economic_takeoff_mass_kg', 'kg', '{:,.0f}'),
+            ('Cruise lift-to-drag ratio', 'economic_cruise_lift_to_drag', '', '{:.3f}'),
+        ],
+    ),
+    (
         'Cruise',
         [
             ('Lift coefficient', 'cruise_cl', '', '{:.4f}'),
             ('Lift-to-drag ratio', 'cruise_lift_to_drag', '', '{:.3f}'),
+            ('Zero-lift drag coefficient', 'zero_lift_drag_coefficient', '', '{:.5f}'),
+            ('Wave drag coefficient', 'wave_drag_coefficient', '', '{:.5f}'),
+            ('Drag-divergence Mach number', 'drag_divergence_mach', '', '{:.4f}'),
             ('Drag', 'cruise_drag_kN', 'kN', '{:.3f}'),
             ('TSFC', 'tsfc_g_per_kN_s', 'g/(kN s)', '{:.3f}'),
             ('Overall efficiency', 'overall_efficiency', '', '{:.4f}'),
