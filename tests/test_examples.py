@@ -101,3 +101,16 @@ def test_sweep_thrust_fraction_without_matplotlib(tmp_path):
     check_sweep_table(proc.stdout)
     assert 'matplotlib is not installed: plot skipped' in proc.stdout
     assert not (outdir / 'thrust_fraction_sweep.png').exists()
+
+
+def test_cruise_mach_trade_prints_a_rising_fuel_table(tmp_path):
+    proc = run_example('cruise_mach_trade.py', tmp_path)
+    assert proc.returncode == 0, proc.stderr
+    text = proc.stdout.replace('%', '').replace(',', '').replace('<- drag divergence', '')
+    rows = [row for row in table_rows(text) if len(row) == 7]
+    assert len(rows) == 11
+    mach = [row[0] for row in rows]
+    fuel = [row[1] for row in rows]
+    assert mach[0] == 0.70 and mach[-1] == 0.95
+    assert all(b > a for a, b in zip(fuel, fuel[1:]))
+    assert '<- drag divergence' in proc.stdout and '11 of 11 designs closed' in proc.stdout

@@ -8,6 +8,7 @@ complex step through fully iterated Newton solves.
 import warnings
 
 import numpy as np
+import openmdao.api as om
 from openmdao.utils.om_warnings import DerivativesWarning
 
 from .analysis import build_model_problem, run_sizing
@@ -24,8 +25,21 @@ TOTALS_OF = [
     'wing_area',
     'takeoff_field_length',
     'climb_thrust_margin',
+    'wave_drag_coefficient',
+    'top_of_climb_lift_to_drag',
 ]
-TOTALS_WRT = ['aspect_ratio', 'turbofan_fan_pressure_ratio', 'range', 'payload', 'altitude']
+ECONOMIC_TOTALS_OF = ['economic_block_fuel', 'economic_takeoff_mass']
+TOTALS_WRT = [
+    'aspect_ratio',
+    'wing_sweep',
+    'thickness_to_chord',
+    'turbofan_fan_pressure_ratio',
+    'range',
+    'payload',
+    'altitude',
+    'mach',
+]
+ECONOMIC_TOTALS_WRT = ['economic_range', 'economic_payload']
 AFT_TOTALS_OF = [
     'power_saving_coefficient',
     'power_saving_coefficient_same_mass_flow',
@@ -57,12 +71,16 @@ def checked_totals(config):
         Promoted output and input names.
     """
     of = TOTALS_OF + (AFT_TOTALS_OF if config.has_aft_fan else [])
+    if config.has_economic_mission:
+        of = of + ECONOMIC_TOTALS_OF
     if config.model_options()['wing_sizing'] == 'loading':
         wing = ['design_wing_loading']
     else:
         of = [name for name in of if name != 'wing_area']
         wing = ['wing_area']
     wrt = wing + TOTALS_WRT + (AFT_TOTALS_WRT if config.has_aft_fan else [])
+    if config.has_economic_mission:
+        wrt = wrt + ECONOMIC_TOTALS_WRT
     return of, wrt
 
 
@@ -70,7 +88,7 @@ def _spread(prob, config, vec_size):
     """Give each design point slightly different inputs so that mixed-up points show."""
     for name, (value, units) in config.model_inputs().items():
         scale = 1.0 + 0.01 * (np.arange(vec_size) - (vec_size - 1) / 2.0)
-        if name in ('aft_thrust_fraction', 'cd0_other'):
+        if name in ('aft_thrust_fraction', 'miscellaneous_drag_coefficient'):
             scale = 1.0 + 0.05 * np.arange(vec_size)
         prob.set_val(name, value * scale, units=units)
 
@@ -99,11 +117,17 @@ def check_totals_cs(prob, of=None, wrt=None, driver_scaling=False):
     dict
         The data of ``Problem.check_totals``.
     """
-    newton = prob.model.sizing.nonlinear_solver
-    saved = {key: newton.options[key] for key in ('atol', 'rtol', 'maxiter', 'err_on_non_converge')}
-    newton.options['atol'] = newton.options['rtol'] = 1e-300
-    newton.options['maxiter'] = 25
-    newton.options['err_on_non_converge'] = False
+    keys = ('atol', 'rtol', 'maxiter', 'err_on_non_converge')
+    solvers = [
+        system.nonlinear_solver
+        for system in prob.model.system_iter(include_self=True, recurse=True)
+        if isinstance(system.nonlinear_solver, om.NewtonSolver)
+    ]
+    saved = [{key: newton.options[key] for key in keys} for newton in solvers]
+    for newton in solvers:
+        newton.options['atol'] = newton.options['rtol'] = 1e-300
+        newton.options['maxiter'] = 25
+        newton.options['err_on_non_converge'] = False
     try:
         return prob.check_totals(
             of=of,
@@ -114,8 +138,9 @@ def check_totals_cs(prob, of=None, wrt=None, driver_scaling=False):
             driver_scaling=driver_scaling,
         )
     finally:
-        for key, value in saved.items():
-            newton.options[key] = value
+        for newton, options in zip(solvers, saved):
+            for key, value in options.items():
+                newton.options[key] = value
         prob.run_model()
 
 
