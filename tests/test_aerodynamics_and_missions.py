@@ -132,3 +132,19 @@ def test_total_derivatives_through_both_missions(path):
         ['mach', 'wing_sweep', 'thickness_to_chord', 'economic_payload', 'aspect_ratio'],
     )
     assert_check_totals(data, atol=1e-10, rtol=1e-7)
+
+
+def test_fuel_burn_follows_an_economic_objective():
+    from voltwake.compare import compare
+
+    comparison = compare(
+        TURBO_ELECTRIC, {'optimization.objective': 'economic_block_fuel'}, optimized=False
+    )
+    design, reference = comparison.design.values, comparison.reference.values
+    expected = 100.0 * (
+        design['economic_block_fuel_kg'] / reference['economic_block_fuel_kg'] - 1.0
+    )
+    assert comparison.fuel_burn_change_percent == pytest.approx(expected, rel=1e-12)
+    assert comparison.to_dict()['fuel_burn_measured_on'] == 'economic_block_fuel_kg'
+    block = compare(TURBO_ELECTRIC)
+    assert block.fuel_burn_change_percent == pytest.approx(block.change_percent['block_fuel_kg'])

@@ -258,6 +258,31 @@ ECONOMIC_FIELDS = {
     'economic_takeoff_mass_margin': ('economic_takeoff_mass_margin', None),
 }
 
+
+def fuel_burn_field(config):
+    """
+    Return the result field a fuel-burn change is measured on for a configuration.
+
+    The economic mission's block fuel when the optimisation objective is on the economic
+    mission (``economic_block_fuel`` or ``economic_block_energy``), else the design
+    mission's block fuel.
+
+    Parameters
+    ----------
+    config : Config
+        The configuration.
+
+    Returns
+    -------
+    str
+        'economic_block_fuel_kg' or 'block_fuel_kg'.
+    """
+    objective = str(config.values.get('optimization.objective', 'block_fuel'))
+    if objective.startswith('economic_') and config.has_economic_mission:
+        return 'economic_block_fuel_kg'
+    return 'block_fuel_kg'
+
+
 #: Values of the aft-fan fields for a design without an aft fan (efficiencies are 1).
 _NO_AFT_FAN = {'electrical_chain_efficiency': 1.0, 'cable_efficiency': 1.0}
 

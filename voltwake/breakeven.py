@@ -15,7 +15,7 @@ import numpy as np
 from openmdao.utils.units import unit_conversion
 from scipy.optimize import brentq
 
-from .analysis import build_model_problem, run_sizing
+from .analysis import build_model_problem, fuel_burn_field, run_sizing
 from .config import field_at, load_config
 from .errors import ConfigError, OptimizationError
 from .parallel import map_jobs
@@ -116,7 +116,8 @@ def breakeven(config, path, lower, upper, jobs=None, xtol=None):
     ref, at_lower, at_upper = map_jobs(optimize_job, jobs_list, jobs=jobs)
     if not ref['success']:
         raise OptimizationError(f"optimising the conventional reference failed: {ref['message']}")
-    ref_fuel = ref['outputs']['block_fuel_kg']
+    fuel_field = fuel_burn_field(config)
+    ref_fuel = ref['outputs'][fuel_field]
     evaluations, cache = [], {}
     units = f' {field.units}' if field.units else ''
 
@@ -125,7 +126,7 @@ def breakeven(config, path, lower, upper, jobs=None, xtol=None):
             raise OptimizationError(
                 f"optimising the design with {path} = {x:g}{units} failed: {res['message']}"
             )
-        fuel = res['outputs']['block_fuel_kg']
+        fuel = res['outputs'][fuel_field]
         diff = 100.0 * (fuel - ref_fuel) / ref_fuel
         evaluations.append({'value': x, 'difference': diff, 'block_fuel_kg': fuel})
         cache[x] = diff
@@ -150,6 +151,7 @@ def breakeven(config, path, lower, upper, jobs=None, xtol=None):
         'difference_at_lower': d_lower,
         'difference_at_upper': d_upper,
         'reference_block_fuel_kg': ref_fuel,
+        'fuel_burn_measured_on': fuel_field,
         'evaluations': evaluations,
     }
     if d_lower * d_upper > 0.0:

@@ -2,7 +2,7 @@
 
 import dataclasses
 
-from .analysis import analyze
+from .analysis import analyze, fuel_burn_field
 from .config import load_config
 
 #: Fields whose percentage change is reported.
@@ -19,6 +19,8 @@ CHANGED = (
     'engines_mass_kg',
     'turbofan_fan_diameter_m',
     'cruise_drag_kN',
+    'economic_block_fuel_kg',
+    'economic_block_energy_MJ',
 )
 
 
@@ -35,16 +37,20 @@ class Comparison:
         The same configuration with the aft fan removed.
     change_percent : dict
         Field -> 100 (design - reference) / reference.
+    fuel_field : str
+        The field the fuel-burn change is measured on: the design mission's block fuel, or
+        the economic mission's when that is the optimisation objective.
     """
 
     design: object
     reference: object
     change_percent: dict
+    fuel_field: str = 'block_fuel_kg'
 
     @property
     def fuel_burn_change_percent(self):
-        """float: Block-fuel change of the design versus the reference, in percent."""
-        return self.change_percent['block_fuel_kg']
+        """float: Fuel-burn change of the design versus the reference, in percent."""
+        return self.change_percent[self.fuel_field]
 
     def to_dict(self):
         """
@@ -60,6 +66,7 @@ class Comparison:
             'reference': self.reference.to_dict(),
             'change_percent': dict(self.change_percent),
             'fuel_burn_change_percent': self.fuel_burn_change_percent,
+            'fuel_burn_measured_on': self.fuel_field,
         }
 
 
@@ -80,7 +87,7 @@ def percent_changes(design_values, reference_values):
     return {
         key: 100.0 * (design_values[key] - reference_values[key]) / reference_values[key]
         for key in CHANGED
-        if reference_values[key] != 0.0
+        if key in reference_values and reference_values[key] != 0.0
     }
 
 
@@ -110,7 +117,8 @@ def compare(config=None, overrides=None, optimized=False):
         return _compare_optima(config)
     design = analyze(config, keep_problem=False)
     reference = analyze(config.without_aft_fan(), keep_problem=False)
-    return Comparison(design, reference, percent_changes(design.values, reference.values))
+    changes = percent_changes(design.values, reference.values)
+    return Comparison(design, reference, changes, fuel_burn_field(config))
 
 
 def _compare_optima(config):
@@ -125,4 +133,5 @@ def _compare_optima(config):
             raise OptimizationError(f'optimising {cfg.name!r} failed: {opt.message}')
         results.append(AnalysisResult(cfg.name, True, opt.outputs, 0, None))
     design, reference = results
-    return Comparison(design, reference, percent_changes(design.values, reference.values))
+    changes = percent_changes(design.values, reference.values)
+    return Comparison(design, reference, changes, fuel_burn_field(config))

@@ -11,7 +11,7 @@ import math
 
 import numpy as np
 
-from .analysis import analyze
+from .analysis import analyze, fuel_burn_field
 from .batch import analyze_points, full_factorial
 from .config import field_at, load_config, parse_quantity
 from .errors import ConfigError
@@ -95,17 +95,23 @@ def _reference(config):
     return ref.values
 
 
-def _rows(batch, reference):
+def _point_fields(config):
+    """Return the study fields of a design: POINT_FIELDS, and the economic fuel if flown."""
+    extra = ['economic_block_fuel_kg'] if config.has_economic_mission else []
+    return list(POINT_FIELDS) + extra
+
+
+def _rows(batch, reference, field='block_fuel_kg'):
     rows = []
-    ref_fuel = reference['block_fuel_kg']
+    ref_fuel = reference[field]
     size = len(batch.closed)
     for i in range(size):
         row = {path: float(col[i]) for path, col in batch.inputs.items()}
         row['closed'] = bool(batch.closed[i])
         row['reason'] = batch.reasons[i] or ''
-        for key in POINT_FIELDS:
+        for key in batch.values:
             row[key] = float(batch.values[key][i])
-        fuel = row['block_fuel_kg']
+        fuel = row[field]
         row['fuel_burn_change_percent'] = (
             100.0 * (fuel - ref_fuel) / ref_fuel if row['closed'] else float('nan')
         )
@@ -132,12 +138,13 @@ def design_space_map(config, axes):
         ``closure_rate`` and ``recovered`` (points closed by continuation).
     """
     config = load_config(config)
-    batch = analyze_points(config, full_factorial(axes), list(POINT_FIELDS))
+    batch = analyze_points(config, full_factorial(axes), _point_fields(config))
     reference = _reference(config)
     return {
         'kind': 'map',
         'axes': {p: [float(v) for v in vals] for p, vals in axes.items()},
-        'points': _rows(batch, reference),
+        'points': _rows(batch, reference, fuel_burn_field(config)),
+        'fuel_burn_measured_on': fuel_burn_field(config),
         'reference': reference,
         'closure_rate': batch.closure_rate,
         'recovered': batch.recovered,
@@ -227,9 +234,9 @@ def monte_carlo(config, distributions, samples=1000, seed=1):
             source=config.source,
         )
     columns = sample_distributions(distributions, samples, seed)
-    batch = analyze_points(config, columns, list(POINT_FIELDS))
+    batch = analyze_points(config, columns, _point_fields(config))
     reference = _reference(config)
-    rows = _rows(batch, reference)
+    rows = _rows(batch, reference, fuel_burn_field(config))
     change = np.array([r['fuel_burn_change_percent'] for r in rows if r['closed']])
     stats = {}
     if change.size:
@@ -275,6 +282,7 @@ def points_csv(rows, units=None):
     columns = list(rows[0])
     units = {
         **POINT_FIELDS,
+        'economic_block_fuel_kg': 'kg',
         'fuel_burn_change_percent': '%',
         **{c: (field_at(c).units or '-') for c in columns if field_at(c) is not None},
         **(units or {}),

@@ -14,7 +14,7 @@ import itertools
 import math
 import numbers
 
-from .analysis import build_model_problem
+from .analysis import build_model_problem, fuel_burn_field
 from .config import field_at, load_config
 from .errors import ConfigError
 from .parallel import map_jobs
@@ -29,6 +29,7 @@ ROW_FIELDS = (
     'electrical_mass_kg',
     'aft_fan_mass_kg',
     'engines_mass_kg',
+    'economic_block_fuel_kg',
 )
 
 
@@ -283,8 +284,9 @@ def _row(point, cfg, res, reference, ref_index):
     row['active_constraints'] = list(res['active']) if ok else []
     row['evaluations'] = res['evaluations']
     row['reference'] = ref_index
-    ref_fuel = (
-        reference['outputs'].get('block_fuel_kg', math.nan) if reference['success'] else math.nan
-    )
-    row['fuel_burn_change_percent'] = 100.0 * (row['block_fuel_kg'] - ref_fuel) / ref_fuel
+    field = fuel_burn_field(cfg)
+    ref_fuel = reference['outputs'].get(field, math.nan) if reference['success'] else math.nan
+    fuel = res['outputs'].get(field, math.nan) if ok else math.nan
+    row['fuel_burn_change_percent'] = 100.0 * (fuel - ref_fuel) / ref_fuel
+    row['fuel_burn_measured_on'] = field
     return row
