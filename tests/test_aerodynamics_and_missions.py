@@ -148,3 +148,33 @@ def test_fuel_burn_follows_an_economic_objective():
     assert comparison.to_dict()['fuel_burn_measured_on'] == 'economic_block_fuel_kg'
     block = compare(TURBO_ELECTRIC)
     assert block.fuel_burn_change_percent == pytest.approx(block.change_percent['block_fuel_kg'])
+
+
+def test_cruise_mach_and_altitude_as_design_variables():
+    # Block fuel alone does not price time: with the wave drag the optimiser slows down to
+    # its lowest allowed Mach number, where the wing needs no sweep and the engines prefer a
+    # low fan pressure ratio; the altitude is interior, held by the buffet margin.
+    from voltwake.optimization import optimize
+
+    data = copy.deepcopy(load_config(TURBO_ELECTRIC).without_aft_fan().data)
+    spec = data['optimization']
+    spec['design_variables'] = {
+        k: v
+        for k, v in spec['design_variables'].items()
+        if not k.startswith(('aft_fan', 'electrical'))
+    }
+    spec['design_variables']['mission.cruise_altitude'] = {'lower': '25000 ft', 'upper': '41000 ft'}
+    spec['design_variables']['mission.cruise_mach'] = {'lower': 0.70, 'upper': 0.85}
+    spec['constraints'] = {
+        k: v
+        for k, v in spec['constraints'].items()
+        if not k.startswith(('aft_fan', 'motor', 'cable'))
+    }
+    result = optimize(load_config(data))
+    assert result.success, result.message
+    design = result.design
+    assert design['mission.cruise_mach']['value'] == pytest.approx(0.70, abs=1e-6)
+    assert design['wing.sweep']['active']
+    assert not design['mission.cruise_altitude']['active']
+    assert result.constraints['buffet_margin']['active']
+    assert result.outputs['wave_drag_coefficient'] < 1e-4
