@@ -1,4 +1,4 @@
-"""Zero-lift drag area of lifting surfaces (tails) by component build-up."""
+"""Zero-lift drag area of lifting surfaces (wing and tails) by component build-up."""
 
 import numpy as np
 
@@ -17,7 +17,7 @@ WETTED_SLOPE = 0.52
 
 class LiftingSurfaceDragComp(PointwiseComponent):
     r"""
-    Zero-lift drag area of one or more identical lifting surfaces (horizontal or vertical tail).
+    Zero-lift drag area of one or more identical lifting surfaces (wing or tails).
 
     Component build-up: drag area = n cf FF Q S_wet (Raymer, Aircraft Design: A Conceptual
     Approach, parasite drag chapter, component build-up method; from memory). The Reynolds
@@ -39,8 +39,9 @@ class LiftingSurfaceDragComp(PointwiseComponent):
 
         S_{wet} = S \left(1.977 + 0.52 \frac{t}{c}\right)
 
-    with the exposed planform taken equal to the reference planform S (a tail has no
-    fuselage-covered part in its reference area, common practice). Form factor (Raymer,
+    with S the exposed planform: the reference planform of a tail (it has no
+    fuselage-covered part in its reference area, common practice), the exposed planform of
+    the wing (``ExposedWingComp``). Form factor (Raymer,
     parasite drag chapter, wing, tail, strut and pylon form factor; from memory):
 
     .. math::

@@ -393,10 +393,10 @@ class SizingOptimizeDriver(om.ScipyOptimizeDriver):
                 closed = False
             finally:
                 newton.options['solve_subsystems'] = True
-            branch = jacobian_sign(loop.linear_solver)
-            if self._branch is None:
-                self._branch = branch
-            elif closed and branch != self._branch:
+            branch = jacobian_sign(loop.linear_solver) if closed else 0
+            if closed and self._branch is None and branch:
+                self._branch = branch  # the root of the first closed evaluation
+            elif closed and branch and branch != self._branch:
                 # The mass balance has a second, heavy root: an aircraft so heavy that it
                 # flies far up its drag polar and needs the extra fuel that makes it heavy
                 # (there, adding payload would lower MTOW: a negative growth factor). The

@@ -249,6 +249,7 @@ def monte_carlo(config, distributions, samples=1000, seed=1):
         }
     return {
         'kind': 'montecarlo',
+        'fuel_burn_measured_on': fuel_burn_field(config),
         'samples': samples,
         'seed': seed,
         'distributions': distributions,
