@@ -77,7 +77,7 @@ def main():
     # the tail cone), so that every optimisation has a feasible design.
     targets = {
         'aft_fan.fan_pressure_ratio': [1.15, 1.2, 1.25],
-        'aft_fan.thrust_fraction': [0.18, 0.22, 0.26],
+        'aft_fan.thrust_fraction': [0.22, 0.26, 0.30],
     }
     t0 = time.perf_counter()
     serial = target_sweep(None, targets, jobs=1)

@@ -14,6 +14,7 @@ from openmdao.core.analysis_error import AnalysisError
 
 from .analysis import (
     AFT_FAN_FIELDS,
+    ECONOMIC_FIELDS,
     FIELDS,
     build_model_problem,
     closure_reasons,
@@ -279,6 +280,8 @@ def analyze_points(config, columns, field_names=None):
     targets, size = _targets(config, columns)
     aft = config.has_aft_fan
     names = field_names or list(FIELDS) + list(AFT_FAN_FIELDS)
+    if field_names is None and config.has_economic_mission:
+        names = names + list(ECONOMIC_FIELDS)
     prob, base = _setup(config, targets, size)
     every = np.ones(size, dtype=bool)
     _set(prob, targets, np.ones(size), base, every)
