@@ -956,3 +956,62 @@ def test_the_space_between_number_and_unit_may_be_left_out(text, expected):
 def test_a_glued_unit_is_still_checked():
     err = config_error(TURBO, {'electrical.motor.specific_power': '2kg'})
     assert "unit 'kg' cannot be converted to W/kg" in err.message
+
+
+# --- bare numbers: a missing unit -------------------------------------------------------
+
+
+@pytest.mark.parametrize(
+    'section, key, new, path, likely',
+    [
+        ('mission', 'range', 'range: 1500', 'mission.range', "'1500 nmi'"),
+        ('reserves', 'hold_time', 'hold_time: 30', 'reserves.hold_time', "'30 min'"),
+        ('fuel', 'heating_value', 'heating_value: 43.1', 'fuel.heating_value', "'43.1 MJ/kg'"),
+        (
+            'turbofans',
+            'core_specific_power',
+            'core_specific_power: 11.5',
+            'turbofans.core_specific_power',
+            "'11.5 kW/kg'",
+        ),
+    ],
+)
+def test_a_bare_number_outside_its_plausible_range_is_refused(
+    tmp_path, section, key, new, path, likely
+):
+    text, line = set_line(demo_text(), section, key, new)
+    file = write(tmp_path, text)
+    err = config_error(file)
+    assert_points_at(err, file, line, path)
+    assert 'did you forget the unit?' in err.message and likely in err.message
+    assert 'with no unit' in err.message
+
+
+def test_a_bare_number_inside_its_range_and_zero_are_taken_as_si():
+    config = load_config(
+        TURBO, {'mission.range': 2.778e6, 'reserves.hold_time': 1800, 'reserves.diversion_range': 0}
+    )
+    assert config.value('mission.range') == 2.778e6
+    assert config.value('reserves.hold_time') == 1800.0
+    assert config.value('reserves.diversion_range') == 0.0
+    # with its unit written, a value is held to the physical check only
+    assert load_config(TURBO, {'reserves.hold_time': '1 min'}).value('reserves.hold_time') == 60.0
+
+
+def test_a_bare_number_is_checked_on_the_command_line_and_in_bounds_and_axes():
+    err = config_error(TURBO, ['mission.range=1500'])
+    assert err.source == '--set' and 'did you forget the unit?' in err.message
+    from voltwake.optimization import build_problem
+    from voltwake.studies import parse_axis
+
+    data = load_config(TURBO).data
+    data['optimization']['design_variables']['electrical.cable.voltage'] = {
+        'lower': 0.54,
+        'upper': 3,
+    }
+    with pytest.raises(ConfigError, match='did you forget the unit'):
+        build_problem(data)
+    with pytest.raises(ConfigError, match='did you forget the unit'):
+        parse_axis('electrical.motor.specific_power=2:20:5')
+    path, lower, upper, count = parse_axis('electrical.motor.specific_power=2kW/kg:20kW/kg:5')
+    assert (lower, upper, count) == (2000.0, 20000.0, 5)

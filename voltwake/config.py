@@ -23,8 +23,10 @@ from openmdao.utils.units import convert_units, is_compatible, valid_units
 
 from .errors import ConfigError
 from .schema import (
+    BARE_NUMBER_RANGES,
     CONDUCTORS,
     DEFAULTED_SECTIONS,
+    LIKELY_UNITS,
     OPTIONAL_SECTIONS,
     REQUIRED,
     RETIRED_KEYS,
@@ -367,11 +369,13 @@ def _to_float(value, where):
     return out
 
 
-def parse_quantity(value, units, where):
+def parse_quantity(value, units, where, key=None, check_bare=True):
     """
     Convert a bare number (SI) or a ``"number unit"`` string to SI ``units``.
 
-    The space between number and unit may be left out (``"2kW/kg"``).
+    The space between number and unit may be left out (``"2kW/kg"``). A bare number (no unit
+    written) for a key with a plausible range (:data:`voltwake.schema.BARE_NUMBER_RANGES`)
+    must lie in that range or be zero.
 
     Parameters
     ----------
@@ -381,12 +385,49 @@ def parse_quantity(value, units, where):
         SI units to convert to.
     where : dict
         Keyword arguments for :class:`ConfigError` (source, line, path).
+    key : str or None
+        The config key the value is for (default: ``where['path']``).
+    check_bare : bool
+        Apply the plausible range of a bare number (the caller may do it after its own
+        physical checks).
 
     Returns
     -------
     float
         The value in ``units``.
     """
+    number = _parse_quantity(value, units, where)
+    if check_bare and _is_bare(value):
+        _check_bare(number, units, key or where.get('path'), value, where)
+    return number
+
+
+def _is_bare(value):
+    """Return True when a quantity was written without a unit."""
+    if not isinstance(value, str):
+        return True
+    glued = _NUMBER_AND_UNIT.fullmatch(value.strip())
+    unit = glued.group(2) if glued else value.strip().partition(' ')[2]
+    return not unit.strip()
+
+
+def _check_bare(number, units, key, value, where):
+    """Refuse a bare number outside the plausible range of its key."""
+    bounds = BARE_NUMBER_RANGES.get(key)
+    if bounds is None or number == 0.0 or bounds[0] <= number <= bounds[1]:
+        return
+    lo, hi = bounds
+    unit = LIKELY_UNITS.get(key, units)
+    raise ConfigError(
+        f'got {_show(value)} with no unit (read as {number:g} {units}); expected a value '
+        f"with its unit, e.g. '{value} {unit}', or a bare number from {lo:g} to {hi:g} "
+        f'{units}: did you forget the unit?',
+        **where,
+    )
+
+
+def _parse_quantity(value, units, where):
+    """Convert ``value`` to ``units`` (see :func:`parse_quantity`)."""
     expect = f"a number in {units} or a string with units such as '12 {units}'"
     if isinstance(value, str):
         text = value.strip()
@@ -422,7 +463,7 @@ def _suggest(key, known):
 def _check_field(field, value, where):
     raw = value
     if field.kind == 'quantity':
-        value = parse_quantity(value, field.units, where)
+        value = parse_quantity(value, field.units, where, check_bare=False)
     elif field.kind == 'number':
         if isinstance(value, bool) or not isinstance(value, numbers.Real):
             raise ConfigError(f'got {_show(value)}; expected a number ({field.doc})', **where)
@@ -458,6 +499,8 @@ def _check_field(field, value, where):
             elif field.units:
                 shown += f' {field.units}'
             raise ConfigError(f'got {shown}; expected {expect} ({field.doc})', **where)
+    if field.kind == 'quantity' and _is_bare(raw):
+        _check_bare(value, field.units, where.get('path'), raw, where)
     return value
 
 

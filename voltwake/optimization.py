@@ -178,7 +178,7 @@ def design_variables(config, model_inputs):
             )
         units = field.units
         vals = {
-            key: (parse_quantity(val, units, where) if units else _number(val, where))
+            key: (parse_quantity(val, units, where, key=path) if units else _number(val, where))
             for key, val in bounds.items()
         }
         if not vals['lower'] < vals['upper']:

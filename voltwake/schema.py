@@ -486,6 +486,72 @@ SECTIONS['electrical'] = {
     },
 }
 
+#: Plausible range (SI, inclusive) of a dimensional key written as a bare number. A bare
+#: number is read in the key's SI unit; outside this range (zero excepted) it is far more
+#: likely a value whose unit was left out ("range: 1500" meant in nmi, "hold_time: 30" in
+#: minutes) than a design, so it is refused with "did you forget the unit?". A value with
+#: its unit written is never held to these ranges, only to the key's physical check.
+BARE_NUMBER_RANGES = {
+    'mission.range': (50.0e3, 25.0e6),
+    'mission.payload': (100.0, 300.0e3),
+    'mission.cruise_altitude': (300.0, 20.0e3),
+    'economic_mission.range': (50.0e3, 25.0e6),
+    'economic_mission.payload': (100.0, 300.0e3),
+    'reserves.diversion_range': (10.0e3, 2.0e6),
+    'reserves.hold_time': (300.0, 4.0 * 3600.0),
+    'fuel.heating_value': (5.0e6, 1.5e8),
+    'wing.area': (5.0, 2000.0),
+    'wing.loading': (50.0, 1500.0),
+    'wing.sweep': (0.0, 1.4),
+    'fuselage.diameter': (0.5, 12.0),
+    'structure.mass_per_passenger': (50.0, 200.0),
+    'structure.furnishings_per_passenger': (5.0, 300.0),
+    'structure.operating_items_per_passenger': (2.0, 100.0),
+    'turbofans.fan_areal_mass': (20.0, 5000.0),
+    'turbofans.core_specific_power': (500.0, 100.0e3),
+    'turbofans.nacelle_areal_mass': (1.0, 500.0),
+    'aft_fan.fan_areal_mass': (20.0, 5000.0),
+    'aft_fan.nacelle_areal_mass': (1.0, 500.0),
+    'performance.residual_climb_rate': (0.1, 20.0),
+    'performance.motor_power_limit': (10.0e3, 100.0e6),
+    'electrical.generator.specific_power': (100.0, 200.0e3),
+    'electrical.rectifier.specific_power': (100.0, 200.0e3),
+    'electrical.inverter.specific_power': (100.0, 200.0e3),
+    'electrical.motor.specific_power': (100.0, 200.0e3),
+    'electrical.cable.voltage': (24.0, 100.0e3),
+    'electrical.cable.length': (0.5, 500.0),
+    'electrical.cable.current_density_limit': (1.0e5, 1.0e8),
+    'electrical.cable.dielectric_strength': (1.0e5, 1.0e10),
+    'electrical.cable.insulation_density': (100.0, 5000.0),
+    'electrical.cable.discharge_gap': (1.0e-6, 0.1),
+    'electrical.thermal.specific_mass': (1.0e-6, 0.05),
+    'electrical.thermal.drag_per_power': (1.0e-5, 0.05),
+}
+
+#: The unit a user most likely meant for a bare number, shown in the "did you forget the
+#: unit?" message (keys not listed show their SI unit).
+LIKELY_UNITS = {
+    'mission.range': 'nmi',
+    'economic_mission.range': 'nmi',
+    'reserves.diversion_range': 'nmi',
+    'reserves.hold_time': 'min',
+    'mission.cruise_altitude': 'ft',
+    'fuel.heating_value': 'MJ/kg',
+    'wing.sweep': 'deg',
+    'turbofans.core_specific_power': 'kW/kg',
+    'performance.residual_climb_rate': 'ft/min',
+    'performance.motor_power_limit': 'MW',
+    'electrical.generator.specific_power': 'kW/kg',
+    'electrical.rectifier.specific_power': 'kW/kg',
+    'electrical.inverter.specific_power': 'kW/kg',
+    'electrical.motor.specific_power': 'kW/kg',
+    'electrical.cable.current_density_limit': 'A/mm**2',
+    'electrical.cable.dielectric_strength': 'kV/mm',
+    'electrical.cable.discharge_gap': 'mm',
+    'electrical.thermal.specific_mass': 'kg/kW',
+    'electrical.thermal.drag_per_power': 'N/kW',
+}
+
 #: Keys that older configs may hold and that are no longer read: path -> why.
 RETIRED_KEYS = {
     'reserves.hold_speed': 'the hold is flown at the cruise TSFC and lift-to-drag ratio '

@@ -66,7 +66,7 @@ def parse_axis(text, count_required=True):
             **where,
         )
     lower, upper = (
-        parse_quantity(p.strip(), field.units, where) if field.units else _float(p, where)
+        parse_quantity(p.strip(), field.units, where, key=path) if field.units else _float(p, where)
         for p in parts[:2]
     )
     count = None
@@ -192,7 +192,7 @@ def sample_distributions(distributions, samples, seed):
                 **where,
             )
         vals = [
-            parse_quantity(p, field.units, where) if field.units else _float(p, where)
+            parse_quantity(p, field.units, where, key=path) if field.units else _float(p, where)
             for p in params
         ]
         if vals != sorted(vals) or vals[0] == vals[-1]:
