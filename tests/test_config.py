@@ -1015,3 +1015,46 @@ def test_a_bare_number_is_checked_on_the_command_line_and_in_bounds_and_axes():
         parse_axis('electrical.motor.specific_power=2:20:5')
     path, lower, upper, count = parse_axis('electrical.motor.specific_power=2kW/kg:20kW/kg:5')
     assert (lower, upper, count) == (2000.0, 20000.0, 5)
+
+
+# --- packaged demos by name and the optimisation section's checks ------------------------
+
+
+def test_demos_load_by_name():
+    from voltwake.config import demo_names
+
+    assert demo_names() == ['demo_conventional', 'demo_turbo_electric']
+    assert load_config('demo_conventional').source == demo_path('conventional')
+    assert load_config('demo_turbo_electric').has_aft_fan
+    err = config_error('demo_conventinal')
+    assert "did you mean 'demo_conventional'?" in err.message
+    assert 'demo_turbo_electric' in err.message
+
+
+def test_a_misspelt_design_variable_gets_its_line_and_a_suggestion(tmp_path):
+    lines = demo_text().splitlines()
+    index = next(i for i, s in enumerate(lines) if s.strip().startswith('wing.aspect_ratio:'))
+    lines[index] = lines[index].replace('wing.aspect_ratio', 'wing.aspect_ratoi')
+    file = write(tmp_path, '\n'.join(lines) + '\n')
+    from voltwake.optimization import build_problem
+
+    with pytest.raises(ConfigError) as info:
+        build_problem(file)
+    err = info.value
+    assert_points_at(err, file, index + 1, 'optimization.design_variables.wing.aspect_ratoi')
+    assert "did you mean 'wing.aspect_ratio'?" in err.message
+
+
+def test_both_demos_optimise():
+    from voltwake.optimization import optimize
+
+    result = optimize('demo_conventional')
+    assert result.success, result.message
+    assert set(result.design) == {
+        'wing.loading',
+        'wing.aspect_ratio',
+        'wing.sweep',
+        'wing.thickness_to_chord',
+        'turbofans.fan_pressure_ratio',
+        'turbofans.rated_to_cruise_thrust',
+    }

@@ -107,11 +107,30 @@ class Config:
         Where it came from.
     """
 
-    def __init__(self, data, values, origins, source):
+    def __init__(self, data, values, origins, source, lines=None, overridden=()):
         self.data = data
         self.values = values
         self.origins = origins
         self.source = source
+        self._lines = dict(lines or {})
+        self._overridden_paths = set(overridden)
+
+    def where(self, parts):
+        """
+        Return the :class:`ConfigError` keywords (source, line, path) of a key as written.
+
+        Parameters
+        ----------
+        parts : tuple of str
+            The key's path as written in the file, one entry per mapping level (a design
+            variable's name, itself a dotted path, is one entry).
+
+        Returns
+        -------
+        dict
+            ``source``, ``line`` and ``path`` for :class:`ConfigError`.
+        """
+        return _where(tuple(parts), self._lines, self.source, self._overridden_paths)
 
     @property
     def name(self):
@@ -289,6 +308,30 @@ def absent_input_hint(config, path):
     if path.split('.')[0] in ('aft_fan', 'electrical') and not config.has_aft_fan:
         return '; this design has no aft fan'
     return ''
+
+
+def input_paths():
+    """
+    Return every config key path that feeds a model input (a design-variable candidate).
+
+    Returns
+    -------
+    list of str
+        Dotted key paths.
+    """
+    out = []
+
+    def walk(node, prefix):
+        for key, value in node.items():
+            path = f'{prefix}.{key}' if prefix else key
+            if isinstance(value, Field):
+                if value.target:
+                    out.append(path)
+            elif isinstance(value, dict):
+                walk(value, path)
+
+    walk(SECTIONS, '')
+    return out
 
 
 def field_at(path):
@@ -636,7 +679,7 @@ def _validate(data, source, lines, overrides, overridden=()):
         )
     _check_wing(data, values, lines, source, overridden)
     _check_structure(values, lines, source, overridden)
-    return Config(data, values, origins, source)
+    return Config(data, values, origins, source, lines, overridden)
 
 
 def _check_structure(values, lines, source, overridden):
@@ -683,8 +726,9 @@ def load_config(path_or_dict=None, overrides=None):
     Parameters
     ----------
     path_or_dict : str, os.PathLike, dict, Config or None
-        A YAML file, an already parsed mapping, a Config, or None for the packaged
-        turbo-electric demo.
+        A YAML file, the name of a packaged demo (``'demo_conventional'``,
+        ``'demo_turbo_electric'``; see :func:`demo_names`), an already parsed mapping, a
+        Config, or None for the packaged turbo-electric demo.
     overrides : dict or list of str or None
         Dotted key path -> value (or ``"key.path=value"`` strings) applied before validation.
 
@@ -699,8 +743,27 @@ def load_config(path_or_dict=None, overrides=None):
         path_or_dict = demo_path('turbo_electric')
     if isinstance(path_or_dict, dict):
         return _validate(copy.deepcopy(path_or_dict), '<dict>', {}, overrides)
+    path_or_dict = resolve_source(path_or_dict)
     data, lines = read_yaml_file(path_or_dict)
     return _validate(data, os.fspath(path_or_dict), lines, overrides)
+
+
+def demo_names():
+    """
+    Return the names of the packaged demo configurations.
+
+    Returns
+    -------
+    list of str
+        Names such as 'demo_conventional', usable wherever a config path is.
+    """
+    from importlib import resources
+
+    return sorted(
+        entry.name.removesuffix('.yaml')
+        for entry in resources.files('voltwake.configs').iterdir()
+        if entry.name.startswith('demo_') and entry.name.endswith('.yaml')
+    )
 
 
 def demo_path(name='turbo_electric'):
@@ -710,7 +773,8 @@ def demo_path(name='turbo_electric'):
     Parameters
     ----------
     name : str
-        'turbo_electric' or 'conventional'.
+        A demo name with or without its 'demo_' prefix ('demo_conventional',
+        'conventional', 'demo_turbo_electric', 'turbo_electric').
 
     Returns
     -------
@@ -719,12 +783,42 @@ def demo_path(name='turbo_electric'):
     """
     from importlib import resources
 
-    path = resources.files('voltwake.configs') / f'demo_{name}.yaml'
+    stem = name if name.startswith('demo_') else f'demo_{name}'
+    path = resources.files('voltwake.configs') / f'{stem}.yaml'
     if not path.is_file():
         raise ConfigError(
-            f"no packaged demo named {name!r}; expected 'turbo_electric' or 'conventional'"
+            f"no packaged demo named {name!r}; expected one of {', '.join(demo_names())}"
         )
     return str(path)
+
+
+def resolve_source(source):
+    """
+    Return the file a configuration source names: a path, or a packaged demo's name.
+
+    Parameters
+    ----------
+    source : str or os.PathLike
+        A YAML file path, or a demo name such as 'demo_conventional'.
+
+    Returns
+    -------
+    str or os.PathLike
+        The path to read.
+    """
+    text = os.fspath(source)
+    if os.path.exists(text) or not isinstance(text, str):
+        return source
+    if text in demo_names():
+        return demo_path(text)
+    looks_like_name = os.sep not in text and not text.endswith(('.yaml', '.yml'))
+    if looks_like_name:
+        hint = _suggest(text, demo_names())
+        raise ConfigError(
+            f"no such file or packaged demo{hint}; demos: {', '.join(demo_names())}",
+            source=text,
+        )
+    return source
 
 
 def parse_yaml_text(text, source='<string>'):

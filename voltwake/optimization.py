@@ -26,7 +26,7 @@ from .analysis import (
     run_sizing,
     set_model_inputs,
 )
-from .config import absent_input_hint, field_at, load_config, parse_quantity
+from .config import absent_input_hint, field_at, input_paths, load_config, parse_quantity
 from .errors import ConfigError, InterruptedRun, NotClosedError
 
 #: Objective shortcuts -> promoted model output.
@@ -128,8 +128,13 @@ class Constraint:
 
 
 def _where(config, path):
-    line = config.origins_lines().get(tuple(path.split('.')))
-    return {'source': config.source, 'line': line, 'path': path}
+    head = 'optimization.design_variables.'
+    if path.startswith(head):  # a design variable's name is itself a dotted key path
+        return config.where(('optimization', 'design_variables', path[len(head) :]))
+    head = 'optimization.constraints.'
+    if path.startswith(head):
+        return config.where(('optimization', 'constraints', path[len(head) :]))
+    return config.where(tuple(path.split('.')))
 
 
 def design_variables(config, model_inputs):
@@ -155,8 +160,10 @@ def design_variables(config, model_inputs):
         where = _where(config, f'optimization.design_variables.{path}')
         field = field_at(path)
         if field is None or not field.target:
+            close = difflib.get_close_matches(path, input_paths(), n=1, cutoff=0.6)
+            hint = f" (did you mean '{close[0]}'?)" if close else ''
             raise ConfigError(
-                "not a configurable model input; expected a config key path such as "
+                f'not a configurable model input{hint}; expected a config key path such as '
                 "'wing.aspect_ratio'",
                 **where,
             )
