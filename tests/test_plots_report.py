@@ -2,7 +2,9 @@
 
 import base64
 import json
+import math
 import os
+import stat
 import struct
 import subprocess
 import sys
@@ -13,6 +15,7 @@ import pytest
 
 from voltwake import plots, report
 from voltwake.errors import ConfigError
+from voltwake.results_io import current_umask, write_atomic, write_results
 from voltwake.summary import CAUTION
 
 PNG_SIGNATURE = b'\x89PNG\r\n\x1a\n'  # PNG specification (ISO/IEC 15948), section 5.2
@@ -94,8 +97,14 @@ def test_fuel_map_without_sign_change_has_no_break_even(mpl, tmp_path):
     _assert_png(path)
     assert path.details['break_even_drawn'] is False
     assert path.details['failed_points'] == 0
-    assert min(path.details['levels']) == pytest.approx(change.min())
-    assert max(path.details['levels']) == pytest.approx(change.max())
+    # Round levels covering the values: 2.2 ... 4.6 in steps of 0.2 (the 1-2-2.5-5 series
+    # for about 12 bands: (4.6 - 2.2) / 12 = 0.2; hand value from round_levels' rule).
+    levels = path.details['levels']
+    assert levels[0] <= change.min() and levels[-1] >= change.max()
+    assert np.diff(levels) == pytest.approx(0.2)
+    # The colours are centred on zero even when every value is a penalty.
+    low, high = path.details['norm_limits']
+    assert low == pytest.approx(-high) and high >= change.max()
 
 
 def test_fuel_map_sign_change_only_at_failed_point_has_no_break_even(mpl, tmp_path):
@@ -184,17 +193,51 @@ def test_mass_breakdown_totals(mpl, tmp_path):
         'payload_kg': 15000.0,
         'total_fuel_kg': 12500.0,
     }  # no aft fan: 0
-    path = plots.plot_mass_breakdown(design, reference, str(tmp_path / 'masses.png'))
+    path = plots.plot_mass_breakdown(
+        {'reference': reference, 'design': design}, str(tmp_path / 'masses.png')
+    )
     _assert_png(path)
-    assert path.details['totals_kg'] == pytest.approx([66300.0, 64000.0])
+    # Drawn in the order given: the baseline first.
+    assert path.details['totals_kg'] == pytest.approx([64000.0, 66300.0])
+    assert path.details['labels'] == ['reference', 'design']
+    assert path.details['chain_panel'] is False  # no device masses to split
+
+
+def test_mass_breakdown_splits_the_chain_by_device(mpl, tmp_path):
+    devices = {
+        'generator_mass_kg': 175.0,
+        'rectifier_mass_kg': 82.0,
+        'cable_mass_kg': 283.0,
+        'inverter_mass_kg': 81.0,
+        'motor_mass_kg': 165.0,
+        'thermal_mass_kg': 149.0,
+    }
+    design = {
+        'airframe_mass_kg': 24000.0,
+        'engines_mass_kg': 4500.0,
+        'aft_fan_mass_kg': 755.0,
+        'electrical_mass_kg': sum(devices.values()),
+        'payload_kg': 12000.0,
+        'total_fuel_kg': 8800.0,
+        **devices,
+    }
+    start = {**design, 'airframe_mass_kg': 24500.0}
+    path = plots.plot_mass_breakdown({'start': start, 'optimum': design}, str(tmp_path / 'm.png'))
+    _assert_png(path)
+    assert path.details['chain_panel'] is True
+    assert path.details['labels'] == ['start', 'optimum']
+    with pytest.raises(ValueError, match='no designs'):
+        plots.plot_mass_breakdown({}, str(tmp_path / 'none.png'))
 
 
 def test_mass_breakdown_checks_mtow(mpl, tmp_path):
     design = {'airframe_mass_kg': 30000.0, 'payload_kg': 15000.0, 'total_fuel_kg': 12000.0}
     consistent = {**design, 'mtow_kg': 57000.0}
-    plots.plot_mass_breakdown(consistent, consistent, str(tmp_path / 'ok.png'))
+    plots.plot_mass_breakdown({'a': consistent, 'b': consistent}, str(tmp_path / 'ok.png'))
     with pytest.raises(ValueError, match='mtow_kg'):
-        plots.plot_mass_breakdown({**design, 'mtow_kg': 58000.0}, design, str(tmp_path / 'bad.png'))
+        plots.plot_mass_breakdown(
+            {'a': {**design, 'mtow_kg': 58000.0}, 'b': design}, str(tmp_path / 'bad.png')
+        )
 
 
 def test_power_flow_closed_balance(mpl, tmp_path):
@@ -303,9 +346,98 @@ def test_plots_leave_pyplot_state_alone(mpl, tmp_path):
 
 def test_missing_matplotlib_is_a_config_error(monkeypatch, tmp_path):
     monkeypatch.setitem(sys.modules, 'matplotlib.backends.backend_agg', None)
-    with pytest.raises(ConfigError, match=r"pip install 'voltwake\[plot\]'") as err:
+    with pytest.raises(ConfigError, match='plots need matplotlib, a dependency') as err:
         plots.plot_line([0.0, 1.0], {'a': [0.0, 1.0]}, 'x', 'y', str(tmp_path / 'a.png'))
     assert err.value.exit_code == 2
+
+
+def test_round_levels_hand_values():
+    # Rule: step = the first of 1, 2, 2.5, 5, 10 times a power of ten at or above
+    # (high - low) / 12; levels are whole multiples of it (hand values below).
+    assert list(plots.round_levels(2.16, 16.3)) == list(range(2, 20, 2))  # 14.14/12 -> 2
+    levels = plots.round_levels(-0.37, 0.52)  # 0.89/12 = 0.074 -> 0.1
+    assert levels == pytest.approx(np.round(np.arange(-4, 7) * 0.1, 6))
+    assert 0.0 in list(levels)  # zero is a level whenever the range spans it
+    assert plots.round_levels(3.0, 3.0)[0] <= 3.0 <= plots.round_levels(3.0, 3.0)[-1]
+
+
+def test_fuel_map_centred_on_zero_with_round_levels(mpl, tmp_path):
+    x, y, gx, gy = _grid(nx=30, ny=20)
+    change = 10.0 * (gx - 0.3) + 0.3  # -0.7 ... +3.3: mostly a penalty
+    path = plots.plot_fuel_map(
+        x, y, change, np.ones_like(change, dtype=bool), 'x [-]', 'y [-]', str(tmp_path / 'f.png')
+    )
+    low, high = path.details['norm_limits']
+    assert low == pytest.approx(-high)  # white is 0 %, whatever the spread
+    step = np.diff(path.details['levels'])
+    assert step == pytest.approx(0.5)  # 4.0 / 12 = 0.33 -> 0.5
+    assert 0.0 in path.details['levels']
+    assert path.details['break_even_drawn'] is True
+
+
+def test_target_map_tells_infeasible_from_not_closed(mpl, tmp_path):
+    x, y, gx, gy = _grid()
+    change = gx - 0.4
+    closed = np.ones_like(change, dtype=bool)
+    closed[0, 0] = False  # the design did not close
+    feasible = np.ones_like(change, dtype=bool)
+    feasible[0, 0] = False
+    feasible[2, 2] = False  # closed, but no feasible optimum
+    change[2, 2] = np.nan
+    path = plots.plot_fuel_map(
+        x, y, change, closed, 'x', 'y', str(tmp_path / 't.png'), feasible=feasible
+    )
+    assert path.details['not_closed'] == 1
+    assert path.details['infeasible'] == 1
+    assert path.details['failed_points'] == 2
+
+
+def test_point_status_of_study_rows():
+    assert plots.point_status({'closed': True}) == plots.OK
+    assert plots.point_status({'closed': 'False'}) == plots.NOT_CLOSED  # from a CSV file
+    assert plots.point_status({'success': True, 'evaluations': 9}) == plots.OK
+    assert plots.point_status({'success': False, 'evaluations': 14.0}) == plots.INFEASIBLE
+    assert plots.point_status({'success': 'False', 'evaluations': 0}) == plots.NOT_CLOSED
+
+
+def test_line_marks_failed_points_never_drops_them(mpl, tmp_path):
+    x = np.array([0.1, 0.2, 0.3, 0.4])
+    change = np.array([1.0, np.nan, -0.5, np.nan])
+    status = [plots.OK, plots.INFEASIBLE, plots.OK, plots.NOT_CLOSED]
+    path = plots.plot_line(
+        x,
+        {'change': change},
+        'thrust fraction [-]',
+        'fuel-burn change [%]',
+        str(tmp_path / 'l.png'),
+        status=status,
+        zero_line='break-even (0 %)',
+        vertical=(0.25, 'break-even'),
+    )
+    _assert_png(path)
+    assert path.details['infeasible'] == 1 and path.details['not_closed'] == 1
+    # Without a status a non-finite value is a point that did not close.
+    plain = plots.plot_line(x, {'c': change}, 'x [-]', 'y [%]', str(tmp_path / 'p.png'))
+    assert plain.details['not_closed'] == 2
+    with pytest.raises(ValueError, match='status'):
+        plots.plot_line(x, {'c': change}, 'x', 'y', str(tmp_path / 'b.png'), status=['ok'])
+
+
+def test_histogram_counts_samples_that_did_not_close(mpl, tmp_path):
+    values = [-1.0, 2.0, 3.0, 0.5]
+    closed = [True, True, False, True]
+    path = plots.plot_histogram(values, str(tmp_path / 'h.png'), 'x [%]', 't', closed=closed)
+    assert path.details['samples'] == 3 and path.details['dropped'] == 1
+    assert path.details['share_below'] == pytest.approx(1.0 / 3.0)  # counted by hand
+
+
+def test_plots_follow_the_umask(mpl, tmp_path):
+    old = os.umask(0o027)
+    try:
+        path = plots.plot_line([0.0, 1.0], {'a': [0.0, 1.0]}, 'x', 'y', str(tmp_path / 'a.png'))
+    finally:
+        os.umask(old)
+    assert stat.S_IMODE(os.stat(path).st_mode) == 0o640
 
 
 # ---------------------------------------------------------------------------- report
@@ -332,113 +464,415 @@ def _read(path):
         return handle.read()
 
 
-def _results_dir(tmp_path):
-    folder = tmp_path / 'run'
+#: Invented demo configuration (only what the report reads).
+CONFIG = {
+    'aircraft': 'Demo <b>TE</b>',
+    'mission': {'range': '1500 nmi', 'payload': '12000 kg'},
+    'economic_mission': {'range': '600 nmi', 'payload': '10200 kg'},
+    'optimization': {
+        'objective': 'block_fuel',
+        'design_variables': {
+            'wing.loading': {'lower': '450 kg/m**2', 'upper': '750 kg/m**2'},
+            'aft_fan.fan_pressure_ratio': {'lower': 1.15, 'upper': 1.6},
+        },
+        'optimizer': {'method': 'SLSQP'},
+    },
+}
+
+
+def _outputs(block_fuel, aft=True):
+    """Invented demo result fields; a conventional design stores its aft-fan fields as 0/1."""
+    out = {
+        'airframe_mass_kg': 24000.0,
+        'engines_mass_kg': 4500.0,
+        'aft_fan_mass_kg': 750.0 if aft else 0.0,
+        'electrical_mass_kg': 900.0 if aft else 0.0,
+        'payload_kg': 12000.0,
+        'total_fuel_kg': block_fuel + 2500.0,
+        'block_fuel_kg': block_fuel,
+        'economic_block_fuel_kg': 0.5 * block_fuel,
+        'oew_kg': 24000.0 + 4500.0 + (1650.0 if aft else 0.0),
+        'wing_area_m2': 80.0,
+        'cruise_lift_to_drag': 18.0,
+        'aft_thrust_fraction': 0.2 if aft else 0.0,
+        'electrical_chain_efficiency': 0.91 if aft else 1.0,
+        'capture_height_m': 0.2 if aft else 0.0,
+        'aft_fan_hub_to_tip_margin': 0.0,
+        'buffet_margin': 0.05,
+    }
+    out['mtow_kg'] = out['oew_kg'] + out['payload_kg'] + out['total_fuel_kg']
+    return out
+
+
+def _optimisation_dir(tmp_path, rows=3, reference=True):
+    folder = tmp_path / 'opt'
     folder.mkdir()
-    (folder / 'fuel_map.png').write_bytes(_tiny_png(255, 0, 0))
+    (folder / 'mass_breakdown.png').write_bytes(_tiny_png(255, 0, 0))
     (folder / 'power-flow.png').write_bytes(_tiny_png(0, 0, 255))
     results = {
         'status': 'complete',
         'success': True,
-        'message': 'Optimization terminated',
-        'inputs': {
-            'name': '<script>alert(1)</script>',
-            'mission': {'range_m': 5.0e6, 'payload_kg': 15000.0},
-        },
+        'message': 'Optimization terminated successfully',
+        'objective': 'block_fuel',
+        'evaluations': rows,
+        'failed_points': 0,
+        'inputs': CONFIG,
         'design': {
-            'aft_fan.thrust_fraction': {
-                'value': 0.25,
-                'lower': 0.0,
-                'upper': 0.25,
+            'aft_fan.fan_pressure_ratio': {
+                'value': 1.15,
+                'lower': 1.15,
+                'upper': 1.6,
                 'units': None,
                 'active': True,
             },
-            'turbofan.fan_pressure_ratio': {
-                'value': 1.48,
-                'lower': 1.3,
-                'upper': 1.7,
-                'units': None,
+            'wing.loading': {
+                'value': 658.5,
+                'lower': 450.0,
+                'upper': 750.0,
+                'units': 'kg/m**2',
                 'active': False,
             },
         },
         'constraints': {
-            'takeoff_field_length': {
-                'value': 2500.0,
+            'wingspan': {
+                'value': 36.0,
                 'lower': None,
-                'upper': 2500.0,
+                'upper': 36.0,
                 'equals': None,
                 'units': 'm',
                 'active': True,
                 'violation': 0.0,
             },
-            'span': {
-                'value': 34.0,
+            'approach_speed': {
+                'value': 70.0,
                 'lower': None,
-                'upper': 36.0,
+                'upper': 72.0222,
                 'equals': None,
-                'units': 'm',
+                'units': 'm/s',
                 'active': False,
                 'violation': 0.0,
             },
+            'cable_voltage_margin': {
+                'value': 2.2e-16,
+                'lower': 0.0,
+                'upper': None,
+                'equals': None,
+                'units': None,
+                'active': True,
+                'violation': 0.0,
+            },
         },
-        'outputs': {'block_fuel_kg': 11234.5, 'mtow_kg': 70123.0},
+        'start': _outputs(7065.0),
+        'outputs': _outputs(6313.0),
         'history': [
             {
-                'evaluation': i,
-                'objective': 12000.0 - i,
+                'evaluation': i + 1,
+                'objective': 7065.0 - i,
                 'max_violation': 0.0,
                 'closed': True,
-                'design': {'aft_fan.thrust_fraction': 0.2},
+                'design': {'aft_fan.fan_pressure_ratio': 1.3, 'wing.loading': 600.0 + i + 0.5},
             }
-            for i in range(3)
+            for i in range(rows)
         ],
-        'points': [{'x': k + 0.5} for k in range(250)],
     }
     (folder / 'results.json').write_text(json.dumps(results, sort_keys=True))
+    if reference:
+        ref = {
+            'status': 'complete',
+            'role': 'optimised conventional reference',
+            'success': True,
+            'message': 'Optimization terminated successfully',
+            'evaluations': 20,
+            'outputs': _outputs(6062.0, aft=False),
+        }
+        (folder / 'reference_results.json').write_text(json.dumps(ref, sort_keys=True))
     return folder
 
 
-def test_report_embeds_images_and_tables(tmp_path):
-    folder = _results_dir(tmp_path)
-    out = report.write_report(str(folder))
-    assert out == os.path.join(str(folder), 'report.html')
-    text = _read(out)
-    for name in ('fuel_map.png', 'power-flow.png'):
+def _cells(text, label):
+    """Return the cell texts of the table row whose first cell is ``label``."""
+    import re
+
+    match = re.search(rf'<tr[^>]*><td>{re.escape(label)}</td>(.*?)</tr>', text)
+    assert match, label
+    return re.findall(r'<td[^>]*>(.*?)</td>', match.group(1))
+
+
+def test_report_opens_with_the_verdict(tmp_path):
+    text = _read(report.write_report(str(_optimisation_dir(tmp_path))))
+    verdict = text.index('id="verdict"')
+    # The verdict and the headline table come before every table of detail and figure.
+    assert verdict < text.index('<figure>') and verdict < text.index('class="compare"')
+    # 100 (6313 - 6062) / 6062 = +4.14 % (hand value)
+    assert 'burns 4.14 % more fuel</span> than the optimised reference' in text
+    assert text.count('<table class="headline">') == 1
+    assert 'block fuel of the design mission (1500 nmi, 12000 kg payload)' in text
+    assert 'held by 2 active constraints and 1 bound' in text  # the headline line
+    assert text.count(CAUTION) == 2
+    assert text.index(CAUTION) < verdict  # at the top ...
+    assert text.rindex(CAUTION) > text.rindex('<figure>')  # ... and at the bottom
+
+
+def test_report_puts_the_design_beside_its_reference(tmp_path):
+    text = _read(report.write_report(str(_optimisation_dir(tmp_path))))
+    header = 'start</th><th>optimum</th><th>optimised reference</th>'
+    assert header in text  # start before optimum, then the reference
+    # MTOW = OEW + payload + fuel (hand values): start 30150 + 12000 + 9565 = 51715 kg,
+    # optimum 30150 + 12000 + 8813 = 50963 kg, reference 28500 + 12000 + 8562 = 49062 kg;
+    # -752 / 51715 = -1.45 % and 1901 / 49062 = +3.87 %.
+    assert _cells(text, 'MTOW')[:6] == ['kg', '51,715', '50,963', '49,062', '-1.45 %', '+3.87 %']
+    # What the conventional reference has not is a dash, never its stored 0 or 1.
+    assert _cells(text, 'Chain efficiency')[3] == report.NONE
+    assert _cells(text, 'Aft fan')[3] == report.NONE
+    assert _cells(text, 'Capture height')[3] == report.NONE
+    for group in ('Masses', 'Fuel', 'Aerodynamics (cruise)', 'Propulsion', 'Electrical chain'):
+        assert f'>{group}</th></tr>' in text
+    assert '<tr class="key"><td>Block fuel, design mission</td>' in text  # the verdict's fuel
+
+
+def test_report_says_what_holds_the_optimum(tmp_path):
+    text = _read(report.write_report(str(_optimisation_dir(tmp_path))))
+    assert 'at its lower bound: the optimiser would take it lower if it could' in text
+    assert 'the span limit (36 m)' in text
+    assert 'the partial-discharge limit of the bus voltage' in text
+    assert '2.2e-16' not in text and '2.22e-16' not in text  # shown as 0 at the limit
+    assert '140 kn' in text  # an approach-speed limit in m/s is shown in knots
+    assert 'free: set by the objective' in text
+
+
+def test_report_without_a_reference_compares_with_the_start(tmp_path):
+    text = _read(report.write_report(str(_optimisation_dir(tmp_path, reference=False))))
+    # 100 (6313 - 7065) / 7065 = -10.64 % (hand value)
+    assert 'burns 10.64 % less fuel</span> than its start' in text
+    assert 'no optimised reference in this directory' in text
+
+
+def test_report_is_self_contained_and_prints(tmp_path):
+    folder = _optimisation_dir(tmp_path)
+    text = _read(report.write_report(str(folder)))
+    for name in ('mass_breakdown.png', 'power-flow.png'):
         data = base64.b64encode((folder / name).read_bytes()).decode('ascii')
         assert f'src="data:image/png;base64,{data}"' in text
-    assert '<figcaption>fuel map</figcaption>' in text
-    assert '<figcaption>power flow</figcaption>' in text
-    assert text.count(CAUTION) == 2
-    assert text.index(CAUTION) < text.index('<h2>')  # at the top ...
-    assert text.rindex(CAUTION) > text.rindex('<figure>')  # ... and at the bottom
-    assert text.count('class="active-mark"') == 2  # one bound, one constraint
-    assert 'Active constraints: takeoff_field_length</p>' in text
-    assert 'mission.range_m' in text and '5e+06' in text
-    assert 'outputs.block_fuel_kg' in text
-    assert 'design.aft_fan.thrust_fraction' in text  # history column, flattened
-    assert 'http://' not in text and 'https://' not in text  # no network needed
+    assert report.CAPTIONS['mass_breakdown.png'] in text  # a caption saying what to read
+    assert 'alt="power flow"' in text  # a figure the report does not know: named by its file
+    assert '<script' not in text.lower()
+    assert 'http://' not in text and 'https://' not in text and '@import' not in text
+    assert text.count('src="') == text.count('src="data:image/png;base64,')
+    assert '@media print' in text and 'class="scroll"' in text
+    assert '<details><summary>The configuration used' in text
 
 
 def test_report_escapes_text(tmp_path):
-    text = _read(report.write_report(str(_results_dir(tmp_path))))
-    assert '<script>' not in text
-    assert '&lt;script&gt;alert(1)&lt;/script&gt;' in text
+    text = _read(report.write_report(str(_optimisation_dir(tmp_path))))
+    assert '<b>TE</b>' not in text
+    assert 'Demo &lt;b&gt;TE&lt;/b&gt;' in text
 
 
 def test_report_truncates_long_tables(tmp_path):
-    text = _read(report.write_report(str(_results_dir(tmp_path))))
-    assert '<td class="num">199.5</td>' in text
-    assert '<td class="num">200.5</td>' not in text
+    text = _read(report.write_report(str(_optimisation_dir(tmp_path, rows=250))))
+    assert '>799.5</td>' in text  # wing loading of evaluation 200: 600 + 199.5
+    assert '>800.5</td>' not in text
     assert f'First {report.MAX_ROWS} of 250 rows shown' in text
 
 
 def test_report_is_deterministic_and_written_where_asked(tmp_path):
-    folder = _results_dir(tmp_path)
+    folder = _optimisation_dir(tmp_path)
     first = report.write_report(str(folder), str(tmp_path / 'a.html'))
     second = report.write_report(str(folder), str(tmp_path / 'b.html'))
     assert first == str(tmp_path / 'a.html')
     assert _read(first) == _read(second)
     assert not (folder / 'report.html').exists()
+
+
+def _write_study(folder, name, summary, rows):
+    from voltwake.studies import points_csv
+
+    (folder / f'{name}_summary.json').write_text(json.dumps(summary, sort_keys=True))
+    if rows:
+        (folder / f'{name}_points.csv').write_text(points_csv(rows))
+
+
+def test_report_of_a_map_and_a_monte_carlo(tmp_path):
+    folder = tmp_path / 'sweep'
+    folder.mkdir()
+    changes = [-1.0, 0.5, -2.0, 1.0, float('nan'), 3.0]
+    rows = [
+        {
+            'aft_fan.thrust_fraction': 0.1 + 0.1 * (i // 3),
+            'electrical.motor.specific_power': 5000.0 * (1 + i % 3),
+            'closed': not math.isnan(c),
+            'reason': '' if not math.isnan(c) else 'mass balance ran away',
+            'block_fuel_kg': 6000.0 * (1 + c / 100.0),
+            'fuel_burn_change_percent': c,
+        }
+        for i, c in enumerate(changes)
+    ]
+    summary = {
+        'status': 'complete',
+        'kind': 'map',
+        'axes': {
+            'aft_fan.thrust_fraction': [0.1, 0.2],
+            'electrical.motor.specific_power': [5000.0, 10000.0, 15000.0],
+        },
+        'fuel_burn_measured_on': 'block_fuel_kg',
+        'reference': _outputs(6000.0, aft=False),
+        'points_count': 6,
+        'recovered': 0,
+        'config': CONFIG,
+    }
+    _write_study(folder, 'map', summary, rows)
+    mc_rows = [{**r, 'closed': True} for r in rows[:4]]
+    mc = {
+        'status': 'complete',
+        'kind': 'montecarlo',
+        'samples': 4,
+        'seed': 7,
+        'distributions': {'electrical.motor.specific_power': {'uniform': ['5 kW/kg', '20 kW/kg']}},
+        'fuel_burn_change_percent': {'mean': -0.375, 'p05': -1.9, 'p50': -0.25, 'p95': 0.9},
+        'probability_of_win': 0.5,
+        'fuel_burn_measured_on': 'block_fuel_kg',
+        'config': CONFIG,
+    }
+    _write_study(folder, 'montecarlo', mc, mc_rows)
+    text = _read(report.write_report(str(folder)))
+    # Share of the map where the design wins, from the CSV: 2 of the 5 points with a result
+    # (counted by hand) = 40 %.
+    assert 'wins at 40 % of the map</span> (2 of 5 points with a result' in text
+    assert '1 of 6 points did not close' in text
+    assert 'probability of a win 50 %' in text
+    assert 'uniform: 5 kW/kg to 20 kW/kg' in text and '>7</td>' in text  # inputs: seed
+    # Axes as lo-hi with a count, not a list of every value.
+    assert 'motor specific power</td><td>5–15 kW/kg (3 values)</td>' in text
+    headline = text[text.index('<table class="headline">') :]
+    headline = headline[: headline.index('</table>')]
+    assert headline.count('<tr>') == 3  # the header and one line per study
+
+
+def test_report_of_a_target_sweep_tells_failures_apart(tmp_path):
+    folder = tmp_path / 'targets'
+    folder.mkdir()
+    base = {
+        'block_fuel_kg': 6000.0,
+        'total_fuel_kg': 8500.0,
+        'mtow_kg': 50000.0,
+        'oew_kg': 29500.0,
+        'engines_mass_kg': 4500.0,
+        'aft_fan_mass_kg': 700.0,
+        'electrical_mass_kg': 900.0,
+        'power_saving_coefficient': 0.17,
+    }
+    nan = float('nan')
+    rows = [
+        {
+            'target:aft_fan.thrust_fraction': 0.1,
+            'success': True,
+            'message': 'Optimization terminated successfully',
+            **base,
+            'dv:wing.loading': 450.0,
+            'active_constraints': ['wingspan', 'bound:wing.loading'],
+            'evaluations': 20,
+            'fuel_burn_change_percent': -0.5,
+            'fuel_burn_measured_on': 'block_fuel_kg',
+        },
+        {
+            'target:aft_fan.thrust_fraction': 0.2,
+            'success': False,
+            'message': 'Positive directional derivative for linesearch',
+            **{k: nan for k in base},
+            'dv:wing.loading': nan,
+            'active_constraints': [],
+            'evaluations': 14,
+            'fuel_burn_change_percent': nan,
+            'fuel_burn_measured_on': 'block_fuel_kg',
+        },
+        {
+            'target:aft_fan.thrust_fraction': 0.3,
+            'success': False,
+            'message': 'NotClosedError: the weight grows without bound',
+            **{k: nan for k in base},
+            'dv:wing.loading': nan,
+            'active_constraints': [],
+            'evaluations': 0,
+            'fuel_burn_change_percent': nan,
+            'fuel_burn_measured_on': 'block_fuel_kg',
+        },
+    ]
+    summary = {
+        'status': 'complete',
+        'kind': 'targets',
+        'targets': ['aft_fan.thrust_fraction'],
+        'target_axes': {'aft_fan.thrust_fraction': [0.1, 0.2, 0.3]},
+        'reference': {'success': True, 'outputs': _outputs(6030.0, aft=False)},
+        'references': [{}],
+        'config': CONFIG,
+    }
+    _write_study(folder, 'targets', summary, rows)
+    text = _read(report.write_report(str(folder)))
+    assert '1 closed without a feasible optimum, 1 did not close' in text
+    assert '<td>closed, no feasible optimum</td>' in text and '<td>did not close</td>' in text
+    assert 'the span limit, wing loading at its lower bound' in text
+    assert 'NotClosedError: the weight grows without bound' in text
+
+
+def test_report_of_a_break_even(tmp_path):
+    folder = tmp_path / 'be'
+    folder.mkdir()
+    summary = {
+        'status': 'complete',
+        'kind': 'breakeven',
+        'found': True,
+        'path': 'electrical.motor.specific_power',
+        'units': 'W/kg',
+        'value': 12345.0,
+        'lower': 2000.0,
+        'upper': 20000.0,
+        'difference_at_lower': 3.0,
+        'difference_at_upper': -1.0,
+        'evaluations': [
+            {'value': 2000.0, 'difference': 3.0, 'block_fuel_kg': 6200.0},
+            {'value': 20000.0, 'difference': -1.0, 'block_fuel_kg': 5990.0},
+        ],
+        'design_at_value': {
+            'success': True,
+            'message': 'ok',
+            'design': {'wing.loading': 750.0},
+            'active': ['takeoff_field_length', 'bound:wing.loading'],
+        },
+        'fuel_burn_measured_on': 'block_fuel_kg',
+        'config': CONFIG,
+    }
+    _write_study(folder, 'breakeven', summary, [])
+    text = _read(report.write_report(str(folder)))
+    assert 'break-even motor specific power <b>12.35 kW/kg</b>' in text
+    assert 'the take-off field length limit, wing loading at its upper bound' in text
+    summary.update(found=False, value=None, difference_at_upper=1.0, design_at_value=None)
+    _write_study(folder, 'breakeven', summary, [])
+    text = _read(report.write_report(str(folder)))
+    assert 'no break-even in 2–20 kW/kg' in text
+    assert '+3.00 %</span> at 2 kW/kg' in text and '+1.00 %</span> at 20 kW/kg' in text
+
+
+def test_a_study_without_matplotlib_says_why_it_has_no_figures(monkeypatch, tmp_path, capsys):
+    from voltwake import sweep
+
+    monkeypatch.setitem(sys.modules, 'matplotlib.backends.backend_agg', None)
+    result = {
+        'kind': 'montecarlo',
+        'points': [{'closed': True, 'fuel_burn_change_percent': 1.0}],
+        'fuel_burn_measured_on': 'block_fuel_kg',
+    }
+    assert sweep._plots('montecarlo', result, str(tmp_path)) == []
+    assert 'plots need matplotlib' in result['figures_note']
+    assert 'no figures drawn' in capsys.readouterr().err
+    assert list(tmp_path.iterdir()) == []
+
+
+def test_report_keeps_unknown_results_as_tables(tmp_path):
+    folder = tmp_path / 'other'
+    folder.mkdir()
+    (folder / 'notes.json').write_text(json.dumps({'a': {'b': 1.5}, 'rows': [{'x': 1}]}))
+    text = _read(report.write_report(str(folder)))
+    assert 'Other results: notes.json' in text and '<td>a.b</td>' in text
 
 
 def test_report_errors(tmp_path):
@@ -457,11 +891,11 @@ def test_report_errors(tmp_path):
         report.write_report(str(broken))
     assert not (broken / 'report.html').exists()
     with pytest.raises(ConfigError, match='directory of the report'):
-        report.write_report(str(_results_dir(tmp_path)), str(tmp_path / 'no' / 'r.html'))
+        report.write_report(str(_optimisation_dir(tmp_path)), str(tmp_path / 'no' / 'r.html'))
 
 
 def test_report_works_without_matplotlib(tmp_path):
-    folder = _results_dir(tmp_path)
+    folder = _optimisation_dir(tmp_path)
     code = (
         'import sys; sys.modules["matplotlib"] = None; '  # any import of it now fails
         'import voltwake.report as r; print(r.write_report(sys.argv[1]))'
@@ -471,6 +905,23 @@ def test_report_works_without_matplotlib(tmp_path):
     )
     assert done.stdout.strip() == os.path.join(str(folder), 'report.html')
     assert (folder / 'report.html').stat().st_size > 1024
+
+
+@pytest.mark.parametrize('mask, mode', [(0o022, 0o644), (0o027, 0o640), (0o002, 0o664)])
+def test_result_files_follow_the_umask(tmp_path, mask, mode):
+    # Files are written as any other file the user writes: 0o666 & ~umask (POSIX open()).
+    folder = _optimisation_dir(tmp_path)
+    old = os.umask(mask)
+    try:
+        write_atomic(str(tmp_path / 'points.csv'), 'a,b\n1,2\n')
+        write_results(str(tmp_path), 'summary', {'a': 1})
+        html_path = report.write_report(str(folder))
+    finally:
+        os.umask(old)
+    for path in ('points.csv', 'summary.json', 'summary.yaml'):
+        assert stat.S_IMODE(os.stat(tmp_path / path).st_mode) == mode, path
+    assert stat.S_IMODE(os.stat(html_path).st_mode) == mode
+    assert current_umask() == old  # read, not changed
 
 
 def test_mass_breakdown_splits_a_built_up_airframe(mpl, tmp_path):
@@ -495,7 +946,7 @@ def test_mass_breakdown_splits_a_built_up_airframe(mpl, tmp_path):
     parts = plots._mass_parts(design, 'design')
     assert len(parts) == 10 and parts[2] == 670.0  # the two tails together
     assert sum(parts) == pytest.approx(design['mtow_kg'], rel=1e-12)
-    plot = plots.plot_mass_breakdown(design, design, str(tmp_path / 'mass.png'))
+    plot = plots.plot_mass_breakdown({'a': design, 'b': design}, str(tmp_path / 'mass.png'))
     assert plot.details['totals_kg'][0] == pytest.approx(design['mtow_kg'], rel=1e-12)
     with pytest.raises(ValueError, match='add up'):
         plots._mass_parts({**design, 'mtow_kg': design['mtow_kg'] + 100.0}, 'design')

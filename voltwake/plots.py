@@ -1,12 +1,19 @@
 """
 PNG figures of results: fuel-burn and power-saving maps, masses, power flow, histories.
 
-matplotlib is an optional dependency (``pip install 'voltwake[plot]'``); it is imported
-only when a figure is drawn. Every figure is drawn on its own ``Figure`` with an explicit
-Agg canvas, so no pyplot state is created or changed (an interactive user's open figures
-and backend are left alone). Every function writes one PNG and returns its path as a
-:class:`PlotFile`, a ``str`` that also carries what was drawn (for tests and callers).
+matplotlib is a dependency of voltwake; it is imported only when a figure is drawn, so the
+rest of the package (and the HTML report) loads without it. Every figure is drawn on its own
+``Figure`` with an explicit Agg canvas, so no pyplot state is created or changed (an
+interactive user's open figures and backend are left alone). Every function writes one PNG
+and returns its path as a :class:`PlotFile`, a ``str`` that also carries what was drawn (for
+tests and callers).
+
+Points that did not close and optimisations that closed but found no feasible optimum are
+drawn as such (their own markers and counts), never dropped.
 """
+
+import math
+import textwrap
 
 import numpy as np
 
@@ -21,11 +28,24 @@ POWER_BALANCE_RTOL = 1e-6
 #: Relative tolerance of the mass build-up checked by :func:`plot_mass_breakdown`.
 MASS_BALANCE_RTOL = 1e-6
 
+#: Maps with at most this many points carry the value at each point.
+ANNOTATE_POINTS = 64
+
+#: Status of a study point: an optimum (or a closed analysis), an optimisation that closed
+#: but found no feasible optimum, and a point whose sizing loop did not close.
+OK, INFEASIBLE, NOT_CLOSED = 'ok', 'infeasible', 'not closed'
+
+#: How failed points are drawn: status -> (marker, colour, legend text).
+_FAILED_STYLE = {
+    NOT_CLOSED: ('x', '0.15', 'did not close'),
+    INFEASIBLE: ('o', 'tab:purple', 'closed, no feasible optimum'),
+}
+
 _MASS_PARTS = [
     ('airframe_mass_kg', 'airframe'),
-    ('engines_mass_kg', 'turbofans'),
+    ('engines_mass_kg', 'turbofans (with nacelles)'),
     ('aft_fan_mass_kg', 'aft fan'),
-    ('electrical_mass_kg', 'electrical (incl. thermal)'),
+    ('electrical_mass_kg', 'electrical chain (with thermal)'),
     ('payload_kg', 'payload'),
     ('total_fuel_kg', 'fuel (trip + reserve)'),
 ]
@@ -38,6 +58,20 @@ _AIRFRAME_PARTS = [
     ('landing_gear_mass_kg', 'landing gear'),
     ('systems_mass_kg', 'systems, furnishings, operating items'),
 ]
+
+#: The aft fan and the devices of the electrical chain (second panel of the mass figure).
+_CHAIN_PARTS = [
+    ('aft_fan_mass_kg', 'aft fan'),
+    ('generator_mass_kg', 'generators'),
+    ('rectifier_mass_kg', 'rectifiers'),
+    ('cable_mass_kg', 'cable'),
+    ('inverter_mass_kg', 'inverter'),
+    ('motor_mass_kg', 'motor'),
+    ('thermal_mass_kg', 'thermal management'),
+]
+
+#: Bar colours of the designs of a mass breakdown, in the order given (baseline first).
+_DESIGN_COLOURS = ['0.6', 'tab:blue', 'tab:orange', 'tab:green']
 
 
 def _parts_of(masses):
@@ -115,7 +149,10 @@ def _new_figure(figsize):
         from matplotlib.backends.backend_agg import FigureCanvasAgg
         from matplotlib.figure import Figure
     except ImportError:
-        raise ConfigError("plots need matplotlib: pip install 'voltwake[plot]'") from None
+        raise ConfigError(
+            'plots need matplotlib, a dependency of voltwake: pip install matplotlib '
+            '(or reinstall voltwake with pip install .)'
+        ) from None
     fig = Figure(figsize=figsize, layout='constrained')
     FigureCanvasAgg(fig)
     return fig
@@ -124,6 +161,9 @@ def _new_figure(figsize):
 def _save(fig, path, details):
     """
     Write the figure as a PNG and return its path.
+
+    The file is opened by matplotlib with an ordinary ``open()``, so it gets the user's
+    umask like any other file the user writes.
 
     Parameters
     ----------
@@ -144,9 +184,43 @@ def _save(fig, path, details):
     return PlotFile(str(path), details)
 
 
+def round_levels(low, high, count=12):
+    """
+    Return round contour levels covering ``[low, high]``.
+
+    The step is 1, 2, 2.5 or 5 times a power of ten, chosen for about ``count`` bands; the
+    levels are whole multiples of the step, so zero is a level whenever the range spans it.
+
+    Parameters
+    ----------
+    low, high : float
+        Range of the values (``low <= high``).
+    count : int
+        About how many bands.
+
+    Returns
+    -------
+    numpy.ndarray
+        Increasing levels, the first at or below ``low`` and the last at or above ``high``.
+    """
+    low, high = float(low), float(high)
+    if not high > low:
+        pad = 0.5 if low == 0.0 else 0.05 * abs(low)
+        low, high = low - pad, high + pad
+    raw = (high - low) / max(int(count), 1)
+    power = 10.0 ** math.floor(math.log10(raw))
+    step = next(m * power for m in (1.0, 2.0, 2.5, 5.0, 10.0) if m * power >= raw * (1 - 1e-9))
+    first = math.floor(low / step + 1e-9)
+    last = math.ceil(high / step - 1e-9)
+    levels = np.arange(first, last + 1) * step
+    # Round away the binary noise of the multiplication (0.30000000000000004 -> 0.3).
+    digits = max(0, 1 - math.floor(math.log10(step)) + 1)
+    return np.round(levels, digits)
+
+
 def _grid(x, y, z, closed):
     """
-    Check the shapes of a map and return its arrays and the mask of usable points.
+    Check the shapes of a map and return its arrays.
 
     Parameters
     ----------
@@ -160,7 +234,7 @@ def _grid(x, y, z, closed):
     Returns
     -------
     tuple
-        x, y, z as float arrays and the boolean mask of closed, finite points.
+        x, y, z as float arrays and ``closed`` as a boolean array.
     """
     x = np.asarray(x, dtype=float)
     y = np.asarray(y, dtype=float)
@@ -176,12 +250,116 @@ def _grid(x, y, z, closed):
             f'map values and closed flags must have shape (ny, nx) = {shape}; '
             f'got {z.shape} and {closed.shape}'
         )
-    return x, y, z, closed & np.isfinite(z)
+    return x, y, z, closed
 
 
-def _contour_map(x, y, z, closed, x_label, y_label, path, title, bar_label, cmap, break_even):
+def _status_grid(z, closed, feasible):
     """
-    Draw a filled contour map with failed points masked grey and marked.
+    Return the status of every map point (OK, INFEASIBLE or NOT_CLOSED).
+
+    Parameters
+    ----------
+    z : numpy.ndarray
+        Values (NaN where there is none).
+    closed : numpy.ndarray of bool
+        Where the sizing loop closed.
+    feasible : array_like of bool or None
+        Where an optimisation found a feasible optimum; None when the points are analyses
+        (a closed point without a finite value then counts as not closed).
+
+    Returns
+    -------
+    numpy.ndarray of str
+        The status, same shape as ``z``.
+    """
+    status = np.full(z.shape, OK, dtype=object)
+    if feasible is None:
+        status[~(closed & np.isfinite(z))] = NOT_CLOSED
+        return status
+    feasible = np.asarray(feasible, dtype=bool)
+    if feasible.shape != closed.shape:
+        raise ValueError(f'feasible flags have shape {feasible.shape}; expected {closed.shape}')
+    status[closed & ~(feasible & np.isfinite(z))] = INFEASIBLE
+    status[~closed] = NOT_CLOSED
+    return status
+
+
+def point_status(row):
+    """
+    Return the status of one study row: OK, INFEASIBLE or NOT_CLOSED.
+
+    A map or Monte Carlo row has ``closed``. A target-sweep row has ``success``; a failed
+    optimisation that evaluated the model (``evaluations`` > 0) closed but found no feasible
+    optimum, one that stopped before any evaluation (its design did not close, the error is
+    its message) did not close.
+
+    Parameters
+    ----------
+    row : dict
+        The row (booleans may be the strings 'True'/'False' of a CSV file).
+
+    Returns
+    -------
+    str
+        The status.
+    """
+
+    def flag(value):
+        return value is True or str(value).strip().lower() == 'true'
+
+    if 'closed' in row:
+        return OK if flag(row['closed']) else NOT_CLOSED
+    if flag(row.get('success')):
+        return OK
+    try:
+        evaluations = float(row.get('evaluations') or 0)
+    except (TypeError, ValueError):
+        evaluations = 0.0
+    return INFEASIBLE if evaluations > 0 else NOT_CLOSED
+
+
+def _cell_edges(values):
+    """Return the cell edges around grid values: midpoints, half a step beyond the ends."""
+    mids = 0.5 * (values[1:] + values[:-1])
+    return np.concatenate(
+        [[values[0] - (mids[0] - values[0])], mids, [values[-1] + (values[-1] - mids[-1])]]
+    )
+
+
+def _failed_note(status, optimised=False):
+    """Return '<n> did not close, <m> closed without a feasible optimum' (or all closed)."""
+    total = status.size
+    not_closed = int(np.sum(status == NOT_CLOSED))
+    infeasible = int(np.sum(status == INFEASIBLE))
+    parts = []
+    if not_closed:
+        parts.append(f'{not_closed} of {total} points did not close')
+    if infeasible:
+        parts.append(f'{infeasible} closed without a feasible optimum')
+    if parts:
+        return '; '.join(parts)
+    return (
+        f'all {total} points have a feasible optimum' if optimised else f'all {total} points closed'
+    )
+
+
+def _contour_map(
+    x,
+    y,
+    z,
+    closed,
+    x_label,
+    y_label,
+    path,
+    title,
+    bar_label,
+    cmap,
+    break_even,
+    feasible=None,
+    marker=None,
+):
+    """
+    Draw a filled contour map with round levels and failed points marked.
 
     Parameters
     ----------
@@ -196,32 +374,47 @@ def _contour_map(x, y, z, closed, x_label, y_label, path, title, bar_label, cmap
     path : str
         Destination PNG.
     title : str
-        Figure title (the count of failed points is appended).
+        Figure title (the count of failed points is added below it).
     bar_label : str
-        Colour bar label.
+        Colour bar label (with units).
     cmap : str
         Colour map name.
     break_even : bool
-        Draw the zero contour as a bold labelled line where it exists.
+        A fuel-burn change: colours centred on zero (a diverging map whose white is 0) and
+        the zero contour drawn as a bold line labelled 'break-even' where it exists.
+    feasible : array_like or None
+        Where an optimisation found a feasible optimum (target sweeps); None for analyses.
+    marker : tuple or None
+        (x, y, label) of a point to mark, e.g. the configured design.
 
     Returns
     -------
     PlotFile
-        The path; details 'failed_points', 'break_even_drawn', 'levels'.
+        The path; details 'failed_points', 'not_closed', 'infeasible', 'break_even_drawn',
+        'levels', 'norm_limits' (colour limits, symmetric about 0 for a fuel-burn map).
     """
-    from matplotlib.colors import TwoSlopeNorm
+    x, y, z, closed = _grid(x, y, z, closed)
+    status = _status_grid(z, closed, feasible)
+    good = status == OK
+    fig = _new_figure((7.5, 6.0))
+    from matplotlib.colors import Normalize
 
-    x, y, z, good = _grid(x, y, z, closed)
-    failed = int(good.size - good.sum())
-    fig = _new_figure((7.5, 5.5))
     ax = fig.add_subplot()
-    ax.set_facecolor('0.85')
-    details = {'failed_points': failed, 'break_even_drawn': False, 'levels': []}
-    if failed == good.size:
+    ax.set_facecolor('0.88')
+    details = {
+        'failed_points': int(good.size - good.sum()),
+        'not_closed': int(np.sum(status == NOT_CLOSED)),
+        'infeasible': int(np.sum(status == INFEASIBLE)),
+        'break_even_drawn': False,
+        'levels': [],
+        'norm_limits': None,
+    }
+    extra = ''
+    if not good.any():
         ax.text(
             0.5,
             0.5,
-            'no point closed',
+            'no point has a result',
             transform=ax.transAxes,
             ha='center',
             va='center',
@@ -233,39 +426,94 @@ def _contour_map(x, y, z, closed, x_label, y_label, path, title, bar_label, cmap
     else:
         masked = np.ma.masked_array(z, mask=~good)
         low, high = float(masked.min()), float(masked.max())
-        if high - low <= 1e-12 * max(1.0, abs(low)):
-            low, high = low - 0.5, high + 0.5
-        levels = np.linspace(low, high, 15)
-        norm = TwoSlopeNorm(vcenter=0.0, vmin=low, vmax=high) if low < 0.0 < high else None
-        filled = ax.contourf(x, y, masked, levels=levels, cmap=cmap, norm=norm)
-        fig.colorbar(filled, ax=ax, label=bar_label)
+        levels = round_levels(low, high)
+        if break_even:
+            reach = max(abs(levels[0]), abs(levels[-1]))
+            norm = Normalize(vmin=-reach, vmax=reach)
+        else:
+            norm = Normalize(vmin=levels[0], vmax=levels[-1])
+        details['norm_limits'] = [float(norm.vmin), float(norm.vmax)]
+        small = good.size <= ANNOTATE_POINTS
+        if small:
+            # A small grid: one cell per point, coloured by its value and labelled with it,
+            # so the reader need not interpolate between a handful of points.
+            filled = ax.pcolormesh(
+                _cell_edges(x), _cell_edges(y), masked, cmap=cmap, norm=norm, shading='flat'
+            )
+            grid_x, grid_y = np.meshgrid(x, y)
+            for gx, gy, value in zip(grid_x[good], grid_y[good], z[good]):
+                red, green, blue, _ = filled.cmap(norm(value))
+                dark = 0.299 * red + 0.587 * green + 0.114 * blue < 0.5
+                ax.text(
+                    gx,
+                    gy,
+                    f'{value:.3g}',
+                    ha='center',
+                    va='center',
+                    fontsize=9 if good.size <= 36 else 7,
+                    color='white' if dark else 'black',
+                )
+        else:
+            filled = ax.contourf(x, y, masked, levels=levels, cmap=cmap, norm=norm)
+            lines = ax.contour(x, y, masked, levels=levels, colors='k', linewidths=0.4, alpha=0.5)
+            ax.clabel(lines, levels=lines.levels[::2], fmt='%g', fontsize=8, inline=True)
+        ticks = round_levels(norm.vmin, norm.vmax, 8) if small else levels
+        bar = fig.colorbar(filled, ax=ax, label=bar_label, ticks=ticks[:: max(1, len(ticks) // 9)])
+        bar.ax.tick_params(labelsize=9)
         details['levels'] = [float(v) for v in levels]
-        if break_even and low < 0.0 < high:
-            line = ax.contour(x, y, masked, levels=[0.0], colors='k', linewidths=2.5)
-            if any(len(seg) > 1 for seg in line.allsegs[0]):
-                ax.clabel(line, fmt={0.0: 'break-even'}, fontsize=10)
-                ax.plot([], [], 'k-', linewidth=2.5, label='break-even (0 %)')
-                details['break_even_drawn'] = True
-    if failed:
-        grid_x, grid_y = np.meshgrid(x, y)
-        ax.plot(
-            grid_x[~good],
-            grid_y[~good],
-            'x',
-            color='0.3',
-            linestyle='none',
-            label=f'did not close ({failed})',
-        )
-    if failed or details['break_even_drawn']:
-        ax.legend(loc='best', fontsize=9)
+        if break_even:
+            if low < 0.0 < high:
+                line = ax.contour(x, y, masked, levels=[0.0], colors='k', linewidths=2.5)
+                if any(len(seg) > 1 for seg in line.allsegs[0]):
+                    ax.clabel(line, fmt={0.0: 'break-even (0 %)'}, fontsize=10, inline=True)
+                    ax.plot([], [], 'k-', linewidth=2.5, label='break-even: 0 % change')
+                    details['break_even_drawn'] = True
+            if not details['break_even_drawn']:
+                side = 'a penalty' if low > 0.0 else 'a saving'
+                extra = (
+                    f'no break-even in the map: {low:+.3g} % to {high:+.3g} %, {side} everywhere'
+                )
+    grid_x, grid_y = np.meshgrid(x, y)
+    for kind, (symbol, colour, text) in _FAILED_STYLE.items():
+        where = status == kind
+        if where.any():
+            ax.plot(
+                grid_x[where],
+                grid_y[where],
+                symbol,
+                color=colour,
+                markerfacecolor='none',
+                markersize=7,
+                markeredgewidth=1.5,
+                linestyle='none',
+                label=f'{text} ({int(where.sum())})',
+            )
+    if marker is not None:
+        mx, my, mlabel = marker
+        if x.min() <= mx <= x.max() and y.min() <= my <= y.max():
+            ax.plot(
+                [mx],
+                [my],
+                '*',
+                color='gold',
+                markeredgecolor='k',
+                markersize=14,
+                linestyle='none',
+                label=mlabel,
+            )
+    if good.size <= ANNOTATE_POINTS:
+        # Cells: the ticks sit on the swept values, not on the cell edges.
+        for axis, values in ((ax.xaxis, x), (ax.yaxis, y)):
+            if values.size <= 12:
+                axis.set_ticks(values, [f'{v:.4g}' for v in values])
     ax.set_xlabel(x_label)
     ax.set_ylabel(y_label)
-    note = (
-        f'{failed} of {good.size} points did not close'
-        if failed
-        else f'all {good.size} points closed'
-    )
-    ax.set_title(f'{title}\n({note})')
+    if ax.get_legend_handles_labels()[0]:
+        fig.legend(loc='outside lower center', ncols=3, fontsize=9, frameon=False)
+    note = _failed_note(status, optimised=feasible is not None)
+    if extra:
+        note += '; ' + extra if len(note) + len(extra) < 80 else '\n' + extra
+    ax.set_title(f'{title}\n{note}', fontsize=10.5)
     return _save(fig, path, details)
 
 
@@ -278,13 +526,19 @@ def plot_fuel_map(
     y_label,
     path,
     title='Fuel-burn change versus the reference',
+    feasible=None,
+    marker=None,
+    bar_label='fuel-burn change versus the reference [%]',
 ):
     """
     Draw a filled contour of the fuel-burn change over two swept quantities.
 
-    Points whose sizing loop did not close (or whose value is not finite) are masked
-    (grey background) and marked; their number is given in the title. The break-even
-    contour (0 %) is drawn as a bold labelled line when it lies in the swept range.
+    The colours are centred on zero (blue a saving, red a penalty, white break-even) and
+    the contour levels are round numbers. The break-even contour (0 %) is drawn as a bold
+    labelled line when it lies in the map; when it does not, the title says so. Points
+    whose sizing loop did not close (or whose value is not finite) and, in a target sweep,
+    optimisations that closed but found no feasible optimum are masked (grey background)
+    and marked with their own symbols; their numbers are given in the title.
 
     Parameters
     ----------
@@ -302,12 +556,20 @@ def plot_fuel_map(
         Destination PNG.
     title : str
         Figure title.
+    feasible : array_like or None
+        True where an optimisation found a feasible optimum, shape (ny, nx); None when the
+        points are analyses.
+    marker : tuple or None
+        (x, y, label) of a point to mark, e.g. the configured design.
+    bar_label : str
+        Colour bar label.
 
     Returns
     -------
     PlotFile
-        The path; ``details`` holds 'failed_points' (int), 'break_even_drawn' (bool)
-        and 'levels' (the filled contour levels, percent).
+        The path; ``details`` holds 'failed_points', 'not_closed', 'infeasible' (int),
+        'break_even_drawn' (bool), 'levels' (the filled contour levels, percent) and
+        'norm_limits' (colour limits, symmetric about 0).
     """
     return _contour_map(
         x,
@@ -318,17 +580,31 @@ def plot_fuel_map(
         y_label,
         path,
         title,
-        'fuel-burn change versus the reference [%]',
+        bar_label,
         'RdBu_r',
         True,
+        feasible=feasible,
+        marker=marker,
     )
 
 
-def plot_psc_map(x, y, psc, closed, x_label, y_label, path, title='Power saving coefficient'):
+def plot_psc_map(
+    x,
+    y,
+    psc,
+    closed,
+    x_label,
+    y_label,
+    path,
+    title='Power saving coefficient of the aft fan',
+    feasible=None,
+    marker=None,
+):
     """
     Draw a filled contour of the power saving coefficient over two swept quantities.
 
-    Points whose sizing loop did not close are masked (grey) and marked.
+    Round contour levels; points that did not close or found no feasible optimum are
+    masked (grey) and marked.
 
     Parameters
     ----------
@@ -346,11 +622,15 @@ def plot_psc_map(x, y, psc, closed, x_label, y_label, path, title='Power saving 
         Destination PNG.
     title : str
         Figure title.
+    feasible : array_like or None
+        True where an optimisation found a feasible optimum; None for analyses.
+    marker : tuple or None
+        (x, y, label) of a point to mark.
 
     Returns
     -------
     PlotFile
-        The path; ``details`` holds 'failed_points' and 'levels'.
+        The path; ``details`` holds 'failed_points', 'not_closed', 'infeasible' and 'levels'.
     """
     return _contour_map(
         x,
@@ -361,13 +641,15 @@ def plot_psc_map(x, y, psc, closed, x_label, y_label, path, title='Power saving 
         y_label,
         path,
         title,
-        'power saving coefficient [-]',
+        'power saving coefficient (same-FPR clean fan) [-]',
         'viridis',
         False,
+        feasible=feasible,
+        marker=marker,
     )
 
 
-def _mass_parts(masses, name):
+def _mass_parts(masses, name, parts=None):
     """
     Return the mass parts of one design (missing keys count as 0) and check the total.
 
@@ -377,72 +659,165 @@ def _mass_parts(masses, name):
         Field name -> mass in kg.
     name : str
         The design's label (for messages).
+    parts : list or None
+        The (key, label) parts; None for ``_parts_of(masses)``.
 
     Returns
     -------
     list of float
-        The parts in the order of ``_parts_of(masses)``.
+        The parts in order.
     """
-    parts = [_part_mass(masses, key) for key, _ in _parts_of(masses)]
+    parts = _parts_of(masses) if parts is None else parts
+    values = [_part_mass(masses, key) for key, _ in parts]
     if 'mtow_kg' in masses:
         mtow = float(masses['mtow_kg'])
-        if abs(mtow - sum(parts)) > MASS_BALANCE_RTOL * abs(mtow):
+        if abs(mtow - sum(values)) > MASS_BALANCE_RTOL * abs(mtow):
             raise ValueError(
-                f'{name}: the mass parts add up to {sum(parts):.6g} kg but mtow_kg is {mtow:.6g} kg'
+                f'{name}: the mass parts add up to {sum(values):.6g} kg but mtow_kg is '
+                f'{mtow:.6g} kg'
             )
-    return parts
+    return values
 
 
-def plot_mass_breakdown(
-    design, reference, path, design_label='optimum', reference_label='reference'
-):
+def _has_aft_fan(masses):
+    """Return True when a design carries an aft fan (a positive aft-fan mass)."""
+    return float(masses.get('aft_fan_mass_kg', 0.0)) > 0.0
+
+
+def _grouped_bars(ax, categories, designs, values, unit_text):
     """
-    Draw stacked bars of the mass breakdown of a design and its reference.
-
-    MTOW = airframe + turbofans + aft fan + electrical + payload + fuel (the mass
-    build-up of the model), with the airframe split into wing, fuselage, tails, landing gear
-    and systems when the design holds that build-up; each bar is labelled with its total. If
-    a dict also holds 'mtow_kg', the parts must add up to it.
+    Draw horizontal bars grouped by category, one bar per design, labelled with values.
 
     Parameters
     ----------
-    design : dict
-        Masses in kg under 'airframe_mass_kg', 'engines_mass_kg', 'aft_fan_mass_kg',
-        'electrical_mass_kg', 'payload_kg', 'total_fuel_kg' (missing keys count as 0).
-    reference : dict
-        The same for the reference.
+    ax : matplotlib.axes.Axes
+        The axes.
+    categories : list of str
+        Category names, drawn top to bottom.
+    designs : list of str
+        Design names (legend), drawn top to bottom within a category.
+    values : list of list of float or None
+        values[d][c]; None leaves the bar out (the design has no such part).
+    unit_text : str
+        Appended to each value label.
+    """
+    count = len(designs)
+    height = 0.8 / count
+    peak = max((v for row in values for v in row if v is not None), default=1.0)
+    for d, name in enumerate(designs):
+        ys, widths = [], []
+        for c in range(len(categories)):
+            if values[d][c] is None:
+                continue
+            ys.append(c + (d - (count - 1) / 2.0) * height)
+            widths.append(values[d][c])
+        bars = ax.barh(
+            ys,
+            widths,
+            height * 0.92,
+            color=_DESIGN_COLOURS[d % len(_DESIGN_COLOURS)],
+            label=name,
+        )
+        for bar, width in zip(bars, widths):
+            ax.text(
+                bar.get_width() + 0.01 * peak,
+                bar.get_y() + bar.get_height() / 2.0,
+                f'{width:,.0f}{unit_text}',
+                va='center',
+                ha='left',
+                fontsize=7.5,
+            )
+    ax.set_yticks(range(len(categories)), categories)
+    ax.invert_yaxis()
+    ax.set_xlim(0.0, 1.22 * peak)
+    ax.grid(True, axis='x', alpha=0.3)
+
+
+def plot_mass_breakdown(designs, path, title='Mass breakdown by system'):
+    """
+    Draw the mass breakdown of designs side by side, grouped by system, with values.
+
+    The left panel has one group of horizontal bars per system (the airframe split into
+    wing, fuselage, tails, landing gear and systems when every design holds that build-up;
+    turbofans; aft fan; electrical chain; payload; fuel), one bar per design in the order
+    given (the baseline first: start before optimum, reference before design), each
+    labelled with its mass in kg, so small items stay readable. When a design has an aft
+    fan, the right panel splits the aft fan and the electrical chain by device. MTOW of
+    every design is in the legend. If a dict holds 'mtow_kg', its parts must add up to it
+    (MTOW = airframe + turbofans + aft fan + electrical + payload + fuel, the mass build-up
+    of the model).
+
+    Parameters
+    ----------
+    designs : dict
+        Label -> masses in kg under 'airframe_mass_kg' (or the build-up's part keys),
+        'engines_mass_kg', 'aft_fan_mass_kg', 'electrical_mass_kg', 'payload_kg',
+        'total_fuel_kg' and optionally 'mtow_kg' and the device masses (missing keys count
+        as 0), in drawing order.
     path : str
         Destination PNG.
-    design_label, reference_label : str
-        Bar labels.
+    title : str
+        Figure title.
 
     Returns
     -------
     PlotFile
-        The path; ``details`` holds 'totals_kg' (design, reference).
+        The path; ``details`` holds 'totals_kg' (one per design, in order), 'labels' and
+        'chain_panel' (whether the aft fan and chain were split by device).
     """
-    bars = [
-        (design_label, _mass_parts(design, design_label)),
-        (reference_label, _mass_parts(reference, reference_label)),
+    if not designs:
+        raise ValueError('no designs to draw')
+    labels = list(designs)
+    built_up = all('wing_mass_kg' in m for m in designs.values())
+    parts = _AIRFRAME_PARTS + _MASS_PARTS[1:] if built_up else _MASS_PARTS
+    values = [_mass_parts(designs[name], name, parts) for name in labels]
+    totals = [sum(v) for v in values]
+    with_fan = [name for name in labels if _has_aft_fan(designs[name])]
+    chain_parts = [
+        (key, text) for key, text in _CHAIN_PARTS if any(key in designs[name] for name in with_fan)
     ]
-    fig = _new_figure((7.0, 5.5))
-    ax = fig.add_subplot()
-    positions = np.arange(len(bars))
-    bottom = np.zeros(len(bars))
-    for i, (_, label) in enumerate(_parts_of(design)):
-        heights = np.array([parts[i] for _, parts in bars]) / 1000.0
-        ax.bar(positions, heights, 0.55, bottom=bottom, label=label)
-        bottom = bottom + heights
-    totals = [sum(parts) for _, parts in bars]
-    for pos, total in zip(positions, totals):
-        ax.text(pos, total / 1000.0, f'MTOW {total:,.0f} kg', ha='center', va='bottom')
-    ax.set_xticks(positions, [label for label, _ in bars])
-    ax.set_ylabel('mass [t]')
-    ax.set_ylim(0.0, 1.12 * max(max(totals) / 1000.0, 1e-3))
-    change = 100.0 * (totals[0] - totals[1]) / totals[1] if totals[1] else float('nan')
-    ax.set_title(f'Mass breakdown (MTOW change {change:+.2f} %)')
-    ax.legend(loc='upper left', bbox_to_anchor=(1.0, 1.0), fontsize=9)
-    return _save(fig, path, {'totals_kg': totals})
+    chain_panel = bool(with_fan) and len(chain_parts) > 2
+    fig = _new_figure((11.0, 5.8) if chain_panel else (8.0, 5.8))
+    if chain_panel:
+        left, right = fig.subplots(1, 2, width_ratios=[1.35, 1.0])
+    else:
+        left, right = fig.add_subplot(), None
+    legend = [f'{name} (MTOW {total:,.0f} kg)' for name, total in zip(labels, totals)]
+    shown = [
+        [
+            None if (key in ('aft_fan_mass_kg', 'electrical_mass_kg') and v == 0.0) else v
+            for (key, _), v in zip(parts, row)
+        ]
+        for row in values
+    ]
+    _grouped_bars(left, [text for _, text in parts], legend, shown, '')
+    left.set_xlabel('mass [kg]')
+    left.set_title('whole aircraft (bars absent: the design has no such part)', fontsize=9)
+    if chain_panel:
+        names = [name for name in labels if name in with_fan]
+        chain_values = [
+            [float(designs[name].get(key, math.nan)) for key, _ in chain_parts] for name in names
+        ]
+        chain_values = [[None if math.isnan(v) else v for v in row] for row in chain_values]
+        colours_offset = [labels.index(name) for name in names]
+        _grouped_bars(right, [text for _, text in chain_parts], names, chain_values, '')
+        for bars, offset in zip(right.containers, colours_offset):
+            for patch in bars:
+                patch.set_facecolor(_DESIGN_COLOURS[offset % len(_DESIGN_COLOURS)])
+        right.set_xlabel('mass [kg]')
+        right.set_title('aft fan and electrical chain by device', fontsize=9)
+    fig.legend(
+        *left.get_legend_handles_labels(),
+        loc='outside lower center',
+        ncols=min(3, len(labels)),
+        fontsize=9,
+        frameon=False,
+    )
+    change = ''
+    if len(totals) > 1 and totals[0]:
+        change = f' (MTOW {labels[1]} vs {labels[0]}: {100.0 * (totals[1] / totals[0] - 1):+.2f} %)'
+    fig.suptitle('\n'.join(textwrap.wrap(title + change, 95 if chain_panel else 70)), fontsize=11)
+    return _save(fig, path, {'totals_kg': totals, 'labels': labels, 'chain_panel': chain_panel})
 
 
 def power_chain(outputs):
@@ -492,11 +867,12 @@ def power_chain(outputs):
 
 def plot_power_flow(outputs, path):
     """
-    Draw the power flow of the electrical chain from the turbofans to the aft fan.
+    Draw the power flow of the electrical chain at cruise, from the turbofans to the aft fan.
 
     Boxes for the turbofan shaft extraction, generator, rectifier, cable, inverter, motor
     and aft-fan shaft; arrows carry the power (kW, width proportional to it) and each
-    device shows its loss. The balance is checked first (see :func:`power_chain`).
+    device shows its loss in kW and in percent of the power it receives. The balance is
+    checked first (see :func:`power_chain`).
 
     Parameters
     ----------
@@ -519,15 +895,15 @@ def plot_power_flow(outputs, path):
         If a field is missing, the extraction is not positive, a loss is negative or the
         losses do not add up to extraction minus delivered power.
     """
-    from matplotlib.patches import FancyBboxPatch
-
     powers = power_chain(outputs)
     names = ['turbofan shaft\nextraction'] + [device for device, _ in _CHAIN] + ['aft-fan\nshaft']
     losses = [None] + [float(outputs[key]) for _, key in _CHAIN] + [None]
     fig = _new_figure((14.0, 4.2))
+    from matplotlib.patches import FancyBboxPatch
+
     ax = fig.add_subplot()
     ax.set_xlim(-0.6, 2.0 * len(names) - 1.4)
-    ax.set_ylim(-1.6, 1.2)
+    ax.set_ylim(-1.7, 1.0)
     ax.axis('off')
     half_w, half_h = 0.55, 0.45
     for i, (name, loss) in enumerate(zip(names, losses)):
@@ -543,16 +919,23 @@ def plot_power_flow(outputs, path):
                 edgecolor='k',
             )
         )
-        ax.text(cx, 0.0, name, ha='center', va='center', fontsize=10)
+        ax.text(cx, 0.0, name, ha='center', va='center', fontsize=11)
         if not source_or_sink:
             ax.annotate(
                 '',
-                xy=(cx, -1.15),
+                xy=(cx, -1.1),
                 xytext=(cx, -half_h - 0.05),
                 arrowprops={'arrowstyle': '-|>', 'color': 'tab:red', 'lw': 1.5},
             )
+            share = 100.0 * loss / powers[i - 1]
             ax.text(
-                cx, -1.3, f'loss {loss:,.1f} kW', ha='center', va='top', color='tab:red', fontsize=9
+                cx,
+                -1.2,
+                f'loss {loss:,.1f} kW\n({share:.1f} % of its input)',
+                ha='center',
+                va='top',
+                color='tab:red',
+                fontsize=9,
             )
     for i, power in enumerate(powers):
         start, end = 2.0 * i + half_w + 0.08, 2.0 * (i + 1) - half_w - 0.08
@@ -566,26 +949,31 @@ def plot_power_flow(outputs, path):
                 'lw': 1.0 + 5.0 * power / powers[0],
             },
         )
-        ax.text(0.5 * (start + end), 0.25, f'{power:,.1f} kW', ha='center', va='bottom', fontsize=9)
-    title = 'Electrical power flow (power carried between devices, loss of each device)'
+        ax.text(
+            0.5 * (start + end), 0.22, f'{power:,.1f} kW', ha='center', va='bottom', fontsize=9.5
+        )
+    title = 'Electrical power flow at cruise: power carried between devices and the loss of each'
     extra = []
     if 'electrical_chain_efficiency' in outputs:
-        extra.append(f"chain efficiency {float(outputs['electrical_chain_efficiency']):.4f}")
+        eff = float(outputs['electrical_chain_efficiency'])
+        extra.append(f'chain efficiency {100.0 * eff:.2f} %')
     if 'thermal_load_kW' in outputs:
-        extra.append(f"thermal load {float(outputs['thermal_load_kW']):,.1f} kW")
+        extra.append(f"heat to reject {float(outputs['thermal_load_kW']):,.1f} kW")
     if extra:
         title += '\n' + ', '.join(extra)
-    ax.set_title(title)
+    ax.set_title(title, fontsize=12)
     return _save(fig, path, {'powers_kW': powers})
 
 
-def plot_history(history, path, objective_label='objective'):
+def plot_history(history, path, objective_label='objective [-]', feasibility_tolerance=None):
     """
     Draw the convergence history of an optimisation.
 
-    The objective against the evaluation number on the left axis and the worst
-    constraint violation (log scale, floored at ``VIOLATION_FLOOR``) on the right axis;
-    evaluations whose sizing loop did not close are marked along the bottom.
+    The objective (with its units) against the evaluation number on the left axis and the
+    worst constraint violation, relative to its bound (log scale, floored at
+    ``VIOLATION_FLOOR``), on the right axis, with the feasibility tolerance as a dotted line
+    when given; evaluations whose sizing loop did not close are marked along the bottom and
+    counted in the title, never dropped.
 
     Parameters
     ----------
@@ -595,7 +983,9 @@ def plot_history(history, path, objective_label='objective'):
     path : str
         Destination PNG.
     objective_label : str
-        Label (with units) of the objective axis.
+        Label of the objective axis, with units in brackets.
+    feasibility_tolerance : float or None
+        Largest relative violation accepted as feasible (drawn when given).
 
     Returns
     -------
@@ -614,8 +1004,9 @@ def plot_history(history, path, objective_label='objective'):
     ax.plot(
         evals[ok], objective[ok], 'o-', color='tab:blue', markersize=3, label='objective (closed)'
     )
-    ax.set_xlabel('evaluation')
+    ax.set_xlabel('model evaluation [number]')
     ax.set_ylabel(objective_label, color='tab:blue')
+    ax.grid(True, alpha=0.3)
     right = ax.twinx()
     shown = np.where(np.isfinite(violation), violation, np.nan)
     right.semilogy(
@@ -627,7 +1018,19 @@ def plot_history(history, path, objective_label='objective'):
         linewidth=1.0,
         label='worst constraint violation',
     )
-    right.set_ylabel(f'worst constraint violation (floor {VIOLATION_FLOOR:g})', color='tab:orange')
+    if feasibility_tolerance is not None:
+        right.axhline(
+            feasibility_tolerance,
+            color='tab:orange',
+            linestyle=':',
+            linewidth=1.0,
+            label=f'feasible below {feasibility_tolerance:g}',
+        )
+    right.set_ylabel(
+        f'worst constraint violation, relative to its bound [-] (0 drawn at {VIOLATION_FLOOR:g})',
+        color='tab:orange',
+        fontsize=9,
+    )
     handles = ax.get_legend_handles_labels()[0] + right.get_legend_handles_labels()[0]
     failed = int((~closed).sum())
     if failed:
@@ -645,17 +1048,20 @@ def plot_history(history, path, objective_label='objective'):
     return _save(fig, path, {'evaluations': len(history), 'failed': failed})
 
 
-def plot_histogram(values, path, x_label, title, vertical_line=0.0):
+def plot_histogram(
+    values, path, x_label, title, vertical_line=0.0, closed=None, win_label='below the line'
+):
     """
-    Draw a histogram of sampled values with a break-even line.
+    Draw a histogram of sampled values with the break-even line and the winning side shaded.
 
-    The share of finite samples below ``vertical_line`` is given in the title; samples
-    that are not finite (e.g. points that did not close) are counted there and left out.
+    The share of the samples with a result below ``vertical_line`` is given in the title.
+    Samples without a result (their sizing loop did not close, or the value is not finite)
+    are counted in the title and the legend, never dropped silently.
 
     Parameters
     ----------
     values : array_like
-        The samples (1-D).
+        The samples (1-D); NaN where a sample has no result.
     path : str
         Destination PNG.
     x_label : str
@@ -664,42 +1070,72 @@ def plot_histogram(values, path, x_label, title, vertical_line=0.0):
         Figure title.
     vertical_line : float
         Position of the break-even line.
+    closed : array_like or None
+        True where the sizing loop closed (None: every finite value).
+    win_label : str
+        Legend text of the shaded side below the line.
 
     Returns
     -------
     PlotFile
-        The path; ``details`` holds 'share_below' (fraction, 0..1), 'samples' (finite)
-        and 'dropped' (not finite).
+        The path; ``details`` holds 'share_below' (fraction of the samples with a result,
+        0..1), 'samples' (with a result) and 'dropped' (without).
     """
     values = np.asarray(values, dtype=float).ravel()
-    finite = values[np.isfinite(values)]
+    usable = np.isfinite(values)
+    if closed is not None:
+        closed = np.asarray(closed, dtype=bool).ravel()
+        if closed.shape != values.shape:
+            raise ValueError(f'closed flags have shape {closed.shape}; expected {values.shape}')
+        usable &= closed
+    finite = values[usable]
     if finite.size == 0:
         raise ValueError('no finite samples to draw')
     share = float(np.mean(finite < vertical_line))
-    fig = _new_figure((7.0, 5.0))
+    fig = _new_figure((7.5, 5.0))
     ax = fig.add_subplot()
     ax.hist(
         finite,
         bins=min(40, max(5, int(np.sqrt(finite.size)))),
         color='tab:blue',
         edgecolor='white',
-        label=f'{finite.size} samples',
+        label=f'{finite.size} samples with a result',
     )
-    ax.axvline(vertical_line, color='k', linewidth=2.0, label=f'break-even ({vertical_line:g})')
+    low, high = min(finite.min(), vertical_line), max(finite.max(), vertical_line)
+    pad = 0.08 * (high - low if high > low else 1.0)
+    ax.set_xlim(low - pad, high + pad)
+    ax.axvspan(low - pad, vertical_line, color='tab:green', alpha=0.08, label=win_label)
+    ax.axvline(vertical_line, color='k', linewidth=2.0, label=f'break-even ({vertical_line:g} %)')
     ax.set_xlabel(x_label)
-    ax.set_ylabel('samples')
+    ax.set_ylabel('samples [number]')
+    ax.grid(True, axis='y', alpha=0.3)
     dropped = int(values.size - finite.size)
-    note = f'{100.0 * share:.1f} % of samples below {vertical_line:g}'
     if dropped:
-        note += f'; {dropped} samples not finite, left out'
-    ax.set_title(f'{title}\n({note})')
+        ax.plot([], [], ' ', label=f'{dropped} samples did not close (not shown)')
+    note = (
+        f'{100.0 * share:.1f} % of the {finite.size} samples with a result lie below '
+        f'{vertical_line:g}'
+    )
+    if dropped:
+        note += f'; {dropped} of {values.size} did not close'
+    ax.set_title(f'{title}\n{note}', fontsize=11)
     ax.legend(fontsize=9)
     return _save(fig, path, {'share_below': share, 'samples': int(finite.size), 'dropped': dropped})
 
 
-def plot_line(x, ys, x_label, y_label, path, title=None):
+def plot_line(
+    x,
+    ys,
+    x_label,
+    y_label,
+    path,
+    title=None,
+    status=None,
+    zero_line=None,
+    vertical=None,
+):
     """
-    Draw one or more curves against a swept quantity.
+    Draw one or more curves against a swept quantity, with failed points marked.
 
     Parameters
     ----------
@@ -713,25 +1149,74 @@ def plot_line(x, ys, x_label, y_label, path, title=None):
         Destination PNG.
     title : str or None
         Figure title (default: "<y_label> versus <x_label>").
+    status : sequence of str or None
+        Status of each point (``OK``, ``INFEASIBLE`` or ``NOT_CLOSED``); failed points are
+        drawn along the bottom of the axes with their own symbols and counted in the legend.
+        None: a non-finite value is a point that did not close.
+    zero_line : str or None
+        Label of a horizontal line at 0 (e.g. 'break-even'); None for no line.
+    vertical : tuple or None
+        (x, label) of a vertical line (e.g. the break-even value).
 
     Returns
     -------
     PlotFile
-        The path; ``details`` holds 'curves' (the labels).
+        The path; ``details`` holds 'curves' (the labels), 'not_closed' and 'infeasible'
+        (counts).
     """
     x = np.asarray(x, dtype=float)
     if not ys:
         raise ValueError('no curves to draw')
-    fig = _new_figure((7.0, 5.0))
-    ax = fig.add_subplot()
+    curves = {}
     for label, values in ys.items():
         values = np.asarray(values, dtype=float)
         if values.shape != x.shape:
             raise ValueError(f'curve {label!r} has shape {values.shape}; expected {x.shape}')
-        ax.plot(x, values, 'o-', markersize=3, label=str(label))
+        curves[str(label)] = values
+    if status is None:
+        bad = ~np.all([np.isfinite(v) for v in curves.values()], axis=0)
+        status = np.where(bad, NOT_CLOSED, OK)
+    status = np.asarray(list(status), dtype=object)
+    if status.shape != x.shape:
+        raise ValueError(f'status has shape {status.shape}; expected {x.shape}')
+    fig = _new_figure((7.5, 5.0))
+    ax = fig.add_subplot()
+    for label, values in curves.items():
+        good = status == OK
+        ax.plot(x[good], values[good], 'o-', markersize=4, label=label)
+    if zero_line:
+        ax.axhline(0.0, color='k', linewidth=1.5, label=zero_line)
+    if vertical is not None:
+        ax.axvline(vertical[0], color='tab:green', linewidth=1.5, linestyle='--', label=vertical[1])
+    counts = {}
+    for kind, (symbol, colour, text) in _FAILED_STYLE.items():
+        where = status == kind
+        counts[kind] = int(where.sum())
+        if where.any():
+            ax.plot(
+                x[where],
+                np.zeros(counts[kind]),
+                symbol,
+                color=colour,
+                markerfacecolor='none',
+                markersize=8,
+                markeredgewidth=1.5,
+                transform=ax.get_xaxis_transform(),
+                clip_on=False,
+                linestyle='none',
+                label=f'{text} ({counts[kind]})',
+            )
     ax.set_xlabel(x_label)
     ax.set_ylabel(y_label)
-    ax.set_title(title or f'{y_label} versus {x_label}')
+    ax.set_title(title or f'{y_label} versus {x_label}', fontsize=11)
     ax.grid(True, alpha=0.3)
     ax.legend(fontsize=9)
-    return _save(fig, path, {'curves': [str(label) for label in ys]})
+    return _save(
+        fig,
+        path,
+        {
+            'curves': list(curves),
+            'not_closed': counts[NOT_CLOSED],
+            'infeasible': counts[INFEASIBLE],
+        },
+    )

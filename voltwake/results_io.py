@@ -40,9 +40,37 @@ def prepare_out_dir(path, force=False):
     return path
 
 
+def current_umask():
+    """
+    Return the process's file-mode creation mask without changing it for long.
+
+    Linux reports it in ``/proc/self/status``; elsewhere it is read by setting and
+    restoring it (``os.umask`` has no read-only form).
+
+    Returns
+    -------
+    int
+        The umask, e.g. ``0o022``.
+    """
+    try:
+        with open('/proc/self/status', encoding='ascii') as handle:
+            for line in handle:
+                if line.startswith('Umask:'):
+                    return int(line.split()[1], 8)
+    except (OSError, ValueError, IndexError):
+        pass
+    mask = os.umask(0o022)
+    os.umask(mask)
+    return mask
+
+
 def write_atomic(path, text):
     """
     Write ``text`` to ``path`` through a temporary file and a rename.
+
+    The temporary file of :func:`tempfile.mkstemp` is readable by its owner only (0600);
+    before the rename it gets the mode any file the user writes gets, ``0o666 & ~umask``,
+    so colleagues can read the results when the user's umask allows it.
 
     Parameters
     ----------
@@ -56,6 +84,7 @@ def write_atomic(path, text):
     try:
         with os.fdopen(fd, 'w', encoding='utf-8') as handle:
             handle.write(text)
+        os.chmod(tmp, 0o666 & ~current_umask())
         os.replace(tmp, path)
     except BaseException:
         if os.path.exists(tmp):

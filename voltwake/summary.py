@@ -364,3 +364,114 @@ def sweep_text(summaries, out_dir=None):
         lines.append(f'results written to {out_dir}')
     lines.append(CAUTION)
     return '\n'.join(lines)
+
+
+#: Words for config key paths that studies and optimisations commonly vary.
+INPUT_LABELS = {
+    'wing.loading': 'wing loading',
+    'wing.area': 'wing area',
+    'wing.aspect_ratio': 'wing aspect ratio',
+    'wing.sweep': 'wing sweep (quarter chord)',
+    'wing.thickness_to_chord': 'wing thickness-to-chord ratio',
+    'turbofans.fan_pressure_ratio': 'turbofan fan pressure ratio',
+    'turbofans.rated_to_cruise_thrust': 'turbofan rated-to-cruise thrust ratio',
+    'aft_fan.thrust_fraction': 'aft-fan thrust fraction',
+    'aft_fan.fan_pressure_ratio': 'aft-fan fan pressure ratio',
+    'aft_fan.fan_efficiency': 'aft-fan efficiency (clean inflow)',
+    'electrical.cable.voltage': 'bus voltage',
+    'mission.cruise_altitude': 'cruise altitude',
+    'mission.cruise_mach': 'cruise Mach number',
+    'mission.range': 'design range',
+}
+
+#: Units shown to a reader for SI units that make long numbers: SI unit -> (shown, factor).
+DISPLAY_UNITS = {
+    'W/kg': ('kW/kg', 1e-3),
+    'W': ('kW', 1e-3),
+    'rad': ('deg', 57.29577951308232),
+    'Pa': ('kPa', 1e-3),
+    'N': ('kN', 1e-3),
+    'J/kg': ('MJ/kg', 1e-6),
+}
+
+
+def input_label(path):
+    """
+    Return the words for a config key path (or a model output name).
+
+    Parameters
+    ----------
+    path : str
+        Dotted config key path, e.g. ``'electrical.motor.specific_power'``.
+
+    Returns
+    -------
+    str
+        E.g. ``'motor specific power'``.
+    """
+    if path in INPUT_LABELS:
+        return INPUT_LABELS[path]
+    parts = path.split('.')
+    section = {'aft_fan': 'aft-fan', 'turbofans': 'turbofan', 'electrical': ''}.get(
+        parts[0], parts[0]
+    )
+    words = ([section] if section else []) + parts[1:] if len(parts) > 1 else parts
+    return ' '.join(w.replace('_', ' ') for w in words if w).strip()
+
+
+def display_units(units):
+    """
+    Return the units a reader sees for SI ``units`` and the factor from SI to them.
+
+    Parameters
+    ----------
+    units : str or None
+        SI units of a value (None or '' for a dimensionless one).
+
+    Returns
+    -------
+    tuple
+        (shown units or '', factor): shown value = factor * SI value.
+    """
+    if not units:
+        return '', 1.0
+    return DISPLAY_UNITS.get(units, (units, 1.0))
+
+
+def pretty_units(units):
+    """
+    Return units as a reader writes them (``kg/m**2`` -> ``kg/m²``).
+
+    Parameters
+    ----------
+    units : str or None
+        Units in OpenMDAO's notation.
+
+    Returns
+    -------
+    str
+        The units ('-' for none).
+    """
+    if not units or units == '-':
+        return '-'
+    return units.replace('**2', '²').replace('**3', '³').replace('*', '·')
+
+
+def axis_label(path, units):
+    """
+    Return an axis or column label with units in brackets, in the units a reader sees.
+
+    Parameters
+    ----------
+    path : str
+        Dotted config key path.
+    units : str or None
+        SI units of its values.
+
+    Returns
+    -------
+    str
+        E.g. ``'motor specific power [kW/kg]'``.
+    """
+    shown, _ = display_units(units)
+    return f'{input_label(path)} [{pretty_units(shown)}]'

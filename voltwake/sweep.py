@@ -6,12 +6,15 @@ CSV, JSON/YAML summaries, plots and an HTML report are written under ``--out``.
 
 import math
 import os
+import sys
 
 import numpy as np
 
 from .config import field_at, load_config, parse_quantity
 from .errors import ConfigError
+from .plots import NOT_CLOSED, OK, point_status
 from .studies import design_space_map, monte_carlo, parse_axis, points_csv
+from .summary import axis_label, display_units, input_label, pretty_units
 
 _STUDY_KEYS = ('map', 'targets', 'breakeven', 'uncertainty')
 
@@ -23,7 +26,7 @@ def _axis_from_spec(path, spec, where_path, need_count=True):
         raise ConfigError('not a model input; expected a config key path', **where)
     if 'values' in spec and isinstance(spec['values'], list) and spec['values']:
         return [
-            parse_quantity(v, field.units, where) if field.units else float(v)
+            parse_quantity(v, field.units, where, key=path) if field.units else float(v)
             for v in spec['values']
         ]
     keys = {'lower', 'upper', 'count'} if need_count else {'lower', 'upper'}
@@ -32,7 +35,7 @@ def _axis_from_spec(path, spec, where_path, need_count=True):
             f'got {spec!r}; expected {{{", ".join(sorted(keys))}}} or {{values: [...]}}', **where
         )
     lo, hi = (
-        parse_quantity(spec[k], field.units, where) if field.units else float(spec[k])
+        parse_quantity(spec[k], field.units, where, key=path) if field.units else float(spec[k])
         for k in ('lower', 'upper')
     )
     if not need_count:
@@ -145,33 +148,72 @@ def study_spec(config, maps=(), targets=(), breakeven=None, samples=None, seed=N
     return spec
 
 
-def _label(path):
+def _axis(path, values):
+    """Return the axis label (words and the units a reader sees) and the values in them."""
     field = field_at(path)
-    units = f' [{field.units}]' if field is not None and field.units else ''
-    return f'{path}{units}'
+    values = np.asarray(values, dtype=float)
+    if field is None:  # a model output held as a target: in the output's own units
+        return f'{input_label(path)} [model units]', values
+    _, factor = display_units(field.units)
+    return axis_label(path, field.units), values * factor
+
+
+def _label(path):
+    return _axis(path, [])[0]
+
+
+def _statuses(rows):
+    return [point_status(r) for r in rows]
 
 
 def _grid_arrays(axes, rows, key):
     paths = list(axes)
     ny, nx = len(axes[paths[0]]), len(axes[paths[1]])
     z = np.array([r.get(key, math.nan) for r in rows], dtype=float).reshape(ny, nx)
-    closed = np.array([bool(r.get('closed', r.get('success', False))) for r in rows]).reshape(
-        ny, nx
-    )
-    return np.asarray(axes[paths[1]]), np.asarray(axes[paths[0]]), z, closed
+    status = np.array(_statuses(rows), dtype=object).reshape(ny, nx)
+    closed = status != NOT_CLOSED
+    _, x = _axis(paths[1], axes[paths[1]])
+    _, y = _axis(paths[0], axes[paths[0]])
+    return x, y, z, closed, status == OK
 
 
-def _plots(kind, result, out_dir):
+def _design_marker(config, paths):
+    """Return the configured design on a map: (x, y, label) in the axes' units, or None."""
+    if config is None:
+        return None
+    try:
+        xv = _axis(paths[1], [config.values[paths[1]]])[1][0]
+        yv = _axis(paths[0], [config.values[paths[0]]])[1][0]
+    except (KeyError, TypeError, ValueError):
+        return None
+    return float(xv), float(yv), 'configured design'
+
+
+def _plots(kind, result, out_dir, config=None):
+    """
+    Draw the figures of one study; return the written paths.
+
+    When matplotlib cannot be imported the study keeps its CSV and summaries, and the reason
+    is returned in ``result['figures_note']`` (shown in the report) and printed on stderr.
+    """
     try:
         from . import plots
     except ImportError:  # pragma: no cover - the module itself has no hard dependency
         return []
     made = []
+    rows = result.get('points') or []
     try:
         axes = result.get('axes') or result.get('target_axes')
         if kind in ('map', 'targets') and axes and len(axes) == 2:
-            x, y, z, closed = _grid_arrays(axes, result['points'], 'fuel_burn_change_percent')
+            x, y, z, closed, ok = _grid_arrays(axes, rows, 'fuel_burn_change_percent')
             paths = list(axes)
+            feasible = ok if kind == 'targets' else None
+            marker = _design_marker(config, paths) if kind == 'map' else None
+            reference = (
+                'the conventional reference as configured (not optimised)'
+                if kind == 'map'
+                else 'the optimised conventional reference'
+            )
             made.append(
                 plots.plot_fuel_map(
                     x,
@@ -181,9 +223,13 @@ def _plots(kind, result, out_dir):
                     _label(paths[1]),
                     _label(paths[0]),
                     os.path.join(out_dir, f'{kind}_fuel_change.png'),
+                    title=f'Fuel-burn change versus {reference}',
+                    feasible=feasible,
+                    marker=marker,
+                    bar_label=f"{_fuel_words(result)} change versus the reference [%]",
                 )
             )
-            _, _, psc, _ = _grid_arrays(axes, result['points'], 'power_saving_coefficient')
+            _, _, psc, _, _ = _grid_arrays(axes, rows, 'power_saving_coefficient')
             made.append(
                 plots.plot_psc_map(
                     x,
@@ -193,60 +239,92 @@ def _plots(kind, result, out_dir):
                     _label(paths[1]),
                     _label(paths[0]),
                     os.path.join(out_dir, f'{kind}_psc.png'),
+                    feasible=feasible,
+                    marker=marker,
                 )
             )
         if kind == 'targets' and axes and len(axes) == 1:
             ((path, values),) = axes.items()
-            change = [r.get('fuel_burn_change_percent', math.nan) for r in result['points']]
+            change = [r.get('fuel_burn_change_percent', math.nan) for r in rows]
             made.append(
                 plots.plot_line(
-                    values,
+                    _axis(path, values)[1],
                     {'optimised design vs optimised reference': change},
                     _label(path),
-                    'block-fuel change [%]',
+                    f'{_fuel_words(result)} change versus the reference [%]',
                     os.path.join(out_dir, 'targets_fuel_change.png'),
+                    title='Fuel-burn change of the optimised design versus the optimised reference',
+                    status=_statuses(rows),
+                    zero_line='break-even (0 %)',
                 )
             )
         if kind == 'targets':
-            best = _best_row(result['points'])
+            best = _best_row(rows)
             ref = (result.get('reference') or {}).get('outputs')
             if best is not None and ref:
                 made.append(
                     plots.plot_mass_breakdown(
-                        _row_masses(best),
-                        ref,
+                        {'optimised reference': ref, 'best target point': _row_masses(best)},
                         os.path.join(out_dir, 'targets_mass_breakdown.png'),
-                        design_label='best target point',
-                        reference_label='reference',
+                        title='Mass breakdown of the best target point beside the optimised '
+                        'reference',
                     )
                 )
-        if kind == 'breakeven' and result.get('points'):
+        if kind == 'breakeven' and rows:
             path = result['path']
-            rows = sorted(result['points'], key=lambda r: r[path])
-            change = [r['fuel_burn_change_percent'] for r in rows]
+            rows = sorted(rows, key=lambda r: r[path])
+            x = _axis(path, [r[path] for r in rows])[1]
+            shown, factor = display_units(result.get('units'))
+            span = (
+                f"{result['lower'] * factor:g}–{result['upper'] * factor:g} "
+                f"{pretty_units(shown) if shown else ''}"
+            ).strip()
+            found = result.get('found') and result.get('value') is not None
+            vertical = None
+            if found:
+                value = result['value'] * factor
+                vertical = (value, f'break-even {value:.4g} {pretty_units(shown)}')
+                title = f'Break-even {input_label(path)}: {value:.4g} {pretty_units(shown)}'
+            else:
+                title = f'No break-even of {input_label(path)} in {span}'
             made.append(
                 plots.plot_line(
-                    [r[path] for r in rows],
-                    {'optimised design vs optimised reference': change},
-                    _label(result['path']),
-                    'block-fuel change [%] (0 = break-even)',
+                    x,
+                    {
+                        'optimised design vs optimised reference': [
+                            r['fuel_burn_change_percent'] for r in rows
+                        ]
+                    },
+                    _label(path),
+                    f'{_fuel_words(result)} change versus the reference [%]',
                     os.path.join(out_dir, 'breakeven.png'),
-                    title=f"Break-even of {result['path']}",
+                    title=title,
+                    zero_line='break-even (0 %)',
+                    vertical=vertical,
                 )
             )
         if kind == 'montecarlo':
-            change = [r['fuel_burn_change_percent'] for r in result['points'] if r['closed']]
             made.append(
                 plots.plot_histogram(
-                    change,
+                    [r.get('fuel_burn_change_percent', math.nan) for r in rows],
                     os.path.join(out_dir, 'montecarlo.png'),
-                    'block-fuel change versus reference [%]',
-                    'Monte Carlo over technology inputs',
+                    f'{_fuel_words(result)} change versus the reference [%]',
+                    'Monte Carlo over the technology inputs',
+                    closed=[point_status(r) == OK for r in rows],
+                    win_label='turbo-electric design wins',
                 )
             )
-    except ConfigError:
-        return made  # matplotlib missing: the study still has its CSV and summaries
+    except ConfigError as err:  # matplotlib missing: the study still has its CSV and summaries
+        result['figures_note'] = f'no figures drawn: {err.message}'
+        print(f"voltwake: note: {result['figures_note']}", file=sys.stderr)
+        return made
     return made
+
+
+def _fuel_words(result):
+    if result.get('fuel_burn_measured_on') == 'economic_block_fuel_kg':
+        return 'economic-mission block-fuel'
+    return 'block-fuel'
 
 
 def _best_row(rows):
@@ -331,10 +409,15 @@ def run_sweep(config, spec, jobs=None, out_dir=None, progress=None):
             if points:
                 write_atomic(os.path.join(out_dir, f'{name}_points.csv'), points_csv(points))
                 result['points'] = points
-            plots = _plots(result.get('kind', name), result, out_dir)
+            plots = _plots(result.get('kind', name), result, out_dir, config)
             result.pop('points', None)
             result['plots'] = [os.path.basename(p) for p in plots]
-            write_results(out_dir, f'{name}_summary', {'status': 'complete', **_clean(result)})
+            # The configuration the study ran on, for the report's collapsible copy.
+            write_results(
+                out_dir,
+                f'{name}_summary',
+                {'status': 'complete', **_clean(result), 'config': config.data},
+            )
     if out_dir:
         from .report import write_report
 
@@ -360,6 +443,8 @@ def _run_study(kind, config, spec, jobs, progress):
         result = breakeven(config, path, lo, hi, jobs=jobs)
         result['kind'] = 'breakeven'
         result['sensitivities'] = technology_sensitivities(config)
+        if result.get('found'):
+            result['design_at_value'] = _optimum_at(config, path, result['value'])
         # Every optimised evaluation of the root solve is a point of the study's CSV.
         result['points'] = [
             {
@@ -372,6 +457,22 @@ def _run_study(kind, config, spec, jobs, progress):
         return result
     unc = spec['uncertainty']
     return monte_carlo(config, unc['distributions'], unc['samples'], unc['seed'])
+
+
+def _optimum_at(config, path, value):
+    """
+    Optimise the design with ``path`` fixed at ``value``: what holds it at the break-even.
+
+    Returns
+    -------
+    dict
+        ``success``, ``message``, ``design`` (path -> value) and ``active`` (active
+        constraints and ``'bound:<path>'`` for design variables at a bound).
+    """
+    from .target_sweep import fixed_config, optimize_job
+
+    res = optimize_job({'data': fixed_config(config, {path: value}).data})
+    return {k: res[k] for k in ('success', 'message', 'design', 'active')}
 
 
 def _clean(value):
