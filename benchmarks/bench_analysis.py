@@ -10,8 +10,8 @@ import time
 
 os.environ.setdefault('OPENMDAO_REPORTS', '0')
 
-from voltwake.analysis import build_model_problem, run_sizing  # noqa: E402
-from voltwake.config import demo_path, load_config  # noqa: E402
+from voltwake.configuration.loader import demo_path, load_config
+from voltwake.design.sizing import build_model_problem, run_sizing
 
 
 def main(repeats=7):

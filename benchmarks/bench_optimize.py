@@ -21,9 +21,9 @@ os.environ.setdefault('OPENMDAO_REPORTS', '0')
 
 import numpy as np
 
-from voltwake.analysis import set_model_inputs
-from voltwake.config import load_config
-from voltwake.optimization import build_problem
+from voltwake.configuration.loader import load_config
+from voltwake.design.optimization import build_problem
+from voltwake.design.sizing import set_model_inputs
 
 
 def run_optimization(config, fd_totals):
@@ -132,7 +132,7 @@ def cli_command():
     probe = subprocess.run(cli + ['optimize', '--help'], capture_output=True, check=False)
     if probe.returncode == 0:
         return cli + ['optimize'], ''
-    code = 'import voltwake.optimization as o; o.optimize()'
+    code = 'import voltwake.design.optimization as o; o.optimize()'
     return [sys.executable, '-c', code], (
         f"'voltwake optimize' is not available: timed python -c '{code}' instead"
     )

@@ -20,8 +20,8 @@ os.environ.setdefault('OPENMDAO_REPORTS', '0')
 import numpy as np  # noqa: E402
 
 import voltwake  # noqa: E402
-from voltwake.batch import analyze_points, full_factorial  # noqa: E402
-from voltwake.target_sweep import target_sweep  # noqa: E402
+from voltwake.design.batch import analyze_points, full_factorial
+from voltwake.studies.target_sweep import target_sweep
 
 AXES = {
     'aft_fan.fan_pressure_ratio': np.linspace(1.15, 1.6, 100),
@@ -31,7 +31,7 @@ AXES = {
 _RSS_CHILD = """
 import os, resource, json, numpy as np, warnings
 warnings.simplefilter('ignore')
-from voltwake.batch import analyze_points, full_factorial
+from voltwake.design.batch import analyze_points, full_factorial
 axes = {'aft_fan.fan_pressure_ratio': np.linspace(1.15, 1.6, 100),
         'aft_fan.thrust_fraction': np.linspace(0.05, 0.45, 100)}
 before = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss

@@ -18,8 +18,8 @@ os.environ.setdefault('OPENMDAO_REPORTS', '0')  # no OpenMDAO report files
 
 import numpy as np  # noqa: E402
 
-from voltwake.batch import analyze_points  # noqa: E402
-from voltwake.config import demo_path  # noqa: E402
+from voltwake.configuration.loader import demo_path
+from voltwake.design.batch import analyze_points
 
 #: Cruise Mach numbers of the table.
 MACHS = np.round(np.arange(0.70, 0.951, 0.025), 3)

@@ -16,7 +16,7 @@ os.environ.setdefault('OPENMDAO_REPORTS', '0')  # no OpenMDAO report files
 
 import openmdao.api as om
 
-from voltwake.optimization import optimize
+from voltwake.design.optimization import optimize
 
 CASE_FILE = 'optimization_cases.sql'
 

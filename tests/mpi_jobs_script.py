@@ -3,7 +3,7 @@ Run under ``mpiexec -n 2`` by tests/test_parallel_mpi.py (not a test module itse
 
 Usage: ``python mpi_jobs_script.py OUT TARGETS_JSON``. Every rank runs a small target sweep
 of the packaged demo and a map_jobs call in which one item raises, both through
-:func:`voltwake.parallel.map_jobs` on the MPI ranks, and writes what it got to
+:func:`voltwake.studies.parallel.map_jobs` on the MPI ranks, and writes what it got to
 ``OUT.<rank>.json``.
 """
 
@@ -11,8 +11,8 @@ import json
 import sys
 import warnings
 
-from voltwake.parallel import is_root, map_jobs, mpi_comm
-from voltwake.target_sweep import target_sweep
+from voltwake.studies.parallel import is_root, map_jobs, mpi_comm
+from voltwake.studies.target_sweep import target_sweep
 
 
 def fail_on_odd(item):

@@ -7,11 +7,11 @@ import pytest
 from openmdao.utils.assert_utils import assert_check_totals
 
 import voltwake
-from voltwake.analysis import build_model_problem, run_sizing
-from voltwake.batch import analyze_points
-from voltwake.config import demo_path, load_config
+from voltwake.configuration.loader import demo_path, load_config
+from voltwake.design.batch import analyze_points
+from voltwake.design.optimization import build_problem
+from voltwake.design.sizing import build_model_problem, run_sizing
 from voltwake.errors import ConfigError
-from voltwake.optimization import build_problem
 
 CONVENTIONAL = demo_path('conventional')
 TURBO_ELECTRIC = demo_path('turbo_electric')
@@ -120,7 +120,7 @@ def test_the_economic_objective_needs_its_section():
 
 @pytest.mark.parametrize('path', [CONVENTIONAL, TURBO_ELECTRIC])
 def test_total_derivatives_through_both_missions(path):
-    from voltwake.derivatives import check_totals_cs
+    from voltwake.design.derivatives import check_totals_cs
 
     config = load_config(path)
     prob = build_model_problem(config, vec_size=3)
@@ -136,7 +136,7 @@ def test_total_derivatives_through_both_missions(path):
 
 
 def test_fuel_burn_follows_an_economic_objective():
-    from voltwake.compare import compare
+    from voltwake.design.compare import compare
 
     comparison = compare(
         TURBO_ELECTRIC, {'optimization.objective': 'economic_block_fuel'}, optimized=False
@@ -155,7 +155,7 @@ def test_cruise_mach_and_altitude_as_design_variables():
     # Block fuel alone does not price time: with the wave drag the optimiser slows down to
     # its lowest allowed Mach number, where the wing needs no sweep and the engines prefer a
     # low fan pressure ratio; the altitude is interior, held by the buffet margin.
-    from voltwake.optimization import optimize
+    from voltwake.design.optimization import optimize
 
     data = copy.deepcopy(load_config(TURBO_ELECTRIC).without_aft_fan().data)
     spec = data['optimization']

@@ -4,11 +4,11 @@ import math
 
 import pytest
 
-from voltwake.analysis import analyze
-from voltwake.breakeven import breakeven, default_technology_paths, technology_sensitivities
-from voltwake.config import demo_path, load_config
+from voltwake.configuration.loader import demo_path, load_config
+from voltwake.design.analysis import analyze
+from voltwake.design.optimization import optimize
 from voltwake.errors import ConfigError, OptimizationError
-from voltwake.optimization import optimize
+from voltwake.studies.breakeven import breakeven, default_technology_paths, technology_sensitivities
 
 DEMO = load_config(demo_path('turbo_electric'))
 MOTOR = 'electrical.motor.specific_power'
@@ -60,7 +60,7 @@ def _synthetic_optimisation(job):
 
 def test_brent_finds_a_breakeven_where_the_difference_changes_sign(monkeypatch):
     # The root finding and its report, on a stand-in whose break-even is known (4000 W/kg).
-    monkeypatch.setattr('voltwake.breakeven.optimize_job', _synthetic_optimisation)
+    monkeypatch.setattr('voltwake.studies.breakeven.optimize_job', _synthetic_optimisation)
     result = breakeven(DEMO, MOTOR, 3000.0, 5000.0, jobs=1, xtol=1e-3)
     assert result['found'], result['message']
     assert result['path'] == MOTOR and result['units'] == 'W/kg'
@@ -73,7 +73,7 @@ def test_brent_finds_a_breakeven_where_the_difference_changes_sign(monkeypatch):
 
 
 def test_no_sign_change_is_reported_not_raised(monkeypatch):
-    monkeypatch.setattr('voltwake.breakeven.optimize_job', _synthetic_optimisation)
+    monkeypatch.setattr('voltwake.studies.breakeven.optimize_job', _synthetic_optimisation)
     result = breakeven(DEMO, MOTOR, 9000.0, 20000.0, jobs=1)
     assert result['found'] is False
     assert math.isnan(result['value'])

@@ -1,5 +1,5 @@
 """
-Tests of configuration loading and validation (voltwake.config, voltwake.yamlio).
+Tests of configuration loading and validation (voltwake.configuration.loader, voltwake.yamlio).
 
 Every bad configuration must end in one ConfigError whose one-line message names the file,
 the line (when the file has one), the dotted key path, the value as written and what was
@@ -14,8 +14,14 @@ import time
 import numpy as np
 import pytest
 
-from voltwake import yamlio
-from voltwake.config import Config, demo_path, load_config, parse_quantity, parse_yaml_text
+from voltwake.configuration import yamlio
+from voltwake.configuration.loader import (
+    Config,
+    demo_path,
+    load_config,
+    parse_quantity,
+    parse_yaml_text,
+)
 from voltwake.errors import EXIT_BAD_INPUT, ConfigError
 
 TURBO = demo_path('turbo_electric')
@@ -1001,8 +1007,8 @@ def test_a_bare_number_inside_its_range_and_zero_are_taken_as_si():
 def test_a_bare_number_is_checked_on_the_command_line_and_in_bounds_and_axes():
     err = config_error(TURBO, ['mission.range=1500'])
     assert err.source == '--set' and 'did you forget the unit?' in err.message
-    from voltwake.optimization import build_problem
-    from voltwake.studies import parse_axis
+    from voltwake.design.optimization import build_problem
+    from voltwake.studies.maps import parse_axis
 
     data = load_config(TURBO).data
     data['optimization']['design_variables']['electrical.cable.voltage'] = {
@@ -1021,7 +1027,7 @@ def test_a_bare_number_is_checked_on_the_command_line_and_in_bounds_and_axes():
 
 
 def test_demos_load_by_name():
-    from voltwake.config import demo_names
+    from voltwake.configuration.loader import demo_names
 
     assert demo_names() == ['demo_conventional', 'demo_turbo_electric']
     assert load_config('demo_conventional').source == demo_path('conventional')
@@ -1036,7 +1042,7 @@ def test_a_misspelt_design_variable_gets_its_line_and_a_suggestion(tmp_path):
     index = next(i for i, s in enumerate(lines) if s.strip().startswith('wing.aspect_ratio:'))
     lines[index] = lines[index].replace('wing.aspect_ratio', 'wing.aspect_ratoi')
     file = write(tmp_path, '\n'.join(lines) + '\n')
-    from voltwake.optimization import build_problem
+    from voltwake.design.optimization import build_problem
 
     with pytest.raises(ConfigError) as info:
         build_problem(file)
@@ -1046,7 +1052,7 @@ def test_a_misspelt_design_variable_gets_its_line_and_a_suggestion(tmp_path):
 
 
 def test_both_demos_optimise():
-    from voltwake.optimization import optimize
+    from voltwake.design.optimization import optimize
 
     result = optimize('demo_conventional')
     assert result.success, result.message

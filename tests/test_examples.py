@@ -9,7 +9,7 @@ from pathlib import Path
 import numpy as np
 import openmdao.api as om
 
-from voltwake.config import load_config
+from voltwake.configuration.loader import load_config
 
 REPO = Path(__file__).resolve().parents[1]
 HAS_MATPLOTLIB = importlib.util.find_spec('matplotlib') is not None

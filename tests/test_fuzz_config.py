@@ -18,7 +18,7 @@ end in one of three ways:
 Never a traceback, never exit 1 (internal error), never a hang. The counts of every
 outcome are printed at the end of the fuzzing test.
 
-The oracle for lines is independent of :mod:`voltwake.yamlio`: the line of every key is
+The oracle for lines is independent of the YAML reader (configuration.yamlio): each key line is
 taken from PyYAML's own composer (``yaml.compose``) run on the mutated text.
 """
 
@@ -41,9 +41,9 @@ import yaml
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-from voltwake import yamlio
 from voltwake.cli import main
-from voltwake.config import demo_path, field_at, load_config
+from voltwake.configuration import yamlio
+from voltwake.configuration.loader import demo_path, field_at, load_config
 from voltwake.errors import EXIT_BAD_INPUT, EXIT_NOT_CLOSED, EXIT_OK, ConfigError
 
 DEMOS = {'turbo': demo_path('turbo_electric'), 'conventional': demo_path('conventional')}
@@ -151,7 +151,7 @@ _Loader.add_implicit_resolver(
 
 def shown_path(parts):
     """
-    The dotted key path as error messages show it (documented in voltwake.yamlio.key_path).
+    The dotted key path as error messages show it (see configuration.yamlio.key_path).
 
     A key that is empty, has spaces at either end or holds characters that are not printable
     is shown as its Python repr, so that the message stays on one line.
@@ -163,7 +163,7 @@ def key_lines(text):
     """
     Return shown key path -> (lines of the key, lines of its value), or None.
 
-    Taken from PyYAML's composer, independently of :mod:`voltwake.yamlio`. None when PyYAML
+    Taken from PyYAML's composer, independently of configuration.yamlio. None when PyYAML
     cannot compose the text (or it is too large to walk).
     """
     loader = None

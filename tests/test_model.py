@@ -5,9 +5,9 @@ import pytest
 from openmdao.utils.assert_utils import assert_check_totals
 
 import voltwake
-from voltwake.analysis import build_model_problem, run_sizing
-from voltwake.config import demo_path, load_config
-from voltwake.derivatives import check_totals_cs, checked_totals
+from voltwake.configuration.loader import demo_path, load_config
+from voltwake.design.derivatives import check_totals_cs, checked_totals
+from voltwake.design.sizing import build_model_problem, run_sizing
 
 CONVENTIONAL = demo_path('conventional')
 TURBO_ELECTRIC = demo_path('turbo_electric')

@@ -8,10 +8,10 @@ import pytest
 import yaml
 from openmdao.utils.assert_utils import assert_check_totals
 
-from voltwake.analysis import analyze
 from voltwake.cli import main
-from voltwake.config import demo_path, load_config
-from voltwake.optimization import build_problem, optimize
+from voltwake.configuration.loader import demo_path, load_config
+from voltwake.design.analysis import analyze
+from voltwake.design.optimization import build_problem, optimize
 
 TURBO_ELECTRIC = demo_path('turbo_electric')
 
@@ -115,7 +115,7 @@ def _starts(config):
 
 def _blend(config, fractions):
     """Design-variable values (SI) at the given fractions of their bounds."""
-    from voltwake.optimization import design_variables
+    from voltwake.design.constraints import design_variables
 
     bounds = {
         dv.path: (dv.lower, dv.upper) for dv in design_variables(config, config.model_inputs())
@@ -146,7 +146,7 @@ def test_infeasible_span_limit_is_not_a_success():
 
 
 def test_total_derivatives_of_the_optimisation_problem():
-    from voltwake.derivatives import check_totals_cs
+    from voltwake.design.derivatives import check_totals_cs
 
     prob = build_problem(TURBO_ELECTRIC)
     prob.run_model()
@@ -166,7 +166,7 @@ def test_cruise_altitude_as_a_design_variable(demo_optimum):
     }
     prob = build_problem(TURBO_ELECTRIC, overrides)
     prob.run_model()
-    from voltwake.derivatives import check_totals_cs
+    from voltwake.design.derivatives import check_totals_cs
 
     assert_check_totals(check_totals_cs(prob, driver_scaling=True), atol=1e-9, rtol=1e-7)
     result = optimize(TURBO_ELECTRIC, overrides)
@@ -277,7 +277,7 @@ def test_design_variable_scaling_and_bad_specs():
 
 
 def test_compare_optimized_reference_has_no_aft_fan(demo_optimum):
-    from voltwake.compare import compare
+    from voltwake.design.compare import compare
 
     comp = compare(TURBO_ELECTRIC, optimized=True)
     assert comp.design.values['block_fuel_kg'] == pytest.approx(
@@ -306,7 +306,7 @@ def test_ctrl_c_leaves_partial_results_and_a_readable_case_file(tmp_path):
     # the whole optimisation takes well under a second after the fifth evaluation.
     slowed = (
         'import sys, time\n'
-        'import voltwake.optimization as opt\n'
+        'import voltwake.design.optimization as opt\n'
         'log = opt.SizingOptimizeDriver._log\n'
         'def slow(self, closed):\n'
         '    log(self, closed)\n'

@@ -11,8 +11,8 @@ import time
 import numpy as np
 import pytest
 
-from voltwake.parallel import ProgressBar, is_root, map_jobs, mpi_comm
-from voltwake.target_sweep import target_sweep
+from voltwake.studies.parallel import ProgressBar, is_root, map_jobs, mpi_comm
+from voltwake.studies.target_sweep import target_sweep
 
 SCRIPT = os.path.join(os.path.dirname(__file__), 'mpi_jobs_script.py')
 

@@ -1,4 +1,4 @@
-"""Tests of the PNG figures (voltwake.plots) and the HTML report (voltwake.report)."""
+"""Tests of the PNG figures (outputs.plots) and the HTML report (outputs.report)."""
 
 import base64
 import json
@@ -13,10 +13,10 @@ import zlib
 import numpy as np
 import pytest
 
-from voltwake import plots, report
 from voltwake.errors import ConfigError
-from voltwake.results_io import current_umask, write_atomic, write_results
-from voltwake.summary import CAUTION
+from voltwake.outputs import plots, report
+from voltwake.outputs.files import current_umask, write_atomic, write_results
+from voltwake.outputs.summary import CAUTION
 
 PNG_SIGNATURE = b'\x89PNG\r\n\x1a\n'  # PNG specification (ISO/IEC 15948), section 5.2
 
@@ -685,7 +685,7 @@ def test_report_is_deterministic_and_written_where_asked(tmp_path):
 
 
 def _write_study(folder, name, summary, rows):
-    from voltwake.studies import points_csv
+    from voltwake.studies.maps import points_csv
 
     (folder / f'{name}_summary.json').write_text(json.dumps(summary, sort_keys=True))
     if rows:
@@ -853,7 +853,7 @@ def test_report_of_a_break_even(tmp_path):
 
 
 def test_a_study_without_matplotlib_says_why_it_has_no_figures(monkeypatch, tmp_path, capsys):
-    from voltwake import sweep
+    from voltwake.studies import runner as sweep
 
     monkeypatch.setitem(sys.modules, 'matplotlib.backends.backend_agg', None)
     result = {
@@ -898,7 +898,7 @@ def test_report_works_without_matplotlib(tmp_path):
     folder = _optimisation_dir(tmp_path)
     code = (
         'import sys; sys.modules["matplotlib"] = None; '  # any import of it now fails
-        'import voltwake.report as r; print(r.write_report(sys.argv[1]))'
+        'import voltwake.outputs.report as r; print(r.write_report(sys.argv[1]))'
     )
     done = subprocess.run(
         [sys.executable, '-c', code, str(folder)], capture_output=True, text=True, check=True

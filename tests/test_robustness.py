@@ -3,9 +3,10 @@
 import numpy as np
 import pytest
 
-from voltwake.batch import analyze_points
-from voltwake.config import demo_path, load_config
-from voltwake.optimization import design_variables, optimize
+from voltwake.configuration.loader import demo_path, load_config
+from voltwake.design.batch import analyze_points
+from voltwake.design.constraints import design_variables
+from voltwake.design.optimization import optimize
 
 TURBO_ELECTRIC = demo_path('turbo_electric')
 

@@ -7,10 +7,10 @@ import scipy.sparse
 import scipy.sparse.linalg
 
 import voltwake
-from voltwake.analysis import build_model_problem
-from voltwake.batch import analyze_points, full_factorial
-from voltwake.config import demo_path, load_config
-from voltwake.derivatives import _spread, check_totals_cs
+from voltwake.configuration.loader import demo_path, load_config
+from voltwake.design.batch import analyze_points, full_factorial
+from voltwake.design.derivatives import _spread, check_totals_cs
+from voltwake.design.sizing import build_model_problem
 from voltwake.models import solvers
 from voltwake.models.aircraft import AircraftModel
 from voltwake.models.solvers import BatchedBlockLU, PointBlocks, StaticPivotPlan, Workspace

@@ -7,11 +7,11 @@ import numpy as np
 import pytest
 
 import voltwake
-from voltwake.batch import analyze_points, full_factorial
 from voltwake.cli import main
-from voltwake.config import demo_path, load_config
+from voltwake.configuration.loader import demo_path, load_config
+from voltwake.design.batch import analyze_points, full_factorial
 from voltwake.errors import ConfigError
-from voltwake.studies import design_space_map, monte_carlo, parse_axis, points_csv
+from voltwake.studies.maps import design_space_map, monte_carlo, parse_axis, points_csv
 
 TURBO_ELECTRIC = demo_path('turbo_electric')
 
@@ -166,7 +166,7 @@ def test_sweep_without_a_study_is_a_clear_error(capsys):
 def test_sweep_from_the_config_study_section(tmp_path):
     data = load_config(TURBO_ELECTRIC).data
     data['study'] = {'map': {'aft_fan.thrust_fraction': {'lower': 0.1, 'upper': 0.2, 'count': 3}}}
-    from voltwake.sweep import run_sweep, study_spec
+    from voltwake.studies.runner import run_sweep, study_spec
 
     config = load_config(data)
     result = run_sweep(config, study_spec(config))
@@ -187,7 +187,7 @@ def test_ctrl_c_during_a_sweep_exits_130_with_a_partial_summary(tmp_path):
     # always lands during the map, however fast or slow the machine.
     held = (
         'import sys, time\n'
-        'import voltwake.sweep as sweep\n'
+        'import voltwake.studies.runner as sweep\n'
         'run_map = sweep.design_space_map\n'
         'def held(*args, **kwargs):\n'
         '    print("map started", flush=True)\n'

@@ -6,10 +6,10 @@ import math
 import numpy as np
 import pytest
 
-from voltwake.config import demo_path, load_config
+from voltwake.configuration.loader import demo_path, load_config
+from voltwake.design.optimization import optimize
 from voltwake.errors import ConfigError
-from voltwake.optimization import optimize
-from voltwake.target_sweep import fixed_config, target_sweep
+from voltwake.studies.target_sweep import fixed_config, target_sweep
 
 DEMO = load_config(demo_path('turbo_electric'))
 

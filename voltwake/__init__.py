@@ -1,14 +1,28 @@
 """
 voltwake: conceptual sizing and optimisation of turbo-electric airliners.
 
-Conceptual estimates only: not for certification, flight or operational decisions.
+The package is laid out by task, each layer importing only the ones above it in this list:
+
+* :mod:`voltwake.errors`: the errors a user can cause, with their exit codes;
+* :mod:`voltwake.configuration`: the configuration schema, the YAML reader and the loader;
+* :mod:`voltwake.design`: running one design (sizing, analysis, batches of points,
+  optimisation, comparison with the reference, derivative checks);
+* :mod:`voltwake.outputs`: text summaries, figures, files and the HTML report;
+* :mod:`voltwake.studies`: trade studies over many designs (maps, Monte Carlo, target
+  sweeps, break-even) and the study runner;
+* :mod:`voltwake.cli`: the command line, a thin layer over the above.
+
+The physics lives in :mod:`voltwake.components` and the model wiring in
+:mod:`voltwake.models`. Conceptual estimates only: not for certification, flight or
+operational decisions.
 """
 
-from .analysis import AnalysisResult, analyze, build_model_problem
-from .compare import compare
-from .config import Config, load_config
+from .configuration.loader import Config, demo_names, demo_path, load_config
+from .design.analysis import AnalysisResult, analyze
+from .design.compare import compare
+from .design.optimization import OptimizationResult, build_problem, optimize
+from .design.sizing import build_model_problem
 from .errors import ConfigError, NotClosedError, OptimizationError, VoltwakeError
-from .optimization import OptimizationResult, build_problem, optimize
 
 __all__ = [
     'AnalysisResult',
@@ -22,6 +36,8 @@ __all__ = [
     'build_model_problem',
     'build_problem',
     'compare',
+    'demo_names',
+    'demo_path',
     'load_config',
     'optimize',
 ]

@@ -126,8 +126,8 @@ def _parser():
 
 
 def _cmd_analyze(args):
-    from .analysis import analyze
-    from .summary import analysis_text
+    from .design.analysis import analyze
+    from .outputs.summary import analysis_text
 
     result = analyze(args.config, args.overrides, keep_problem=False)
     print(json.dumps(result.to_dict(), indent=2) if args.json else analysis_text(result))
@@ -135,8 +135,8 @@ def _cmd_analyze(args):
 
 
 def _cmd_compare(args):
-    from .compare import compare
-    from .summary import comparison_text
+    from .design.compare import compare
+    from .outputs.summary import comparison_text
 
     comp = compare(args.config, args.overrides, optimized=args.optimize)
     print(
@@ -148,8 +148,8 @@ def _cmd_compare(args):
 
 
 def _cmd_derivs(args):
-    from .config import load_config
-    from .derivatives import check_derivatives
+    from .configuration.loader import load_config
+    from .design.derivatives import check_derivatives
 
     worst = check_derivatives(load_config(args.config, args.overrides))
     if max(worst['worst_partial'], worst['worst_total']) > args.tolerance:
@@ -180,11 +180,11 @@ def _optimization_plots(result, out_dir, reference=None):
     str or None
         Why no figures were drawn (matplotlib missing), or None.
     """
-    from .optimization import FEASIBILITY_TOLERANCE
-    from .report import objective_label
+    from .design.constraints import FEASIBILITY_TOLERANCE
+    from .outputs.report import objective_label
 
     try:
-        from . import plots
+        from .outputs import plots
 
         plots.plot_history(
             result.history,
@@ -221,7 +221,7 @@ def _optimized_reference(config):
         The reference's results (``status`` 'complete' with the optimisation, or 'failed'
         with the message), or None for a design without an aft fan.
     """
-    from .optimization import optimize
+    from .design.optimization import optimize
 
     if not config.has_aft_fan:
         return None
@@ -240,9 +240,9 @@ def _optimized_reference(config):
 
 
 def _cmd_optimize(args):
-    from .optimization import optimize
-    from .results_io import prepare_out_dir, write_results
-    from .summary import optimization_text
+    from .design.optimization import optimize
+    from .outputs.files import prepare_out_dir, write_results
+    from .outputs.summary import optimization_text
 
     out_dir = prepare_out_dir(args.out, args.force) if args.out else None
     recorder = os.path.join(out_dir, 'cases.sql') if out_dir else None
@@ -266,8 +266,8 @@ def _cmd_optimize(args):
         raise
     data = result.to_dict()
     if out_dir:
-        from .config import load_config
-        from .report import write_report
+        from .configuration.loader import load_config
+        from .outputs.report import write_report
 
         write_results(out_dir, 'results', {'status': 'complete', **data})
         # The answer a reader wants is the design against the conventional aircraft built to
@@ -293,10 +293,10 @@ def _cmd_optimize(args):
 
 
 def _cmd_sweep(args):
-    from .config import load_config
-    from .parallel import ProgressBar, is_root
-    from .results_io import prepare_out_dir
-    from .sweep import _clean, run_sweep, study_spec
+    from .configuration.loader import load_config
+    from .outputs.files import prepare_out_dir
+    from .studies.parallel import ProgressBar, is_root
+    from .studies.runner import _clean, run_sweep, study_spec
 
     if args.jobs is not None and args.jobs < 1:
         raise errors.ConfigError(f'got {args.jobs}; expected a whole number >= 1', source='--jobs')
@@ -311,14 +311,14 @@ def _cmd_sweep(args):
     if args.json:
         print(json.dumps(_clean(summaries), indent=2, sort_keys=True))
     else:
-        from .summary import sweep_text
+        from .outputs.summary import sweep_text
 
         print(sweep_text(summaries, out_dir))
     return errors.EXIT_OK
 
 
 def _cmd_report(args):
-    from .report import write_report
+    from .outputs.report import write_report
 
     print(write_report(args.results_dir, args.output))
     return errors.EXIT_OK

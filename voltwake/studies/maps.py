@@ -11,10 +11,11 @@ import math
 
 import numpy as np
 
-from .analysis import analyze, fuel_burn_field
-from .batch import analyze_points, full_factorial
-from .config import field_at, load_config, parse_quantity
-from .errors import ConfigError
+from ..configuration.loader import field_at, load_config, parse_quantity
+from ..design.analysis import analyze
+from ..design.batch import analyze_points, full_factorial
+from ..design.fields import fuel_burn_field
+from ..errors import ConfigError
 
 #: Fields written for every point of a study, with their units for the CSV header.
 POINT_FIELDS = {

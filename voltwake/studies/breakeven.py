@@ -15,9 +15,10 @@ import numpy as np
 from openmdao.utils.units import unit_conversion
 from scipy.optimize import brentq
 
-from .analysis import build_model_problem, fuel_burn_field, run_sizing
-from .config import field_at, load_config
-from .errors import ConfigError, OptimizationError
+from ..configuration.loader import field_at, load_config
+from ..design.fields import fuel_burn_field
+from ..design.sizing import build_model_problem, run_sizing
+from ..errors import ConfigError, OptimizationError
 from .parallel import map_jobs
 from .target_sweep import fixed_config, optimize_job
 

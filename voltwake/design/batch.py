@@ -12,16 +12,10 @@ import dataclasses
 import numpy as np
 from openmdao.core.analysis_error import AnalysisError
 
-from .analysis import (
-    AFT_FAN_FIELDS,
-    ECONOMIC_FIELDS,
-    FIELDS,
-    build_model_problem,
-    closure_reasons,
-    read_field_arrays,
-)
-from .config import _check_field, absent_input_hint, field_at, load_config
-from .errors import ConfigError
+from ..configuration.loader import _check_field, absent_input_hint, field_at, load_config
+from ..errors import ConfigError
+from .fields import AFT_FAN_FIELDS, ECONOMIC_FIELDS, FIELDS, read_field_arrays
+from .sizing import build_model_problem, closure_reasons
 
 #: Largest relative residual of a point accepted as converged.
 RESIDUAL_TOLERANCE = 1e-7

@@ -11,8 +11,8 @@ import numpy as np
 import openmdao.api as om
 from openmdao.utils.om_warnings import DerivativesWarning
 
-from .analysis import build_model_problem, run_sizing
-from .config import load_config
+from ..configuration.loader import load_config
+from .sizing import build_model_problem, run_sizing
 
 #: Outputs and inputs whose total derivatives are checked (the wing's size enters as its area
 #: or, for a wing sized to a wing loading, as that loading: see :func:`checked_totals`).

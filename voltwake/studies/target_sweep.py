@@ -14,9 +14,11 @@ import itertools
 import math
 import numbers
 
-from .analysis import build_model_problem, fuel_burn_field
-from .config import field_at, load_config
-from .errors import ConfigError
+from ..configuration.loader import field_at, load_config
+from ..design.fields import fuel_burn_field
+from ..design.optimization import optimize
+from ..design.sizing import build_model_problem
+from ..errors import ConfigError
 from .parallel import map_jobs
 
 #: Result fields copied into every row (NaN for a failed point).
@@ -167,8 +169,6 @@ def optimize_job(job):
         bound) and ``evaluations``. A point that raises keeps ``success`` False and the
         error as its message.
     """
-    from .optimization import optimize
-
     try:
         result = optimize(load_config(job['data']))
     except Exception as exc:  # noqa: BLE001 - a failed point is reported in its row

@@ -10,11 +10,15 @@ import sys
 
 import numpy as np
 
-from .config import field_at, load_config, parse_quantity
-from .errors import ConfigError
-from .plots import NOT_CLOSED, OK, point_status
-from .studies import design_space_map, monte_carlo, parse_axis, points_csv
-from .summary import axis_label, display_units, input_label, pretty_units
+from ..configuration.loader import field_at, load_config, parse_quantity
+from ..errors import ConfigError, InterruptedRun
+from ..outputs.files import write_atomic, write_results
+from ..outputs.plots import NOT_CLOSED, OK, point_status
+from ..outputs.report import write_report
+from ..outputs.summary import axis_label, display_units, input_label, pretty_units
+from .breakeven import breakeven, technology_sensitivities
+from .maps import design_space_map, monte_carlo, parse_axis, points_csv
+from .target_sweep import fixed_config, optimize_job, target_sweep
 
 _STUDY_KEYS = ('map', 'targets', 'breakeven', 'uncertainty')
 
@@ -197,7 +201,7 @@ def _plots(kind, result, out_dir, config=None):
     is returned in ``result['figures_note']`` (shown in the report) and printed on stderr.
     """
     try:
-        from . import plots
+        from ..outputs import plots
     except ImportError:  # pragma: no cover - the module itself has no hard dependency
         return []
     made = []
@@ -373,9 +377,6 @@ def run_sweep(config, spec, jobs=None, out_dir=None, progress=None):
     dict
         Study kind -> its summary (points left out; they go to CSV).
     """
-    from .errors import InterruptedRun
-    from .results_io import write_atomic, write_results
-
     config = load_config(config)
     summaries = {}
     for kind in ('map', 'targets', 'breakeven', 'uncertainty'):
@@ -419,8 +420,6 @@ def run_sweep(config, spec, jobs=None, out_dir=None, progress=None):
                 {'status': 'complete', **_clean(result), 'config': config.data},
             )
     if out_dir:
-        from .report import write_report
-
         write_report(out_dir)
     return summaries
 
@@ -430,15 +429,11 @@ def _run_study(kind, config, spec, jobs, progress):
     if kind == 'map':
         return design_space_map(config, spec['map'])
     if kind == 'targets':
-        from .target_sweep import target_sweep
-
         result = target_sweep(config, spec['targets'], jobs=jobs, progress=progress)
         result['kind'] = 'targets'
         result['target_axes'] = {p: [float(v) for v in vals] for p, vals in spec['targets'].items()}
         return result
     if kind == 'breakeven':
-        from .breakeven import breakeven, technology_sensitivities
-
         path, lo, hi = spec['breakeven']
         result = breakeven(config, path, lo, hi, jobs=jobs)
         result['kind'] = 'breakeven'
@@ -469,8 +464,6 @@ def _optimum_at(config, path, value):
         ``success``, ``message``, ``design`` (path -> value) and ``active`` (active
         constraints and ``'bound:<path>'`` for design variables at a bound).
     """
-    from .target_sweep import fixed_config, optimize_job
-
     res = optimize_job({'data': fixed_config(config, {path: value}).data})
     return {k: res[k] for k in ('success', 'message', 'design', 'active')}
 

@@ -21,7 +21,7 @@ import re
 
 from openmdao.utils.units import convert_units, is_compatible, valid_units
 
-from .errors import ConfigError
+from ..errors import ConfigError
 from .schema import (
     BARE_NUMBER_RANGES,
     CONDUCTORS,

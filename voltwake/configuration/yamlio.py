@@ -15,7 +15,7 @@ import re
 
 import yaml
 
-from .errors import ConfigError
+from ..errors import ConfigError
 
 #: Largest configuration file accepted, in bytes.
 MAX_FILE_BYTES = 1_000_000

@@ -17,7 +17,7 @@ import textwrap
 
 import numpy as np
 
-from .errors import ConfigError
+from ..errors import ConfigError
 
 #: Floor of the worst constraint violation on the log axis of :func:`plot_history`.
 VIOLATION_FLOOR = 1e-12

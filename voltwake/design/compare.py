@@ -2,8 +2,11 @@
 
 import dataclasses
 
-from .analysis import analyze, fuel_burn_field
-from .config import load_config
+from ..configuration.loader import load_config
+from ..errors import OptimizationError
+from .analysis import AnalysisResult, analyze
+from .fields import fuel_burn_field
+from .optimization import optimize
 
 #: Fields whose percentage change is reported.
 CHANGED = (
@@ -122,10 +125,6 @@ def compare(config=None, overrides=None, optimized=False):
 
 
 def _compare_optima(config):
-    from .analysis import AnalysisResult
-    from .errors import OptimizationError
-    from .optimization import optimize
-
     results = []
     for cfg in (config, config.without_aft_fan()):
         opt = optimize(cfg)

@@ -25,9 +25,10 @@ import json
 import math
 import os
 
-from .errors import ConfigError
+from ..configuration.loader import field_at, parse_quantity
+from ..errors import ConfigError
+from .files import write_atomic
 from .plots import INFEASIBLE, NOT_CLOSED, OK, point_status
-from .results_io import write_atomic
 from .summary import CAUTION, display_units, input_label, pretty_units
 
 #: Rows shown of a list of records before it is truncated.
@@ -670,8 +671,6 @@ def _more_less(change, what='fuel'):
 
 def _axis_text(path, values):
     """Return 'motor specific power 2–20 kW/kg (6 values)'."""
-    from .config import field_at
-
     field = field_at(path)
     units = field.units if field is not None else None
     nums = [_number(v) for v in values]
@@ -687,8 +686,6 @@ def _axis_text(path, values):
 
 def _path_units(path):
     """Return the SI units of a config key path (None for dimensionless or unknown)."""
-    from .config import field_at
-
     field = field_at(path)
     return field.units if field is not None else None
 
@@ -1340,8 +1337,6 @@ def _montecarlo_study(data, rows, figures):
 
 def _dv_bounds(config):
     """Return design-variable path -> (lower, upper) in SI from a config's optimisation."""
-    from .config import parse_quantity
-
     out = {}
     dvs = ((config or {}).get('optimization') or {}).get('design_variables') or {}
     for path, spec in dvs.items():

@@ -6,7 +6,7 @@ import tempfile
 
 import yaml
 
-from .errors import ConfigError
+from ..errors import ConfigError
 
 
 def prepare_out_dir(path, force=False):

@@ -1,0 +1,1 @@
+"""Running one design: build and size the model, analyse, batch, optimise, compare, check."""

@@ -1,0 +1,1 @@
+"""Trade studies over many designs: maps, Monte Carlo, target sweeps, break-even."""
