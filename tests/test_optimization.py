@@ -356,3 +356,28 @@ def test_repeated_runs_give_byte_identical_json(capsys):
         assert main(['analyze', '--json']) == 0
         outputs.append(capsys.readouterr().out)
     assert outputs[2] == outputs[3]
+
+
+def test_results_come_back_in_the_units_the_bounds_were_written_in():
+    # cruise altitude bounded in ft, approach speed limited in kn (the demo), sweep in deg:
+    # the design variables and constraints come back in those units, with SI alongside.
+    overrides = {
+        'optimization.design_variables.mission.cruise_altitude': {
+            'lower': '30000 ft',
+            'upper': '41000 ft',
+        }
+    }
+    result = optimize(TURBO_ELECTRIC, overrides)
+    assert result.success, result.message
+    altitude = result.design['mission.cruise_altitude']
+    assert altitude['units'] == 'ft' and altitude['lower'] == pytest.approx(30000.0)
+    assert altitude['si']['units'] == 'm'
+    assert altitude['value'] == pytest.approx(altitude['si']['value'] / 0.3048, rel=1e-12)
+    sweep = result.design['wing.sweep']
+    assert sweep['units'] == 'deg' and sweep['upper'] == pytest.approx(35.0)
+    speed = result.constraints['approach_speed']
+    assert speed['units'] == 'kn' and speed['upper'] == pytest.approx(140.0)
+    assert speed['value'] == pytest.approx(speed['si']['value'] * 3600.0 / 1852.0, rel=1e-9)
+    # a bound written in SI stays in SI
+    assert result.constraints['wingspan']['units'] == 'm'
+    assert 'si' in result.constraints['wingspan']

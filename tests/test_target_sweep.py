@@ -91,7 +91,7 @@ def test_a_point_is_the_optimum_with_its_targets_fixed(serial):
     point = serial['points'][3]
     assert point['block_fuel_kg'] == pytest.approx(single.outputs['block_fuel_kg'], rel=1e-6)
     for path in FREE:
-        assert point[f'dv:{path}'] == pytest.approx(single.design[path]['value'], rel=1e-4)
+        assert point[f'dv:{path}'] == pytest.approx(single.design[path]['si']['value'], rel=1e-4)
     active_bounds = sorted(f'bound:{p}' for p, dv in single.design.items() if dv['active'])
     assert sorted(n for n in point['active_constraints'] if n.startswith('bound:')) == active_bounds
 

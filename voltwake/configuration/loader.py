@@ -445,6 +445,28 @@ def parse_quantity(value, units, where, key=None, check_bare=True):
     return number
 
 
+def written_unit(value):
+    """
+    Return the unit a quantity was written with, or None for a bare number.
+
+    Parameters
+    ----------
+    value : object
+        The value as written (``'35000 ft'``, ``'2kW/kg'``, ``1500.0``).
+
+    Returns
+    -------
+    str or None
+        The unit as written, e.g. ``'ft'``.
+    """
+    if not isinstance(value, str):
+        return None
+    text = value.strip()
+    glued = _NUMBER_AND_UNIT.fullmatch(text)
+    unit = glued.group(2) if glued else text.partition(' ')[2]
+    return unit.strip() or None
+
+
 def _is_bare(value):
     """Return True when a quantity was written without a unit."""
     if not isinstance(value, str):

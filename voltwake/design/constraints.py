@@ -5,8 +5,15 @@ import difflib
 import math
 
 import numpy as np
+from openmdao.utils.units import convert_units
 
-from ..configuration.loader import absent_input_hint, field_at, input_paths, parse_quantity
+from ..configuration.loader import (
+    absent_input_hint,
+    field_at,
+    input_paths,
+    parse_quantity,
+    written_unit,
+)
 from ..errors import ConfigError
 
 #: Largest scaled constraint violation accepted as feasible.
@@ -42,6 +49,8 @@ class DesignVariable:
     ref0, ref : float or None
         Values that the optimiser sees as 0 and 1 (each defaults to its bound: ref0 to the
         lower, ref to the upper).
+    display_units : str or None
+        The unit the user wrote the bounds in (results come back in it); None: ``units``.
     """
 
     path: str
@@ -51,6 +60,7 @@ class DesignVariable:
     units: str = None
     ref0: float = None
     ref: float = None
+    display_units: str = None
 
 
 @dataclasses.dataclass
@@ -66,6 +76,8 @@ class Constraint:
         Bounds in ``units``.
     units : str or None
         Units of the bounds (the output's own).
+    display_units : str or None
+        The unit the user wrote the bounds in (results come back in it); None: ``units``.
     """
 
     name: str
@@ -73,6 +85,7 @@ class Constraint:
     upper: float = None
     equals: float = None
     units: str = None
+    display_units: str = None
 
     def violation(self, value):
         """
@@ -166,7 +179,8 @@ def design_variables(config, model_inputs):
             'ref0', vals['lower']
         ):
             raise ConfigError('ref must differ from ref0', **where)
-        out.append(DesignVariable(path, field.target, units=units, **vals))
+        shown = _written(bounds, ('lower', 'upper'), units)
+        out.append(DesignVariable(path, field.target, units=units, display_units=shown, **vals))
     if not out:
         raise ConfigError(
             'no design variables for this design',
@@ -174,6 +188,36 @@ def design_variables(config, model_inputs):
             path='optimization.design_variables',
         )
     return out
+
+
+def _written(bounds, keys, units):
+    """Return the unit the bounds were written in, if it converts to ``units``; else None."""
+    for key in keys:
+        unit = written_unit(bounds.get(key))
+        if unit is not None and units is not None and unit != units:
+            return unit
+    return None
+
+
+def in_units(value, units, display_units):
+    """
+    Convert a value (or None) from ``units`` to ``display_units`` (None: unchanged).
+
+    Parameters
+    ----------
+    value : float or None
+        The value in ``units``.
+    units, display_units : str or None
+        From and to.
+
+    Returns
+    -------
+    float or None
+        The value in ``display_units``.
+    """
+    if value is None or display_units is None or units is None:
+        return value
+    return float(convert_units(value, units, display_units))
 
 
 def _number(value, where):
@@ -221,7 +265,8 @@ def constraints(config, prob):
             key: (parse_quantity(val, units, where) if units else _number(val, where))
             for key, val in bounds.items()
         }
-        out.append(Constraint(name, units=units, **conv))
+        shown = _written(bounds, ('lower', 'upper', 'equals'), units)
+        out.append(Constraint(name, units=units, display_units=shown, **conv))
     return out
 
 
@@ -239,19 +284,28 @@ def constraint_table(specs, prob):
     Returns
     -------
     dict
-        Output name -> {value, lower, upper, equals, units, violation, active}.
+        Output name -> {value, lower, upper, equals, units, violation, active, si}: the
+        values in the unit the user wrote the bounds in, and under ``si`` in SI.
     """
     table = {}
     for con in specs:
         value = float(np.real(prob.get_val(con.name, units=con.units)[0]))
+        shown = con.display_units or con.units
         table[con.name] = {
-            'value': value,
-            'lower': con.lower,
-            'upper': con.upper,
-            'equals': con.equals,
-            'units': con.units,
+            'value': in_units(value, con.units, shown),
+            'lower': in_units(con.lower, con.units, shown),
+            'upper': in_units(con.upper, con.units, shown),
+            'equals': in_units(con.equals, con.units, shown),
+            'units': shown,
             'violation': con.violation(value),
             'active': con.equals is not None or _active(value, con.lower, con.upper),
+            'si': {
+                'value': value,
+                'lower': con.lower,
+                'upper': con.upper,
+                'equals': con.equals,
+                'units': con.units,
+            },
         }
     return table
 

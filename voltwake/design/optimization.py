@@ -27,6 +27,7 @@ from .constraints import (
     constraint_table,
     constraints,
     design_variables,
+    in_units,
 )
 from .fields import read_fields
 from .sizing import build_model_problem, closure_problem, run_sizing, set_model_inputs
@@ -317,7 +318,8 @@ class OptimizationResult:
     message : str
         The optimiser's message (and why the run is not a success, if it is not).
     design : dict
-        Config key path -> {value, lower, upper, units, active}.
+        Config key path -> {value, lower, upper, units, active, si}: in the unit the user wrote
+        the bounds in, and under ``si`` in SI.
     constraints : dict
         Constraint output -> {value, lower, upper, equals, units, active, violation}.
     outputs : dict
@@ -441,12 +443,14 @@ def _optimize(config, overrides, recorder_path, on_evaluation):
     design = {}
     for dv in driver.design_variables:
         value = float(np.real(prob.get_val(dv.target, units=dv.units)[0]))
+        shown = dv.display_units or dv.units
         design[dv.path] = {
-            'value': value,
-            'lower': dv.lower,
-            'upper': dv.upper,
-            'units': dv.units,
+            'value': in_units(value, dv.units, shown),
+            'lower': in_units(dv.lower, dv.units, shown),
+            'upper': in_units(dv.upper, dv.units, shown),
+            'units': shown,
             'active': _active(value, dv.lower, dv.upper),
+            'si': {'value': value, 'lower': dv.lower, 'upper': dv.upper, 'units': dv.units},
         }
     cons = constraint_table(driver.spec_constraints, prob)
     worst = max((c['violation'] for c in cons.values()), default=0.0)
