@@ -186,7 +186,7 @@ def optimize_job(job):
         'success': result.success,
         'message': result.message,
         'outputs': dict(result.outputs),
-        'design': {path: dv['value'] for path, dv in result.design.items()},
+        'design': {path: dv['si']['value'] for path, dv in result.design.items()},
         'active': active,
         'evaluations': result.evaluations,
     }
