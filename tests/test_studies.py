@@ -290,3 +290,149 @@ def test_inputs_this_design_does_not_have_are_refused_saying_why():
         analyze_points(demo_path('conventional'), {'aft_fan.thrust_fraction': [0.1]})
     with pytest.raises(ConfigError, match="expected a config key path such as"):
         analyze_points(TURBO_ELECTRIC, {'wing.span': [30.0]})
+
+
+# --- the study section is checked like the rest of the config ------------------------------
+
+_STUDY_ERRORS = [
+    (
+        'mapp:\n  aft_fan.thrust_fraction: {lower: 0.1, upper: 0.2, count: 3}\n',
+        1,
+        "study.mapp: unknown study kind (did you mean 'map'?); expected one of map, targets",
+    ),
+    (
+        'map:\n  aft_fan.thrust_fractoin: {lower: 0.1, upper: 0.2, count: 3}\n',
+        2,
+        "study.map.aft_fan.thrust_fractoin: not a model input (did you mean "
+        "'aft_fan.thrust_fraction'?)",
+    ),
+    (
+        'map:\n  aft_fan.thrust_fraction: {lower: 0.1, upper: 0.2, cout: 3}\n',
+        2,
+        "study.map.aft_fan.thrust_fraction.cout: unknown key (did you mean 'count'?)",
+    ),
+    (
+        'map:\n  aft_fan.thrust_fraction:\n    lower: 0.1\n    upper: 1.5\n    count: 3\n',
+        4,
+        'study.map.aft_fan.thrust_fraction.upper: got 1.5; expected a value in [0, 1)',
+    ),
+    (
+        'map:\n  aft_fan.thrust_fraction: {lower: 0.1, upper: 0.2, count: 2.5}\n',
+        2,
+        'study.map.aft_fan.thrust_fraction.count: got 2.5; expected a whole number >= 1',
+    ),
+    (
+        'map:\n  wing.area: {lower: 80 m**2, upper: 90 m**2, count: 2}\n',
+        2,
+        'study.map.wing.area: not a model input of this design; this design gives wing.loading',
+    ),
+    (
+        'targets:\n  mission.range: {lower: 1000, upper: 2000, count: 3}\n',
+        2,
+        'study.targets.mission.range.lower: got 1000 with no unit (read as 1000 m); expected a '
+        "value with its unit, e.g. '1000 nmi'",
+    ),
+    (
+        'targets:\n  mission.range:\n    values: [1000 nmi, 1500 km, 1800]\n',
+        3,
+        'study.targets.mission.range.values.2: got 1800 with no unit',
+    ),
+    (
+        'breakeven:\n  electrical.motor.specfic_power: {lower: 2 kW/kg, upper: 20 kW/kg}\n',
+        2,
+        "study.breakeven.electrical.motor.specfic_power: not a model input (did you mean "
+        "'electrical.motor.specific_power'?)",
+    ),
+    (
+        'breakeven:\n  electrical.motor.specific_power: {lower: 2 kW/kg, upper: 20 kg}\n',
+        2,
+        "study.breakeven.electrical.motor.specific_power.upper: got '20 kg': unit 'kg' cannot "
+        'be converted to W/kg',
+    ),
+    (
+        'uncertainty:\n  sample: 10\n  distributions:\n'
+        '    electrical.motor.efficiency: {triangular: [0.95, 0.96, 0.99]}\n',
+        2,
+        "study.uncertainty.sample: unknown key (did you mean 'samples'?)",
+    ),
+    (
+        'uncertainty:\n  distributions:\n'
+        '    electrical.motor.efficency: {triangular: [0.95, 0.96, 0.99]}\n',
+        3,
+        "study.uncertainty.distributions.electrical.motor.efficency: not a model input (did "
+        "you mean 'electrical.motor.efficiency'?)",
+    ),
+    (
+        'uncertainty:\n  distributions:\n'
+        '    electrical.motor.efficiency: {triangle: [0.95, 0.96, 0.99]}\n',
+        3,
+        'study.uncertainty.distributions.electrical.motor.efficiency.triangle: unknown '
+        "distribution (did you mean 'triangular'?)",
+    ),
+    (
+        'uncertainty:\n  distributions:\n    electrical.motor.specific_power:\n'
+        '      uniform:\n        - 5 kW/kg\n        - 20\n',
+        6,
+        'study.uncertainty.distributions.electrical.motor.specific_power.uniform.1: got 20 '
+        'with no unit (read as 20 W/kg)',
+    ),
+    (
+        'uncertainty:\n  seed: -3\n  distributions:\n'
+        '    electrical.motor.efficiency: {triangular: [0.95, 0.96, 0.99]}\n',
+        2,
+        'study.uncertainty.seed: got -3; expected a whole number >= 0',
+    ),
+]
+
+
+def config_with_study(tmp_path, study):
+    """The turbo-electric demo with its study section replaced; return (path, study line)."""
+    text = open(TURBO_ELECTRIC, encoding='utf-8').read()
+    text = text[: text.index('\nstudy:\n') + 1]
+    first = len(text.splitlines()) + 1  # the line of 'study:'
+    indented = ''.join(f'  {line}\n' for line in study.splitlines())
+    path = tmp_path / 'study.yaml'
+    path.write_text(f'{text}study:\n{indented}', encoding='utf-8')
+    return str(path), first
+
+
+@pytest.mark.parametrize('study, offset, expected', _STUDY_ERRORS)
+def test_study_section_errors_name_file_line_and_key(tmp_path, study, offset, expected):
+    from voltwake.studies.runner import study_spec
+
+    path, first = config_with_study(tmp_path, study)
+    with pytest.raises(ConfigError) as err:
+        study_spec(load_config(path))
+    # The line of the key as written (the section's own line plus its offset in it).
+    assert err.value.message.startswith(f'{path}:{first + offset}: {expected}'), err.value.message
+
+
+def test_sweep_with_a_bad_study_section_exits_2_with_one_line(tmp_path, capsys):
+    path, first = config_with_study(tmp_path, _STUDY_ERRORS[1][0])
+    assert main(['sweep', path]) == 2
+    captured = capsys.readouterr()
+    lines = captured.err.splitlines()
+    assert len(lines) == 1 and captured.out == ''
+    assert lines[0].startswith(f'voltwake: error: {path}:{first + 2}: study.map.aft_fan.thrust')
+    # --monte-carlo reads the distributions of the study section: the same checks apply.
+    path, first = config_with_study(tmp_path, _STUDY_ERRORS[-2][0])
+    assert main(['sweep', path, '--monte-carlo', '5']) == 2
+    assert f'{path}:{first + 6}: study.uncertainty' in capsys.readouterr().err
+
+
+def test_study_section_values_with_units_come_back_in_si(tmp_path):
+    from voltwake.studies.runner import study_spec
+
+    study = (
+        'map:\n  mission.cruise_altitude: {lower: 33000 ft, upper: 37000 ft, count: 3}\n'
+        'breakeven:\n  electrical.motor.specific_power: {lower: 2 kW/kg, upper: 20 kW/kg}\n'
+        'uncertainty:\n  samples: 7\n  distributions:\n'
+        '    electrical.motor.specific_power: {uniform: [5 kW/kg, 20 kW/kg]}\n'
+    )
+    spec = study_spec(load_config(config_with_study(tmp_path, study)[0]))
+    # 1 ft = 0.3048 m exactly (international foot): hand values.
+    assert spec['map']['mission.cruise_altitude'] == pytest.approx(
+        [33000 * 0.3048, 35000 * 0.3048, 37000 * 0.3048], rel=1e-12
+    )
+    assert spec['breakeven'] == ('electrical.motor.specific_power', 2000.0, 20000.0)
+    assert spec['uncertainty']['samples'] == 7 and spec['uncertainty']['seed'] == 1

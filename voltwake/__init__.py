@@ -23,22 +23,39 @@ from .design.compare import compare
 from .design.optimization import OptimizationResult, build_problem, optimize
 from .design.sizing import build_model_problem
 from .errors import ConfigError, NotClosedError, OptimizationError, VoltwakeError
+from .studies.results import (
+    BreakevenResult,
+    DesignMapResult,
+    MonteCarloResult,
+    StudyResult,
+    TargetSweepResult,
+)
+from .studies.runner import breakeven, design_map, monte_carlo, target_sweep
 
 __all__ = [
     'AnalysisResult',
+    'BreakevenResult',
     'Config',
     'ConfigError',
+    'DesignMapResult',
+    'MonteCarloResult',
     'NotClosedError',
     'OptimizationError',
     'OptimizationResult',
+    'StudyResult',
+    'TargetSweepResult',
     'VoltwakeError',
     'analyze',
+    'breakeven',
     'build_model_problem',
     'build_problem',
     'compare',
     'demo_names',
     'demo_path',
+    'design_map',
     'load_config',
+    'monte_carlo',
     'optimize',
+    'target_sweep',
 ]
 __version__ = '0.1.0'

@@ -3,7 +3,8 @@ The ``voltwake`` command.
 
 Every error a user can cause ends in one line on standard error and a documented exit
 code (see README.md): 0 success, 2 bad input, 3 design did not close, 4 optimiser failed,
-5 derivative check above tolerance, 130 interrupted.
+5 derivative check above tolerance, 130 interrupted. Output cut short by its reader (``voltwake
+analyze | head -3``) is not an error: the rest is dropped and the command keeps its code.
 """
 
 import argparse
@@ -14,6 +15,88 @@ import warnings
 
 from . import errors
 from .errors import VoltwakeError
+
+#: File ``voltwake model-view`` writes when no ``--output`` is given.
+MODEL_VIEW_FILE = 'model_view.html'
+
+
+class _ReaderSafeOutput:
+    """
+    Standard output that drops what is written after its reader has gone.
+
+    When the reader of a pipe closes it early (``voltwake analyze | head -3``), the rest of
+    the output has nobody to go to: that is not an error of the command, which finishes and
+    keeps its exit code. The stream's file descriptor is pointed at the null device so that
+    Python's own flush at exit does not fail again (the recipe of the Python documentation,
+    "Note on SIGPIPE" in the ``signal`` module). Only writes to standard output are guarded:
+    a broken pipe anywhere else is still an error.
+
+    Parameters
+    ----------
+    stream : file-like
+        The standard output to guard.
+    """
+
+    def __init__(self, stream):
+        self._stream = stream
+        self.reader_gone = False
+
+    def _gone(self):
+        self.reader_gone = True
+        try:
+            fd = self._stream.fileno()
+        except (AttributeError, OSError, ValueError):  # in-process: no file descriptor
+            return
+        devnull = os.open(os.devnull, os.O_WRONLY)
+        try:
+            os.dup2(devnull, fd)
+        finally:
+            os.close(devnull)
+
+    def write(self, text):
+        """
+        Write ``text``, or drop it once the reader has gone.
+
+        Parameters
+        ----------
+        text : str
+            What to write.
+
+        Returns
+        -------
+        int
+            The number of characters taken.
+        """
+        if not self.reader_gone:
+            try:
+                return self._stream.write(text)
+            except BrokenPipeError:
+                self._gone()
+        return len(text)
+
+    def flush(self):
+        """Flush the stream, or nothing once the reader has gone."""
+        if not self.reader_gone:
+            try:
+                self._stream.flush()
+            except BrokenPipeError:
+                self._gone()
+
+    def __getattr__(self, name):
+        """
+        Give every other attribute of the guarded stream.
+
+        Parameters
+        ----------
+        name : str
+            Attribute name.
+
+        Returns
+        -------
+        object
+            The stream's attribute.
+        """
+        return getattr(self._stream, name)
 
 
 def _config_arg(parser):
@@ -40,6 +123,12 @@ def _parser():
         'wake-ingesting aft fan. Conceptual estimates only.',
     )
     sub = parser.add_subparsers(dest='command', required=True)
+
+    p = sub.add_parser(
+        'demos',
+        help='list the packaged demo configurations (their names work wherever CONFIG does)',
+    )
+    p.add_argument('--json', action='store_true', help='print one JSON object')
 
     p = sub.add_parser('analyze', help='close the sizing loop of one design and summarise it')
     _config_arg(p)
@@ -114,6 +203,18 @@ def _parser():
     p.add_argument('results_dir', help='a directory written by optimize or sweep --out')
     p.add_argument('--output', help='HTML file (default: RESULTS_DIR/report.html)')
 
+    p = sub.add_parser(
+        'model-view',
+        help="write OpenMDAO's model-structure diagram (N2) of the configured model as HTML",
+    )
+    _config_arg(p)
+    p.add_argument(
+        '--output',
+        default=MODEL_VIEW_FILE,
+        metavar='FILE',
+        help=f'HTML file to write (default: {MODEL_VIEW_FILE} in the current directory)',
+    )
+
     p = sub.add_parser('derivs', help='check partial and total derivatives against complex step')
     _config_arg(p)
     p.add_argument(
@@ -136,14 +237,102 @@ def _cmd_analyze(args):
 
 def _cmd_compare(args):
     from .design.compare import compare
-    from .outputs.summary import comparison_text
+    from .outputs.summary import absent_fields, comparison_text
 
     comp = compare(args.config, args.overrides, optimized=args.optimize)
-    print(
-        json.dumps(comp.to_dict(), indent=2)
-        if args.json
-        else comparison_text(comp.design, comp.reference, comp.change_percent)
-    )
+    if args.json:
+        data = comp.to_dict()
+        # The numbers stay as the model gives them (0, or 1 for efficiencies, where the
+        # reference has no aft fan or electrical chain); this names those placeholders.
+        data['absent_in_reference'] = absent_fields(comp.reference.values)
+        print(json.dumps(data, indent=2))
+    else:
+        print(comparison_text(comp.design, comp.reference, comp.change_percent))
+    return errors.EXIT_OK
+
+
+def _cmd_demos(args):
+    from .configuration.loader import demo_names, demo_path, load_config
+
+    demos = []
+    for name in demo_names():
+        path = demo_path(name)
+        demos.append(
+            {
+                'name': name,
+                'aircraft': load_config(path).name,
+                'description': _demo_description(path),
+                'path': path,
+            }
+        )
+    if args.json:
+        print(json.dumps({'demos': demos}, indent=2))
+        return errors.EXIT_OK
+    width = max(len(d['name']) for d in demos)
+    lines = ['Packaged demos: give the name wherever a config file goes, e.g.']
+    lines.append(f"  voltwake analyze {demos[0]['name']}" if demos else '  (none packaged)')
+    for demo in demos:
+        lines.append(f"{demo['name']:<{width}s}  {demo['aircraft']}")
+        if demo['description']:
+            lines.append(f"{'':<{width}s}  {demo['description']}")
+        lines.append(f"{'':<{width}s}  file (copy it to start your own): {demo['path']}")
+    print('\n'.join(lines))
+    return errors.EXIT_OK
+
+
+def _demo_description(path):
+    """
+    Return what a demo is: the first comment line of its file, without 'voltwake demo:'.
+
+    Parameters
+    ----------
+    path : str
+        The demo's YAML file.
+
+    Returns
+    -------
+    str
+        One line ('' when the file does not start with a comment).
+    """
+    with open(path, encoding='utf-8') as handle:
+        first = handle.readline().strip()
+    if not first.startswith('#'):
+        return ''
+    text = first.lstrip('#').strip()
+    head, sep, rest = text.partition(':')
+    return rest.strip() if sep and head.strip().lower() == 'voltwake demo' else text
+
+
+def _cmd_model_view(args):
+    import openmdao.api as om
+
+    from .configuration.loader import load_config
+    from .design.sizing import build_model_problem
+
+    output = os.path.abspath(args.output)
+    if os.path.isdir(output):
+        raise errors.ConfigError('is a directory; expected an HTML file name', source=args.output)
+    if not os.path.isdir(os.path.dirname(output)):
+        raise errors.ConfigError(
+            'the directory of the file does not exist; expected a file in an existing directory',
+            source=args.output,
+        )
+    config = load_config(args.config, args.overrides)
+    prob = build_model_problem(config)
+    prob.final_setup()
+    try:
+        om.n2(
+            prob,
+            outfile=output,
+            show_browser=False,
+            display_in_notebook=False,
+            title=f'voltwake model: {config.name}',
+        )
+    except OSError as err:
+        raise errors.ConfigError(
+            f'cannot write the file ({err.strerror or err})', source=args.output
+        ) from None
+    print(f'model structure of {config.name} written to {output}')
     return errors.EXIT_OK
 
 
@@ -152,13 +341,24 @@ def _cmd_derivs(args):
     from .design.derivatives import check_derivatives
 
     worst = check_derivatives(load_config(args.config, args.overrides))
-    if max(worst['worst_partial'], worst['worst_total']) > args.tolerance:
+    failed = [
+        (kind, worst[f'worst_{kind}'], worst[f'worst_{kind}_at'])
+        for kind in ('partial', 'total')
+        if worst[f'worst_{kind}'] > args.tolerance
+    ]
+    if failed:
+        kind, rel, where = max(failed, key=lambda f: f[1])
         print(
-            f'voltwake: derivative check failed: relative error above {args.tolerance:g}',
+            f'voltwake: derivative check failed: worst {kind} relative error {rel:.3e} at '
+            f'{where}, above the tolerance {args.tolerance:g}',
             file=sys.stderr,
         )
         return errors.EXIT_DERIVATIVE_CHECK
-    print(f'derivative check passed (tolerance {args.tolerance:g})')
+    print(
+        f"derivative check passed (tolerance {args.tolerance:g}; "
+        f"{worst['partials_compared']} partial and {worst['totals_compared']} total pairs "
+        'compared)'
+    )
     return errors.EXIT_OK
 
 
@@ -296,7 +496,8 @@ def _cmd_sweep(args):
     from .configuration.loader import load_config
     from .outputs.files import prepare_out_dir
     from .studies.parallel import ProgressBar, is_root
-    from .studies.runner import _clean, run_sweep, study_spec
+    from .studies.results import clean
+    from .studies.runner import run_sweep, study_spec
 
     if args.jobs is not None and args.jobs < 1:
         raise errors.ConfigError(f'got {args.jobs}; expected a whole number >= 1', source='--jobs')
@@ -309,7 +510,7 @@ def _cmd_sweep(args):
     if not root:
         return errors.EXIT_OK
     if args.json:
-        print(json.dumps(_clean(summaries), indent=2, sort_keys=True))
+        print(json.dumps(clean(summaries), indent=2, sort_keys=True))
     else:
         from .outputs.summary import sweep_text
 
@@ -325,6 +526,8 @@ def _cmd_report(args):
 
 
 COMMANDS = {
+    'demos': _cmd_demos,
+    'model-view': _cmd_model_view,
     'analyze': _cmd_analyze,
     'compare': _cmd_compare,
     'derivs': _cmd_derivs,
@@ -357,7 +560,14 @@ def main(argv=None):
             # one-line reason.
             warnings.filterwarnings('ignore', module='openmdao')
             warnings.filterwarnings('ignore', category=RuntimeWarning)
-        return _run(args)
+        stdout = sys.stdout
+        sys.stdout = _ReaderSafeOutput(stdout)
+        try:
+            code = _run(args)
+            sys.stdout.flush()  # the reader may leave before the last buffered output
+        finally:
+            sys.stdout = stdout
+    return code
 
 
 def _run(args):

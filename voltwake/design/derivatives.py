@@ -144,24 +144,102 @@ def check_totals_cs(prob, of=None, wrt=None, driver_scaling=False):
         prob.run_model()
 
 
+#: Largest complex-step entry below which an error is measured absolutely, not relatively.
+_NEGLIGIBLE = 1e-12
+
+
 def _relative(entry):
-    """Worst error of one sub-Jacobian relative to its largest complex-step entry."""
+    """
+    Return the worst error of one sub-Jacobian relative to its largest complex-step entry.
+
+    Parameters
+    ----------
+    entry : dict
+        One pair of the data of ``check_partials`` or ``check_totals``.
+
+    Returns
+    -------
+    rel, err, scale : float
+        Relative error (the absolute error where every complex-step entry is below
+        :data:`_NEGLIGIBLE`), absolute error, and the largest complex-step entry in magnitude.
+    """
     errors = entry['abs error']
     err = float(errors.forward if errors.forward is not None else errors.reverse)
-    scale = float(entry['magnitude'].fd)
-    return (err / scale if scale > 1e-12 else err), err
+    if entry.get('J_fd') is not None and np.size(entry['J_fd']):
+        scale = float(np.max(np.abs(entry['J_fd'])))
+    else:
+        scale = float(entry['magnitude'].fd)
+    return (err / scale if scale > _NEGLIGIBLE else err), err, scale
 
 
-def _worst(data):
-    worst = (0.0, '', '', 0.0)
+def _worst(pairs):
+    """
+    Return the worst of the compared pairs and how many were compared.
+
+    Ties (every pair agreeing exactly, for one) go to the pair with the largest
+    complex-step entry: the one where an error would have shown most.
+
+    Parameters
+    ----------
+    pairs : iterable of (str, dict)
+        Label ('<of> wrt <wrt>', with the component for partials) and check data.
+
+    Returns
+    -------
+    dict
+        ``relative``, ``absolute``, ``scale`` (largest complex-step entry), ``at`` (the
+        label, '' when nothing was compared) and ``compared`` (number of pairs).
+    """
+    worst = {'relative': 0.0, 'absolute': 0.0, 'scale': 0.0, 'at': '', 'compared': 0}
+    for label, entry in pairs:
+        rel, err, scale = _relative(entry)
+        worst['compared'] += 1
+        if not worst['at'] or (rel, scale) > (worst['relative'], worst['scale']):
+            worst.update(relative=rel, absolute=err, scale=scale, at=label)
+    return worst
+
+
+def _partial_pairs(data):
+    """Yield (label, entry) of every declared sub-Jacobian of ``check_partials`` data."""
     for comp, pairs in data.items():
         for (of, wrt), entry in pairs.items():
             if 'J_fwd' not in entry and 'J_rev' not in entry:  # undeclared: zero by design
                 continue
-            rel, err = _relative(entry)
-            if rel > worst[0]:
-                worst = (rel, comp, f'{of} wrt {wrt}', err)
-    return worst
+            yield f'{comp}: {of} wrt {wrt}', entry
+
+
+def worst_line(worst):
+    """
+    Say what the worst compared pair measured, also when its error is zero.
+
+    Parameters
+    ----------
+    worst : dict
+        From :func:`_worst`.
+
+    Returns
+    -------
+    str
+        E.g. ``'worst relative error 0 (exact to round-off) at mtow wrt range, largest
+        complex-step entry 1.2e+00'``.
+    """
+    if not worst['compared']:
+        return 'no pairs compared'
+    rel, scale = worst['relative'], worst['scale']
+    if rel == 0.0:
+        return (
+            f"worst relative error 0 (exact to round-off) at {worst['at']}, largest "
+            f'complex-step entry {scale:.3e}'
+        )
+    if scale <= _NEGLIGIBLE:
+        return (
+            f"worst error {worst['absolute']:.3e} (absolute: the largest complex-step entry "
+            f"of the pair, {scale:.3e}, is below {_NEGLIGIBLE:g}) at {worst['at']}"
+        )
+    return (
+        f"worst relative error {rel:.3e} at {worst['at']}, largest complex-step entry "
+        f"{scale:.3e} (absolute error {worst['absolute']:.3e})"
+    )
 
 
 def check_derivatives(config=None, vec_size=3, out=print):
@@ -180,7 +258,10 @@ def check_derivatives(config=None, vec_size=3, out=print):
     Returns
     -------
     dict
-        ``worst_partial`` and ``worst_total`` relative errors and where they occur.
+        ``worst_partial`` and ``worst_total`` relative errors, where they occur
+        (``worst_partial_at``, ``worst_total_at``), the largest complex-step entry of those
+        pairs (``worst_partial_scale``, ``worst_total_scale``) and how many pairs were
+        compared (``partials_compared``, ``totals_compared``).
     """
     config = load_config(config)
     warnings.filterwarnings('ignore', category=DerivativesWarning)
@@ -188,24 +269,28 @@ def check_derivatives(config=None, vec_size=3, out=print):
     _spread(prob, config, vec_size)
     run_sizing(prob, config.has_aft_fan)
     partials = prob.check_partials(method='cs', compact_print=True, out_stream=None)
-    rel, comp, pair, err = _worst(partials)
+    p_worst = _worst(_partial_pairs(partials))
     count = sum(len(pairs) for pairs in partials.values())
     out(
-        f'partials: {len(partials)} components, {count} sub-Jacobians checked against '
-        f'complex step at vec_size {vec_size}'
+        f'partials: {len(partials)} components, {p_worst["compared"]} declared sub-Jacobians '
+        f'compared against complex step at vec_size {vec_size} ({count - p_worst["compared"]} '
+        'undeclared pairs, zero by design, skipped)'
     )
-    out(f'  worst relative error {rel:.3e} ({comp}: {pair}; absolute {err:.3e})')
+    out(f'  {worst_line(p_worst)}')
     totals = check_totals_cs(prob, *checked_totals(config))
-    t_worst = (0.0, '')
-    for (o, w), entry in totals.items():
-        trel = _relative(entry)[0]
-        if trel > t_worst[0]:
-            t_worst = (trel, f'{o} wrt {w}')
-    out(f'totals: {len(totals)} pairs of the converged model against complex step')
-    out(f"  worst relative error {t_worst[0]:.3e} ({t_worst[1] or 'every pair agrees exactly'})")
+    t_worst = _worst((f'{o} wrt {w}', entry) for (o, w), entry in totals.items())
+    out(
+        f'totals: {t_worst["compared"]} pairs (of, wrt) of the converged model compared '
+        'against complex step'
+    )
+    out(f'  {worst_line(t_worst)}')
     return {
-        'worst_partial': rel,
-        'worst_partial_at': f'{comp}: {pair}',
-        'worst_total': t_worst[0],
-        'worst_total_at': t_worst[1],
+        'worst_partial': p_worst['relative'],
+        'worst_partial_at': p_worst['at'],
+        'worst_partial_scale': p_worst['scale'],
+        'partials_compared': p_worst['compared'],
+        'worst_total': t_worst['relative'],
+        'worst_total_at': t_worst['at'],
+        'worst_total_scale': t_worst['scale'],
+        'totals_compared': t_worst['compared'],
     }

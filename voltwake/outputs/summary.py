@@ -1,5 +1,7 @@
 """Plain-text summaries of results for the terminal."""
 
+from ..design.fields import AFT_FAN_FIELDS
+
 CAUTION = (
     'Conceptual estimates only: not for certification, flight or operational decisions; '
     'defer to the applicable airworthiness regulations and licensed engineering practice.'
@@ -8,6 +10,10 @@ CAUTION = (
 #: Relative violation above which a configured constraint is shown as violated (that of the
 #: optimiser's feasibility test, :data:`voltwake.optimization.FEASIBILITY_TOLERANCE`).
 VIOLATION_SHOWN = 1e-5
+
+#: What a table shows for a quantity a design does not have (the aft fan and electrical chain
+#: of a conventional design, whose result fields are placeholders: 0, or 1 for efficiencies).
+ABSENT = '—'
 
 _ROWS = [
     (
@@ -174,6 +180,89 @@ def constraint_lines(table):
     return lines
 
 
+def has_aft_fan(values):
+    """
+    Return True when result fields belong to a design with an aft fan.
+
+    Parameters
+    ----------
+    values : dict
+        Result fields of one design.
+
+    Returns
+    -------
+    bool
+        False for a conventional design (its aft-fan thrust fraction is zero or absent).
+    """
+    return values.get('aft_thrust_fraction', 0.0) != 0.0
+
+
+def absent_fields(values):
+    """
+    Return the result fields a design reports only as placeholders.
+
+    A design without an aft fan has no aft fan, electrical chain or their margins; its
+    result fields for them hold 0 (1 for efficiencies) so that every design has the same
+    fields. They are not quantities of that design.
+
+    Parameters
+    ----------
+    values : dict
+        Result fields of one design.
+
+    Returns
+    -------
+    list of str
+        Sorted field names (empty for a design with an aft fan).
+    """
+    if has_aft_fan(values):
+        return []
+    return sorted(key for key in AFT_FAN_FIELDS if key in values)
+
+
+def _shown(values, key, fmt):
+    """Return one value as a table shows it ('—' for a quantity the design lacks)."""
+    if key in AFT_FAN_FIELDS and not has_aft_fan(values):
+        return ABSENT
+    return fmt.format(values[key])
+
+
+def _table(header, rows, align, gaps=None):
+    """
+    Lay out a text table whose column widths are measured from its cells.
+
+    Parameters
+    ----------
+    header : list of str or None
+        Column headings (None for no heading line).
+    rows : list
+        Each a list of cell strings (one per column), or a plain string for a section title
+        printed on its own line.
+    align : str
+        One of '<' or '>' per column.
+    gaps : list of str or None
+        The separator after each column but the last (default: two blanks).
+
+    Returns
+    -------
+    list of str
+        The lines, trailing blanks removed.
+    """
+    cells = [r for r in rows if not isinstance(r, str)] + ([header] if header else [])
+    widths = [max(len(r[i]) for r in cells) for i in range(len(align))]
+    out = []
+    for row in ([header] if header else []) + rows:
+        if isinstance(row, str):
+            out.append(row)
+            continue
+        parts = [f'{cell:{a}{w}s}' for cell, a, w in zip(row, align, widths)]
+        text = parts[0]
+        for gap, part in zip(gaps or ['  '] * (len(parts) - 1), parts[1:]):
+            text += gap + part
+        out.append(text.rstrip())
+    return out
+
+
 def analysis_text(result):
     """
     Format one converged design.
@@ -192,15 +281,17 @@ def analysis_text(result):
     closed = f'  sizing loop closed in {result.iterations} Newton iterations'
     if result.continuation:
         closed = '  sizing loop closed by continuation from the same design on a short range'
-    lines = [f'{result.name}', closed]
-    for title, rows in _ROWS:
-        if title.startswith('Aft fan') and values.get('aft_thrust_fraction', 0.0) == 0.0:
+    rows = []
+    for title, section in _ROWS:
+        if title.startswith('Aft fan') and not has_aft_fan(values):
             continue
-        if rows[0][1] not in values:  # e.g. the build-up of a regression design
+        if section[0][1] not in values:  # e.g. the build-up of a regression design
             continue
-        lines.append(title)
-        for label, key, unit, fmt in rows:
-            lines.append(f'  {label:<32s}{fmt.format(values[key]):>14s} {unit}')
+        rows.append(title)
+        for label, key, unit, fmt in section:
+            shown = _shown(values, key, fmt)
+            rows.append([f'  {label}', shown, unit if shown != ABSENT else ''])
+    lines = [f'{result.name}', closed] + _table(None, rows, '<><', gaps=['  ', ' '])
     lines += constraint_lines(result.constraints)
     lines.append(CAUTION)
     return '\n'.join(lines)
@@ -208,7 +299,10 @@ def analysis_text(result):
 
 def comparison_text(design, reference, diff):
     """
-    Format a turbo-electric design beside its conventional reference.
+    Format a design beside its conventional reference.
+
+    Columns are as wide as their widest entry. A quantity a design does not have (the aft
+    fan and electrical chain of the reference) shows as '—', not as its placeholder 0 or 1.
 
     Parameters
     ----------
@@ -222,19 +316,22 @@ def comparison_text(design, reference, diff):
     str
         The side-by-side table.
     """
-    lines = [f'{"":34s}{"turbo-electric":>16s}{"reference":>16s}{"change":>10s}']
     ours, theirs = _with_wing_loading(design.values), _with_wing_loading(reference.values)
-    for title, rows in _ROWS:
-        if rows[0][1] not in ours:
+    header = ['', 'turbo-electric' if has_aft_fan(ours) else 'design', 'reference', 'change']
+    rows = []
+    for title, section in _ROWS:
+        if section[0][1] not in ours:
             continue
-        lines.append(title)
-        for label, key, unit, fmt in rows:
-            a, b = ours[key], theirs[key]
-            change = f'{diff[key]:+.2f}%' if key in diff else ''
-            lines.append(
-                f'  {label + (" [" + unit + "]" if unit else ""):<32s}'
-                f'{fmt.format(a):>16s}{fmt.format(b):>16s}{change:>10s}'
-            )
+        body = []
+        for label, key, unit, fmt in section:
+            a, b = _shown(ours, key, fmt), _shown(theirs, key, fmt)
+            if a == b == ABSENT:
+                continue
+            change = f'{diff[key]:+.2f}%' if key in diff and ABSENT not in (a, b) else ''
+            body.append([f'  {label}' + (f' [{unit}]' if unit else ''), a, b, change])
+        if body:
+            rows += [title, *body]
+    lines = _table(header, rows, '<>>>')
     lines.append(f'Block fuel change versus the reference: {diff["block_fuel_kg"]:+.2f}%')
     lines.append(CAUTION)
     return '\n'.join(lines)

@@ -282,19 +282,48 @@ def points_csv(rows, units=None):
     if not rows:
         return ''
     columns = list(rows[0])
-    units = {
-        **POINT_FIELDS,
-        'economic_block_fuel_kg': 'kg',
-        'fuel_burn_change_percent': '%',
-        **{c: (field_at(c).units or '-') for c in columns if field_at(c) is not None},
-        **(units or {}),
-    }
+    units = points_units(columns, units)
     buf = io.StringIO()
     writer = csv.writer(buf, lineterminator='\n')
-    writer.writerow([f'{c} [{units[c]}]' if units.get(c) else c for c in columns])
+    writer.writerow([f'{c} [{units[c]}]' if units[c] else c for c in columns])
     for row in rows:
         writer.writerow([_cell(row[c]) for c in columns])
     return buf.getvalue()
+
+
+def points_units(columns, units=None):
+    """
+    Return the units of the columns of a study's rows, as the CSV header shows them.
+
+    Parameters
+    ----------
+    columns : sequence of str
+        Column names: result fields, config key paths (also as ``target:<path>`` and
+        ``dv:<path>`` in a target sweep) and flags or text such as ``closed``, ``reason``.
+    units : dict or None
+        Column -> units, overriding the known ones.
+
+    Returns
+    -------
+    dict
+        Column -> units (``'-'`` for a dimensionless number), or None for a column without
+        units (flags, text, indices, model outputs named as targets).
+    """
+    known = {
+        **POINT_FIELDS,
+        'economic_block_fuel_kg': 'kg',
+        'fuel_burn_change_percent': '%',
+        **(units or {}),
+    }
+    out = {}
+    for column in columns:
+        if column in known:
+            out[column] = known[column] or None
+            continue
+        path = column.split(':', 1)[1] if column.startswith(('target:', 'dv:')) else column
+        field = field_at(path)
+        out[column] = (field.units or '-') if field is not None else None
+    return out
 
 
 def _cell(value):

@@ -1,58 +1,257 @@
 """
-``voltwake sweep``: run the trade studies of a config's ``study`` section or of flags.
+Run the trade studies, from Python or from ``voltwake sweep``.
 
-CSV, JSON/YAML summaries, plots and an HTML report are written under ``--out``.
+:func:`design_map`, :func:`target_sweep`, :func:`breakeven` and :func:`monte_carlo`
+(exported as ``voltwake.design_map``...) take their inputs with units or in SI and return
+the result objects of :mod:`voltwake.studies.results`. ``voltwake sweep`` reads the same
+studies from its flags or the config's ``study`` section (:func:`study_spec`) and runs them
+through the same code (:func:`run_sweep`), writing CSV, JSON/YAML summaries, figures and an
+HTML report under ``--out``.
 """
 
+import difflib
 import math
-import os
-import sys
+import numbers
+from collections.abc import Mapping
 
 import numpy as np
 
-from ..configuration.loader import field_at, load_config, parse_quantity
+from ..configuration.loader import (
+    _check_field,
+    absent_input_hint,
+    field_at,
+    input_paths,
+    load_config,
+    parse_quantity,
+)
 from ..errors import ConfigError, InterruptedRun
-from ..outputs.files import write_atomic, write_results
-from ..outputs.plots import NOT_CLOSED, OK, point_status
+from ..outputs.files import write_results
 from ..outputs.report import write_report
-from ..outputs.summary import axis_label, display_units, input_label, pretty_units
-from .breakeven import breakeven, technology_sensitivities
-from .maps import design_space_map, monte_carlo, parse_axis, points_csv
-from .target_sweep import fixed_config, optimize_job, target_sweep
+from .breakeven import breakeven as _breakeven
+from .breakeven import technology_sensitivities
+from .figures import study_figures as _plots  # noqa: F401 - the name earlier callers use
+from .maps import design_space_map, parse_axis
+from .maps import monte_carlo as _monte_carlo
+from .results import BreakevenResult, DesignMapResult, MonteCarloResult, TargetSweepResult
+from .target_sweep import fixed_config, is_config_input, optimize_job
+from .target_sweep import target_sweep as _target_sweep
 
 _STUDY_KEYS = ('map', 'targets', 'breakeven', 'uncertainty')
 
 
-def _axis_from_spec(path, spec, where_path, need_count=True):
-    where = {'source': 'study', 'path': where_path}
+_AXIS_KEYS = ('lower', 'upper', 'count', 'values')
+_UNCERTAINTY_KEYS = ('distributions', 'samples', 'seed')
+_DISTRIBUTION_SIZES = {'uniform': 2, 'triangular': 3}
+_DISTRIBUTION_FORM = '{uniform: [lo, hi]} or {triangular: [lo, mode, hi]}'
+
+
+def _study_where(config, parts):
+    """Return the ConfigError keywords (file, line, key path) of a key of the study section."""
+    return config.where(('study', *parts))
+
+
+def _unknown(key, known, where, what='key'):
+    """Raise the error of an unknown key, with a did-you-mean suggestion when one is close."""
+    close = difflib.get_close_matches(str(key), list(known), n=1, cutoff=0.6)
+    hint = f" (did you mean '{close[0]}'?)" if close else ''
+    raise ConfigError(f"unknown {what}{hint}; expected one of {', '.join(known)}", **where)
+
+
+def _study_input(config, parts):
+    """
+    Return the schema field of the config key path that ends ``parts``, or raise.
+
+    The path must name a numeric model input of this design (a misspelt one gets a
+    did-you-mean, an input the design does not have says why).
+    """
+    path = parts[-1]
+    where = _study_where(config, parts)
     field = field_at(path)
     if field is None or not field.target:
-        raise ConfigError('not a model input; expected a config key path', **where)
-    if 'values' in spec and isinstance(spec['values'], list) and spec['values']:
-        return [
-            parse_quantity(v, field.units, where, key=path) if field.units else float(v)
-            for v in spec['values']
-        ]
-    keys = {'lower', 'upper', 'count'} if need_count else {'lower', 'upper'}
-    if not isinstance(spec, dict) or set(spec) != keys:
+        close = difflib.get_close_matches(path, input_paths(), n=1, cutoff=0.6)
+        hint = f" (did you mean '{close[0]}'?)" if close else ''
         raise ConfigError(
-            f'got {spec!r}; expected {{{", ".join(sorted(keys))}}} or {{values: [...]}}', **where
+            f'not a model input{hint}; expected a config key path such as '
+            "'aft_fan.thrust_fraction'",
+            **where,
         )
-    lo, hi = (
-        parse_quantity(spec[k], field.units, where, key=path) if field.units else float(spec[k])
-        for k in ('lower', 'upper')
-    )
+    if field.target not in config.model_inputs():
+        raise ConfigError(
+            f'not a model input of this design{absent_input_hint(config, path)}', **where
+        )
+    return field
+
+
+def _study_value(config, field, path, value, parts):
+    """
+    Check one value of a study the way the same key is checked in its own section.
+
+    Units are converted (a bare number is held to the key's plausible range) and the key's
+    physical check applies; the error names the study key's file, line and path.
+
+    Returns
+    -------
+    float
+        The value in SI.
+    """
+    where = _study_where(config, parts)
+    try:
+        return float(_check_field(field, value, {**where, 'path': path}))
+    except ConfigError as err:
+        raise ConfigError(err.detail, **where) from None
+
+
+def _study_whole(value, least, where):
+    """Return a whole number >= ``least`` of the study section, or raise."""
+    if isinstance(value, bool) or not isinstance(value, numbers.Integral) or value < least:
+        raise ConfigError(f'got {value!r}; expected a whole number >= {least}', **where)
+    return int(value)
+
+
+def _axis_from_spec(config, kind, path, spec, need_count=True):
+    """
+    Read one axis of the study section: ``study.<kind>.<path>``.
+
+    Parameters
+    ----------
+    config : Config
+        The configuration (for the file, the lines and the design's inputs).
+    kind : str
+        'map', 'targets' or 'breakeven'.
+    path : str
+        The config key path swept (as written: one key of the study section).
+    spec : object
+        ``{lower, upper, count}`` (``{lower, upper}`` for a break-even) or ``{values: [...]}``.
+    need_count : bool
+        Whether the axis is a grid (False for a break-even interval).
+
+    Returns
+    -------
+    list of float or tuple of float
+        The grid values, or (lower, upper) for a break-even; SI.
+    """
+    path = str(path)
+    parts = (kind, path)
+    where = _study_where(config, parts)
+    field = _study_input(config, parts)
+    known = _AXIS_KEYS if need_count else ('lower', 'upper')
+    form = '{lower, upper, count} or {values: [...]}' if need_count else '{lower, upper}'
+    if not isinstance(spec, dict):
+        raise ConfigError(f'got {spec!r}; expected {form}', **where)
+    for key in spec:
+        if key not in known:
+            _unknown(key, known, _study_where(config, (*parts, str(key))))
+    if 'values' in spec:
+        values = spec['values']
+        if set(spec) != {'values'}:
+            raise ConfigError(f'got {spec!r}; expected {form}, not both', **where)
+        if not isinstance(values, list) or not values:
+            raise ConfigError(
+                f'got {values!r}; expected a non-empty list of values',
+                **_study_where(config, (*parts, 'values')),
+            )
+        return [
+            _study_value(config, field, path, v, (*parts, 'values', str(i)))
+            for i, v in enumerate(values)
+        ]
+    needed = ('lower', 'upper', 'count') if need_count else ('lower', 'upper')
+    missing = [key for key in needed if key not in spec]
+    if missing:
+        raise ConfigError(f"missing key '{missing[0]}'; expected {form}", **where)
+    lo, hi = (_study_value(config, field, path, spec[k], (*parts, k)) for k in ('lower', 'upper'))
     if not need_count:
+        if not lo < hi:
+            raise ConfigError(
+                f"got lower {spec['lower']!r} and upper {spec['upper']!r}; expected lower < upper",
+                **where,
+            )
         return lo, hi
-    count = spec['count']
-    if isinstance(count, bool) or not isinstance(count, int) or count < 1:
-        raise ConfigError(f'got count {count!r}; expected a whole number >= 1', **where)
-    return list(np.linspace(lo, hi, count))
+    count = _study_whole(spec['count'], 1, _study_where(config, (*parts, 'count')))
+    return [float(v) for v in np.linspace(lo, hi, count)]
+
+
+def _uncertainty_from_spec(config, unc, samples=None, seed=None):
+    """
+    Read and check ``study.uncertainty``: its distributions, samples and seed.
+
+    Parameters
+    ----------
+    config : Config
+        The configuration.
+    unc : object
+        The section as written.
+    samples, seed : int or None
+        Values from the command line, which take precedence.
+
+    Returns
+    -------
+    dict
+        ``distributions`` (as written, every path and value checked), ``samples``, ``seed``.
+    """
+    where = _study_where(config, ('uncertainty',))
+    if not isinstance(unc, dict):
+        raise ConfigError(
+            f'got {unc!r}; expected a mapping with distributions (and optionally samples, seed)',
+            **where,
+        )
+    for key in unc:
+        if key not in _UNCERTAINTY_KEYS:
+            _unknown(key, _UNCERTAINTY_KEYS, _study_where(config, ('uncertainty', str(key))))
+    dists = unc.get('distributions')
+    if not isinstance(dists, dict) or not dists:
+        raise ConfigError(
+            'missing distributions; expected a mapping of config key paths to '
+            f'{_DISTRIBUTION_FORM}',
+            **(_study_where(config, ('uncertainty', 'distributions')) if dists else where),
+        )
+    for path, spec in dists.items():
+        parts = ('uncertainty', 'distributions', str(path))
+        field = _study_input(config, parts)
+        if not isinstance(spec, dict) or len(spec) != 1:
+            raise ConfigError(
+                f'got {spec!r}; expected {_DISTRIBUTION_FORM}', **_study_where(config, parts)
+            )
+        ((shape, params),) = spec.items()
+        if shape not in _DISTRIBUTION_SIZES:
+            _unknown(
+                shape,
+                tuple(_DISTRIBUTION_SIZES),
+                _study_where(config, (*parts, str(shape))),
+                what='distribution',
+            )
+        size = _DISTRIBUTION_SIZES[shape]
+        if not isinstance(params, list) or len(params) != size:
+            names = '[lo, hi]' if size == 2 else '[lo, mode, hi]'
+            raise ConfigError(
+                f'got {params!r}; expected {size} values {names}',
+                **_study_where(config, (*parts, shape)),
+            )
+        vals = [
+            _study_value(config, field, str(path), v, (*parts, shape, str(i)))
+            for i, v in enumerate(params)
+        ]
+        if vals != sorted(vals) or vals[0] == vals[-1]:
+            raise ConfigError(
+                f'got {params!r}; expected lo < hi (and lo <= mode <= hi)',
+                **_study_where(config, (*parts, shape)),
+            )
+    if samples is None:
+        samples = _study_whole(
+            unc.get('samples', 1000), 1, _study_where(config, ('uncertainty', 'samples'))
+        )
+    if seed is None:
+        seed = _study_whole(unc.get('seed', 1), 0, _study_where(config, ('uncertainty', 'seed')))
+    return {'distributions': dists, 'samples': samples, 'seed': seed}
 
 
 def study_spec(config, maps=(), targets=(), breakeven=None, samples=None, seed=None):
     """
     Build the study specification from command-line flags, or else the config's ``study``.
+
+    Every key of the ``study`` section read is checked like the rest of the config: an
+    unknown study kind or key, or a misspelt config key path, gets a did-you-mean; values
+    are converted from their units (a bare number is held to the key's plausible range)
+    and held to the key's physical check; errors name the file, line and key path.
 
     Parameters
     ----------
@@ -74,13 +273,13 @@ def study_spec(config, maps=(), targets=(), breakeven=None, samples=None, seed=N
         and ``uncertainty`` (distributions, samples, seed).
     """
     study = config.values.get('study') or {}
-    unknown = set(study) - set(_STUDY_KEYS)
-    if unknown:
-        raise ConfigError(
-            f"unknown key {sorted(unknown)[0]!r}; expected {', '.join(_STUDY_KEYS)}",
-            source=config.source,
-            path='study',
-        )
+    for key in study:
+        if key not in _STUDY_KEYS:
+            _unknown(key, _STUDY_KEYS, _study_where(config, (str(key),)), what='study kind')
+    if samples is not None:
+        samples = _study_whole(samples, 1, {'source': '--monte-carlo'})
+    if seed is not None:
+        seed = _study_whole(seed, 0, {'source': '--seed'})
     spec = {}
     if maps or targets or breakeven or samples:
         for key, axes in (('map', maps), ('targets', targets)):
@@ -93,55 +292,39 @@ def study_spec(config, maps=(), targets=(), breakeven=None, samples=None, seed=N
             path, lo, hi, _ = parse_axis(breakeven, count_required=False)
             spec['breakeven'] = (path, lo, hi)
         if samples:
-            unc = study.get('uncertainty') or {}
-            if not unc.get('distributions'):
+            if 'uncertainty' not in study:
                 raise ConfigError(
                     '--monte-carlo needs study.uncertainty.distributions in the config',
                     source=config.source,
                     path='study.uncertainty',
                 )
-            spec['uncertainty'] = {
-                'distributions': unc['distributions'],
-                'samples': samples,
-                'seed': seed if seed is not None else unc.get('seed', 1),
-            }
+            spec['uncertainty'] = _uncertainty_from_spec(
+                config, study['uncertainty'], samples, seed
+            )
         return spec
     for key in ('map', 'targets'):
         if key in study:
             if not isinstance(study[key], dict) or not study[key]:
                 raise ConfigError(
-                    'expected a mapping of config key paths to axes',
-                    source=config.source,
-                    path=f'study.{key}',
+                    f'got {study[key]!r}; expected a mapping of config key paths to axes',
+                    **_study_where(config, (key,)),
                 )
             spec[key] = {
-                path: _axis_from_spec(path, axis, f'study.{key}.{path}')
+                str(path): _axis_from_spec(config, key, path, axis)
                 for path, axis in study[key].items()
             }
     if 'breakeven' in study:
         entry = study['breakeven']
         if not isinstance(entry, dict) or len(entry) != 1:
             raise ConfigError(
-                'expected one config key path with {lower, upper}',
-                source=config.source,
-                path='study.breakeven',
+                f'got {entry!r}; expected one config key path with {{lower, upper}}',
+                **_study_where(config, ('breakeven',)),
             )
         ((path, axis),) = entry.items()
-        lo, hi = _axis_from_spec(path, axis, f'study.breakeven.{path}', need_count=False)
-        spec['breakeven'] = (path, lo, hi)
+        lo, hi = _axis_from_spec(config, 'breakeven', path, axis, need_count=False)
+        spec['breakeven'] = (str(path), lo, hi)
     if 'uncertainty' in study:
-        unc = study['uncertainty']
-        if not isinstance(unc, dict) or not unc.get('distributions'):
-            raise ConfigError(
-                'expected distributions (and optionally samples, seed)',
-                source=config.source,
-                path='study.uncertainty',
-            )
-        spec['uncertainty'] = {
-            'distributions': unc['distributions'],
-            'samples': int(samples or unc.get('samples', 1000)),
-            'seed': int(seed if seed is not None else unc.get('seed', 1)),
-        }
+        spec['uncertainty'] = _uncertainty_from_spec(config, study['uncertainty'], samples, seed)
     if not spec:
         raise ConfigError(
             'nothing to sweep: give --map, --targets, --breakeven or '
@@ -150,209 +333,6 @@ def study_spec(config, maps=(), targets=(), breakeven=None, samples=None, seed=N
             path='study',
         )
     return spec
-
-
-def _axis(path, values):
-    """Return the axis label (words and the units a reader sees) and the values in them."""
-    field = field_at(path)
-    values = np.asarray(values, dtype=float)
-    if field is None:  # a model output held as a target: in the output's own units
-        return f'{input_label(path)} [model units]', values
-    _, factor = display_units(field.units)
-    return axis_label(path, field.units), values * factor
-
-
-def _label(path):
-    return _axis(path, [])[0]
-
-
-def _statuses(rows):
-    return [point_status(r) for r in rows]
-
-
-def _grid_arrays(axes, rows, key):
-    paths = list(axes)
-    ny, nx = len(axes[paths[0]]), len(axes[paths[1]])
-    z = np.array([r.get(key, math.nan) for r in rows], dtype=float).reshape(ny, nx)
-    status = np.array(_statuses(rows), dtype=object).reshape(ny, nx)
-    closed = status != NOT_CLOSED
-    _, x = _axis(paths[1], axes[paths[1]])
-    _, y = _axis(paths[0], axes[paths[0]])
-    return x, y, z, closed, status == OK
-
-
-def _design_marker(config, paths):
-    """Return the configured design on a map: (x, y, label) in the axes' units, or None."""
-    if config is None:
-        return None
-    try:
-        xv = _axis(paths[1], [config.values[paths[1]]])[1][0]
-        yv = _axis(paths[0], [config.values[paths[0]]])[1][0]
-    except (KeyError, TypeError, ValueError):
-        return None
-    return float(xv), float(yv), 'configured design'
-
-
-def _plots(kind, result, out_dir, config=None):
-    """
-    Draw the figures of one study; return the written paths.
-
-    When matplotlib cannot be imported the study keeps its CSV and summaries, and the reason
-    is returned in ``result['figures_note']`` (shown in the report) and printed on stderr.
-    """
-    try:
-        from ..outputs import plots
-    except ImportError:  # pragma: no cover - the module itself has no hard dependency
-        return []
-    made = []
-    rows = result.get('points') or []
-    try:
-        axes = result.get('axes') or result.get('target_axes')
-        if kind in ('map', 'targets') and axes and len(axes) == 2:
-            x, y, z, closed, ok = _grid_arrays(axes, rows, 'fuel_burn_change_percent')
-            paths = list(axes)
-            feasible = ok if kind == 'targets' else None
-            marker = _design_marker(config, paths) if kind == 'map' else None
-            reference = (
-                'the conventional reference as configured (not optimised)'
-                if kind == 'map'
-                else 'the optimised conventional reference'
-            )
-            made.append(
-                plots.plot_fuel_map(
-                    x,
-                    y,
-                    z,
-                    closed,
-                    _label(paths[1]),
-                    _label(paths[0]),
-                    os.path.join(out_dir, f'{kind}_fuel_change.png'),
-                    title=f'Fuel-burn change versus {reference}',
-                    feasible=feasible,
-                    marker=marker,
-                    bar_label=f"{_fuel_words(result)} change versus the reference [%]",
-                )
-            )
-            _, _, psc, _, _ = _grid_arrays(axes, rows, 'power_saving_coefficient')
-            made.append(
-                plots.plot_psc_map(
-                    x,
-                    y,
-                    psc,
-                    closed,
-                    _label(paths[1]),
-                    _label(paths[0]),
-                    os.path.join(out_dir, f'{kind}_psc.png'),
-                    feasible=feasible,
-                    marker=marker,
-                )
-            )
-        if kind == 'targets' and axes and len(axes) == 1:
-            ((path, values),) = axes.items()
-            change = [r.get('fuel_burn_change_percent', math.nan) for r in rows]
-            made.append(
-                plots.plot_line(
-                    _axis(path, values)[1],
-                    {'optimised design vs optimised reference': change},
-                    _label(path),
-                    f'{_fuel_words(result)} change versus the reference [%]',
-                    os.path.join(out_dir, 'targets_fuel_change.png'),
-                    title='Fuel-burn change of the optimised design versus the optimised reference',
-                    status=_statuses(rows),
-                    zero_line='break-even (0 %)',
-                )
-            )
-        if kind == 'targets':
-            best = _best_row(rows)
-            ref = (result.get('reference') or {}).get('outputs')
-            if best is not None and ref:
-                made.append(
-                    plots.plot_mass_breakdown(
-                        {'optimised reference': ref, 'best target point': _row_masses(best)},
-                        os.path.join(out_dir, 'targets_mass_breakdown.png'),
-                        title='Mass breakdown of the best target point beside the optimised '
-                        'reference',
-                    )
-                )
-        if kind == 'breakeven' and rows:
-            path = result['path']
-            rows = sorted(rows, key=lambda r: r[path])
-            x = _axis(path, [r[path] for r in rows])[1]
-            shown, factor = display_units(result.get('units'))
-            span = (
-                f"{result['lower'] * factor:g}–{result['upper'] * factor:g} "
-                f"{pretty_units(shown) if shown else ''}"
-            ).strip()
-            found = result.get('found') and result.get('value') is not None
-            vertical = None
-            if found:
-                value = result['value'] * factor
-                vertical = (value, f'break-even {value:.4g} {pretty_units(shown)}')
-                title = f'Break-even {input_label(path)}: {value:.4g} {pretty_units(shown)}'
-            else:
-                title = f'No break-even of {input_label(path)} in {span}'
-            made.append(
-                plots.plot_line(
-                    x,
-                    {
-                        'optimised design vs optimised reference': [
-                            r['fuel_burn_change_percent'] for r in rows
-                        ]
-                    },
-                    _label(path),
-                    f'{_fuel_words(result)} change versus the reference [%]',
-                    os.path.join(out_dir, 'breakeven.png'),
-                    title=title,
-                    zero_line='break-even (0 %)',
-                    vertical=vertical,
-                )
-            )
-        if kind == 'montecarlo':
-            made.append(
-                plots.plot_histogram(
-                    [r.get('fuel_burn_change_percent', math.nan) for r in rows],
-                    os.path.join(out_dir, 'montecarlo.png'),
-                    f'{_fuel_words(result)} change versus the reference [%]',
-                    'Monte Carlo over the technology inputs',
-                    closed=[point_status(r) == OK for r in rows],
-                    win_label='turbo-electric design wins',
-                )
-            )
-    except ConfigError as err:  # matplotlib missing: the study still has its CSV and summaries
-        result['figures_note'] = f'no figures drawn: {err.message}'
-        print(f"voltwake: note: {result['figures_note']}", file=sys.stderr)
-        return made
-    return made
-
-
-def _fuel_words(result):
-    if result.get('fuel_burn_measured_on') == 'economic_block_fuel_kg':
-        return 'economic-mission block-fuel'
-    return 'block-fuel'
-
-
-def _best_row(rows):
-    done = [r for r in rows if r.get('success') and math.isfinite(r.get('block_fuel_kg', math.nan))]
-    return min(done, key=lambda r: r['block_fuel_kg']) if done else None
-
-
-def _row_masses(row):
-    """Mass breakdown of a target-sweep row (airframe and payload from the balances)."""
-    parts = {
-        k: row[k]
-        for k in (
-            'engines_mass_kg',
-            'aft_fan_mass_kg',
-            'electrical_mass_kg',
-            'total_fuel_kg',
-            'mtow_kg',
-        )
-    }
-    parts['airframe_mass_kg'] = (
-        row['oew_kg'] - row['engines_mass_kg'] - row['aft_fan_mass_kg'] - row['electrical_mass_kg']
-    )
-    parts['payload_kg'] = row['mtow_kg'] - row['oew_kg'] - row['total_fuel_kg']
-    return parts
 
 
 def run_sweep(config, spec, jobs=None, out_dir=None, progress=None):
@@ -401,41 +381,26 @@ def run_sweep(config, spec, jobs=None, out_dir=None, progress=None):
             raise InterruptedRun(
                 f'sweep interrupted during the {kind} study', {'completed_studies': list(summaries)}
             ) from None
-        points = result.pop('points', None)
-        summaries[name] = result
-        if points is not None:
-            result['points_count'] = len(points)
-            result['closed_count'] = sum(bool(r.get('closed', r.get('success'))) for r in points)
+        summaries[name] = result.data
         if out_dir:
-            if points:
-                write_atomic(os.path.join(out_dir, f'{name}_points.csv'), points_csv(points))
-                result['points'] = points
-            plots = _plots(result.get('kind', name), result, out_dir, config)
-            result.pop('points', None)
-            result['plots'] = [os.path.basename(p) for p in plots]
-            # The configuration the study ran on, for the report's collapsible copy.
-            write_results(
-                out_dir,
-                f'{name}_summary',
-                {'status': 'complete', **_clean(result), 'config': config.data},
-            )
+            result.write_files(out_dir)
     if out_dir:
         write_report(out_dir)
     return summaries
 
 
-def _run_study(kind, config, spec, jobs, progress):
-    """Run one study and return its result (with its ``points``)."""
+def _run_study(kind, config, spec, jobs, progress, xtol=None):
+    """Run one study of ``spec`` (values in SI) and return its result object."""
     if kind == 'map':
-        return design_space_map(config, spec['map'])
+        return DesignMapResult.from_study(design_space_map(config, spec['map']), config)
     if kind == 'targets':
-        result = target_sweep(config, spec['targets'], jobs=jobs, progress=progress)
+        result = _target_sweep(config, spec['targets'], jobs=jobs, progress=progress)
         result['kind'] = 'targets'
         result['target_axes'] = {p: [float(v) for v in vals] for p, vals in spec['targets'].items()}
-        return result
+        return TargetSweepResult.from_study(result, config)
     if kind == 'breakeven':
         path, lo, hi = spec['breakeven']
-        result = breakeven(config, path, lo, hi, jobs=jobs)
+        result = _breakeven(config, path, lo, hi, jobs=jobs, xtol=xtol)
         result['kind'] = 'breakeven'
         result['sensitivities'] = technology_sensitivities(config)
         if result.get('found'):
@@ -449,9 +414,10 @@ def _run_study(kind, config, spec, jobs, progress):
             }
             for e in result.get('evaluations', [])
         ]
-        return result
+        return BreakevenResult.from_study(result, config)
     unc = spec['uncertainty']
-    return monte_carlo(config, unc['distributions'], unc['samples'], unc['seed'])
+    result = _monte_carlo(config, unc['distributions'], unc['samples'], unc['seed'])
+    return MonteCarloResult.from_study(result, config)
 
 
 def _optimum_at(config, path, value):
@@ -468,19 +434,236 @@ def _optimum_at(config, path, value):
     return {k: res[k] for k in ('success', 'message', 'design', 'active')}
 
 
-def _clean(value):
-    """Make a result JSON-ready and deterministic (NaN -> None, numpy -> Python)."""
-    if isinstance(value, dict):
-        return {str(k): _clean(v) for k, v in value.items()}
-    if isinstance(value, (list, tuple)):
-        return [_clean(v) for v in value]
-    if isinstance(value, np.ndarray):
-        return [_clean(v) for v in value.tolist()]
-    if isinstance(value, (np.floating, float)):
-        value = float(value)
-        return None if math.isnan(value) or math.isinf(value) else value
-    if isinstance(value, np.integer):
-        return int(value)
-    if isinstance(value, np.bool_):
-        return bool(value)
-    return value
+# --- The studies from Python -----------------------------------------------------------------
+
+
+def design_map(config, axes, overrides=None):
+    """
+    Analyse a full-factorial grid of designs as one vectorised model (a design-space map).
+
+    The same study as ``voltwake sweep --map``: every point is sized (analysis only, no
+    optimisation) and compared with the conventional reference as configured; points that
+    do not close keep their row with the reason.
+
+    Parameters
+    ----------
+    config : Config, dict, str or None
+        A Config, a mapping, a YAML file, the name of a packaged demo
+        (``'demo_turbo_electric'``) or None for the turbo-electric demo.
+    axes : dict
+        Config key path -> its values: a sequence of numbers (SI; a bare number is held to
+        the key's plausible range, as in a config file) or strings with units
+        (``'2 kW/kg'``), or the command line's ``'LO:HI:N'`` (``'5 kW/kg:20 kW/kg:4'``).
+        Full factorial; the first axis varies slowest.
+    overrides : dict or None
+        Config key path -> value applied to the configuration first.
+
+    Returns
+    -------
+    DesignMapResult
+        Per-point arrays with their units, the summary, ``to_csv`` and ``write``.
+    """
+    config = load_config(config, overrides)
+    spec = {'map': _axes(config, axes, 'design_map', 'map')}
+    return _run_study('map', config, spec, None, None)
+
+
+def target_sweep(config, targets, jobs=None, progress=None, overrides=None):
+    """
+    Optimise the design at every point of a full-factorial grid of targets.
+
+    The same study as ``voltwake sweep --targets``: at each point the swept config inputs
+    are fixed (and leave the design variables), swept model outputs become equality
+    constraints, every other design variable is optimised, and the optimum is compared with
+    the optimised conventional reference. Needs an ``optimization`` section.
+
+    Parameters
+    ----------
+    config : Config, dict, str or None
+        The configuration (see :func:`design_map`).
+    targets : dict
+        Config key path -> values, as the axes of :func:`design_map`; or a model output
+        (``'power_saving_coefficient'``) -> a sequence of numbers in that output's units.
+        The first target varies slowest.
+    jobs : int or None
+        Local processes for the optimisations (default: all cores); the rows do not depend
+        on it.
+    progress : callable or None
+        ``progress(done, failed, total, elapsed)`` after each optimisation.
+    overrides : dict or None
+        Config key path -> value applied to the configuration first.
+
+    Returns
+    -------
+    TargetSweepResult
+        Per-point arrays with their units, the summary, ``to_csv`` and ``write``.
+    """
+    config = load_config(config, overrides)
+    spec = {'targets': _axes(config, targets, 'target_sweep', 'targets')}
+    return _run_study('targets', config, spec, jobs, progress)
+
+
+def breakeven(config, path, lower, upper, jobs=None, xtol=None, overrides=None):
+    """
+    Find the technology value at which the design burns the fuel of the optimised reference.
+
+    The same study as ``voltwake sweep --breakeven``: Brent's method on the fuel-burn
+    difference of the optimised turbo-electric design (input fixed) against the optimised
+    conventional reference, with the sensitivities of block fuel to every technology input
+    and, when a break-even is found, what holds the optimum there.
+
+    Parameters
+    ----------
+    config : Config, dict, str or None
+        A turbo-electric configuration with an ``optimization`` section (see
+        :func:`design_map`).
+    path : str
+        A numeric input of the ``aft_fan`` or ``electrical`` section, e.g.
+        ``'electrical.motor.specific_power'``.
+    lower, upper : float or str
+        The search interval: numbers in SI or strings with units (``'2 kW/kg'``).
+    jobs : int or None
+        Local processes for the first optimisations (default: all cores).
+    xtol : float or None
+        Tolerance on the value, SI (default: 1e-5 of the interval).
+    overrides : dict or None
+        Config key path -> value applied to the configuration first.
+
+    Returns
+    -------
+    BreakevenResult
+        ``found``, ``value`` (SI), the evaluations as per-point arrays with their units, the
+        summary, ``to_csv`` and ``write``.
+    """
+    config = load_config(config, overrides)
+    path = str(path)
+    field = field_at(path)
+    where = {'source': 'breakeven', 'path': path}
+    lower, upper = (
+        parse_quantity(v, field.units, where, key=path)
+        if field is not None and field.units
+        else _number(v, where)
+        for v in (lower, upper)
+    )
+    return _run_study('breakeven', config, {'breakeven': (path, lower, upper)}, jobs, None, xtol)
+
+
+def monte_carlo(config=None, samples=None, seed=None, distributions=None, overrides=None):
+    """
+    Sample technology inputs and evaluate every sample as one vectorised model.
+
+    The same study as ``voltwake sweep --monte-carlo``: the distribution of the fuel-burn
+    change against the conventional reference as configured, and the probability that the
+    turbo-electric design wins.
+
+    Parameters
+    ----------
+    config : Config, dict, str or None
+        A turbo-electric configuration (see :func:`design_map`).
+    samples : int or None
+        Number of samples (default: ``study.uncertainty.samples`` of the config, else 1000).
+    seed : int or None
+        Seed of the random generator (default: ``study.uncertainty.seed``, else 1); the same
+        seed gives the same samples.
+    distributions : dict or None
+        Config key path -> ``{'uniform': [lo, hi]}`` or ``{'triangular': [lo, mode, hi]}``
+        (numbers in SI or strings with units); default: the config's
+        ``study.uncertainty.distributions``.
+    overrides : dict or None
+        Config key path -> value applied to the configuration first.
+
+    Returns
+    -------
+    MonteCarloResult
+        ``probability_of_win``, the statistics of the fuel-burn change, the samples as
+        per-point arrays with their units, the summary, ``to_csv`` and ``write``.
+    """
+    config = load_config(config, overrides)
+    where = {'source': 'monte_carlo'}
+    samples = None if samples is None else _study_whole(samples, 1, where)
+    seed = None if seed is None else _study_whole(seed, 0, where)
+    study = config.values.get('study') or {}
+    if distributions is None:
+        if 'uncertainty' not in study:
+            raise ConfigError(
+                'no distributions: give distributions={path: {uniform: [lo, hi]}, ...} or a '
+                'study.uncertainty.distributions section in the config',
+                source=config.source,
+                path='study.uncertainty',
+            )
+        # The config's section, checked as `voltwake sweep` checks it (file, line, key).
+        spec = {'uncertainty': _uncertainty_from_spec(config, study['uncertainty'], samples, seed)}
+        return _run_study('uncertainty', config, spec, None, None)
+    if not isinstance(distributions, Mapping) or not distributions:
+        raise ConfigError(
+            f'got {distributions!r}; expected a mapping of config key paths to distributions',
+            **where,
+        )
+    configured = study.get('uncertainty') if isinstance(study.get('uncertainty'), dict) else {}
+    samples = (
+        _study_whole(configured.get('samples', 1000), 1, where) if samples is None else samples
+    )
+    seed = _study_whole(configured.get('seed', 1), 0, where) if seed is None else seed
+    spec = {'uncertainty': {'distributions': dict(distributions), 'samples': samples, 'seed': seed}}
+    return _run_study('uncertainty', config, spec, None, None)
+
+
+def _axes(config, axes, source, kind):
+    """Return the axes of a map (``kind`` 'map') or target sweep ('targets') in SI."""
+    if not isinstance(axes, Mapping) or not axes:
+        raise ConfigError(
+            f'got {axes!r}; expected a mapping of config key paths to values', source=source
+        )
+    out = {}
+    for path, axis in axes.items():
+        path = str(path)
+        where = {'source': source, 'path': path}
+        if kind == 'targets' and not is_config_input(path):
+            # A model output held as a target: numbers in its own units; the sweep checks
+            # the name against the model's outputs.
+            out[path] = [_number(v, where) for v in _sequence(axis, where, grid=False)]
+            continue
+        field = field_at(path)
+        if field is None or not field.target:
+            close = difflib.get_close_matches(path, input_paths(), n=1)
+            hint = f" (did you mean '{close[0]}'?)" if close else ''
+            raise ConfigError(
+                f'not a model input{hint}; expected a config key path such as '
+                "'aft_fan.thrust_fraction'",
+                **where,
+            )
+        if isinstance(axis, str):  # 'LO:HI:N', read as the command line reads it
+            flag = {'map': 'maps', 'targets': 'targets'}[kind]
+            try:
+                out[path] = study_spec(config, **{flag: [f'{path}={axis}']})[kind][path]
+            except ConfigError as err:
+                raise ConfigError(err.detail, **where) from None
+            continue
+        out[path] = [
+            parse_quantity(v, field.units, where, key=path) if field.units else _number(v, where)
+            for v in _sequence(axis, where)
+        ]
+    return out
+
+
+def _sequence(axis, where, grid=True):
+    """Return the values of an axis given as a sequence, or raise."""
+    if isinstance(axis, np.ndarray):
+        axis = axis.tolist()
+    if isinstance(axis, (list, tuple, range)) and len(axis) and np.ndim(axis) == 1:
+        return list(axis)
+    expected = "a non-empty sequence of values or 'LO:HI:N'" if grid else 'a non-empty sequence'
+    raise ConfigError(f'got {axis!r}; expected {expected}', **where)
+
+
+def _number(value, where):
+    """Return ``value`` as a finite float, or raise."""
+    try:
+        if isinstance(value, bool) or not isinstance(value, (numbers.Real, str)):
+            raise ValueError
+        number = float(value)
+    except ValueError:
+        raise ConfigError(f'got {value!r}; expected a number', **where) from None
+    if not math.isfinite(number):
+        raise ConfigError(f'got {value!r}; expected a finite number', **where)
+    return number
