@@ -436,3 +436,20 @@ def test_study_section_values_with_units_come_back_in_si(tmp_path):
     )
     assert spec['breakeven'] == ('electrical.motor.specific_power', 2000.0, 20000.0)
     assert spec['uncertainty']['samples'] == 7 and spec['uncertainty']['seed'] == 1
+
+
+def test_grid_values_are_the_exact_decimal_grid(tmp_path):
+    from voltwake.design.batch import decimal_grid
+
+    assert decimal_grid(0.1, 0.4, 4) == [0.1, 0.2, 0.3, 0.4]
+    assert decimal_grid(1.15, 1.6, 10)[3] == 1.3
+    assert decimal_grid(2.0, 2.0, 1) == [2.0]
+    from voltwake.studies.runner import study_spec
+
+    spec = study_spec(load_config(TURBO_ELECTRIC), maps=['aft_fan.thrust_fraction=0.1:0.4:4'])
+    assert spec['map']['aft_fan.thrust_fraction'] == [0.1, 0.2, 0.3, 0.4]
+    result = voltwake.design_map(TURBO_ELECTRIC, {'aft_fan.thrust_fraction': '0.1:0.4:4'})
+    path = tmp_path / 'map.csv'
+    result.to_csv(path)
+    text = path.read_text()
+    assert '0.30000000000000004' not in text and '\n0.3,' in text

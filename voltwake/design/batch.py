@@ -318,3 +318,32 @@ def full_factorial(axes):
     """
     grids = np.meshgrid(*[np.asarray(v, dtype=float) for v in axes.values()], indexing='ij')
     return {path: grid.ravel() for path, grid in zip(axes, grids)}
+
+
+def decimal_grid(lower, upper, count):
+    """
+    Return ``count`` evenly spaced values from ``lower`` to ``upper`` that read as decimals.
+
+    ``numpy.linspace(0.1, 0.4, 4)`` gives ``0.30000000000000004``; a user who asked for a
+    grid from 0.1 to 0.4 in 4 steps means 0.3. Each value is rounded to 12 significant
+    digits (far below any physical resolution and far above the float round-off), and the
+    ends are the bounds themselves.
+
+    Parameters
+    ----------
+    lower, upper : float
+        First and last value.
+    count : int
+        Number of values (1 gives ``[lower]``).
+
+    Returns
+    -------
+    list of float
+        The grid.
+    """
+    values = [float(f'{v:.12g}') for v in np.linspace(lower, upper, count)]
+    values[0] = float(lower)
+    if count > 1:
+        values[-1] = float(upper)
+    return values
+

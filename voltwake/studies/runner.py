@@ -24,6 +24,7 @@ from ..configuration.loader import (
     load_config,
     parse_quantity,
 )
+from ..design.batch import decimal_grid
 from ..errors import ConfigError, InterruptedRun
 from ..outputs.files import write_results
 from ..outputs.report import write_report
@@ -167,7 +168,7 @@ def _axis_from_spec(config, kind, path, spec, need_count=True):
             )
         return lo, hi
     count = _study_whole(spec['count'], 1, _study_where(config, (*parts, 'count')))
-    return [float(v) for v in np.linspace(lo, hi, count)]
+    return decimal_grid(lo, hi, count)
 
 
 def _uncertainty_from_spec(config, unc, samples=None, seed=None):
@@ -287,7 +288,7 @@ def study_spec(config, maps=(), targets=(), breakeven=None, samples=None, seed=N
                 spec[key] = {}
                 for text in axes:
                     path, lo, hi, count = parse_axis(text)
-                    spec[key][path] = list(np.linspace(lo, hi, count))
+                    spec[key][path] = decimal_grid(lo, hi, count)
         if breakeven:
             path, lo, hi, _ = parse_axis(breakeven, count_required=False)
             spec['breakeven'] = (path, lo, hi)
