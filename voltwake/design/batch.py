@@ -346,4 +346,3 @@ def decimal_grid(lower, upper, count):
     if count > 1:
         values[-1] = float(upper)
     return values
-
