@@ -144,3 +144,21 @@ def test_better_technology_burns_less_fuel(sensitivities):
 def test_sensitivities_need_an_aft_fan():
     with pytest.raises(ConfigError, match='no aft fan'):
         technology_sensitivities(DEMO.without_aft_fan())
+
+
+def test_the_answer_comes_back_in_the_unit_the_interval_was_written_in(monkeypatch):
+    import voltwake
+    from voltwake.outputs.summary import sweep_text
+
+    monkeypatch.setattr('voltwake.studies.breakeven.optimize_job', _synthetic_optimisation)
+    monkeypatch.setattr(
+        'voltwake.studies.runner.optimize_job',
+        lambda job: {**_synthetic_optimisation(job), 'design': {}, 'active': []},
+    )
+    result = voltwake.breakeven(DEMO, MOTOR, '3 kW/kg', '5 kW/kg', jobs=1, xtol=1e-3)
+    shown = result.summary['display']
+    assert shown['units'] == 'kW/kg' and shown['lower'] == 3.0 and shown['upper'] == 5.0
+    assert shown['value'] == pytest.approx(4.0, abs=1e-5)
+    assert result.summary['units'] == 'W/kg' and result.summary['value'] == pytest.approx(4000.0)
+    text = sweep_text({'breakeven': result.summary})
+    assert f'break-even {MOTOR} = 4 kW/kg' in text

@@ -437,16 +437,19 @@ def sweep_text(summaries, out_dir=None):
                 f"reference block fuel {ref.get('block_fuel_kg', float('nan')):,.1f} kg"
             )
         elif name == 'breakeven':
+            shown = res.get('display') or res  # in the unit the user wrote, when given
+            units = shown.get('units') or ''
             if res.get('found'):
                 lines.append(
-                    f"break-even {res['path']} = {res['value']:.6g} "
-                    f"{res.get('units') or ''} (fuel-burn difference there "
-                    f"{res['difference_at_value']:+.4f}%)"
+                    f"break-even {res['path']} = {shown['value']:.6g} {units} (fuel-burn "
+                    f"difference there {res['difference_at_value']:+.4f}%)"
                 )
             else:
                 lines.append(
-                    f"no break-even of {res['path']} in [{res['lower']:g}, "
-                    f"{res['upper']:g}]: {res.get('message', '')}"
+                    f"no break-even of {res['path']} in [{shown['lower']:g}, "
+                    f"{shown['upper']:g}] {units}: the design burns "
+                    f"{res['difference_at_lower']:+.2f}% at the lower end and "
+                    f"{res['difference_at_upper']:+.2f}% at the upper end"
                 )
         elif name == 'montecarlo':
             stats = res['fuel_burn_change_percent']

@@ -23,6 +23,7 @@ from ..configuration.loader import (
     input_paths,
     load_config,
     parse_quantity,
+    written_unit,
 )
 from ..design.batch import decimal_grid
 from ..errors import ConfigError, InterruptedRun
@@ -292,6 +293,7 @@ def study_spec(config, maps=(), targets=(), breakeven=None, samples=None, seed=N
         if breakeven:
             path, lo, hi, _ = parse_axis(breakeven, count_required=False)
             spec['breakeven'] = (path, lo, hi)
+            spec['breakeven_units'] = _written_units(str(breakeven).partition('=')[2].split(':'))
         if samples:
             if 'uncertainty' not in study:
                 raise ConfigError(
@@ -324,6 +326,8 @@ def study_spec(config, maps=(), targets=(), breakeven=None, samples=None, seed=N
         ((path, axis),) = entry.items()
         lo, hi = _axis_from_spec(config, 'breakeven', path, axis, need_count=False)
         spec['breakeven'] = (str(path), lo, hi)
+        if isinstance(axis, dict):
+            spec['breakeven_units'] = _written_units([axis.get('lower'), axis.get('upper')])
     if 'uncertainty' in study:
         spec['uncertainty'] = _uncertainty_from_spec(config, study['uncertainty'], samples, seed)
     if not spec:
@@ -406,6 +410,7 @@ def _run_study(kind, config, spec, jobs, progress, xtol=None):
         result['sensitivities'] = technology_sensitivities(config)
         if result.get('found'):
             result['design_at_value'] = _optimum_at(config, path, result['value'])
+        _add_display(result, spec.get('breakeven_units'))
         # Every optimised evaluation of the root solve is a point of the study's CSV.
         result['points'] = [
             {
@@ -419,6 +424,33 @@ def _run_study(kind, config, spec, jobs, progress, xtol=None):
     unc = spec['uncertainty']
     result = _monte_carlo(config, unc['distributions'], unc['samples'], unc['seed'])
     return MonteCarloResult.from_study(result, config)
+
+
+def _written_units(values):
+    """Return the unit the first of ``values`` written with a unit has, or None."""
+    for value in values:
+        unit = written_unit(value.strip() if isinstance(value, str) else value)
+        if unit is not None:
+            return unit
+    return None
+
+
+def _add_display(result, units):
+    """Give a break-even its value and interval in the unit the user wrote (``display``)."""
+    si = result.get('units')
+    if not units or not si or units == si:
+        return
+    from openmdao.utils.units import convert_units
+
+    def shown(value):
+        if value is None or not math.isfinite(value):
+            return value
+        return float(convert_units(value, si, units))
+
+    result['display'] = {
+        'units': units,
+        **{key: shown(result.get(key)) for key in ('value', 'lower', 'upper')},
+    }
 
 
 def _optimum_at(config, path, value):
@@ -540,13 +572,15 @@ def breakeven(config, path, lower, upper, jobs=None, xtol=None, overrides=None):
     path = str(path)
     field = field_at(path)
     where = {'source': 'breakeven', 'path': path}
+    shown = _written_units([lower, upper])
     lower, upper = (
         parse_quantity(v, field.units, where, key=path)
         if field is not None and field.units
         else _number(v, where)
         for v in (lower, upper)
     )
-    return _run_study('breakeven', config, {'breakeven': (path, lower, upper)}, jobs, None, xtol)
+    spec = {'breakeven': (path, lower, upper), 'breakeven_units': shown}
+    return _run_study('breakeven', config, spec, jobs, None, xtol)
 
 
 def monte_carlo(config=None, samples=None, seed=None, distributions=None, overrides=None):
