@@ -99,7 +99,9 @@ def test_map_points_are_arrays_with_their_units(maps):
 def test_units_are_the_csv_header(maps):
     _, _, result, _ = maps
     columns = header(result.csv_text())
-    assert columns == [f'{c} [{u}]' if u else c for c, u in result.units.items()]
+    assert columns == [f'{c} [{u}]' if u else c for c, u in result.csv_units.items()]
+    # the arrays stay in SI, in result.units
+    assert all(result.units[c] == 'W/kg' for c in result.units if c.endswith('specific_power'))
 
 
 def test_map_csv_summary_and_files_are_those_of_the_command_line(maps):
@@ -269,3 +271,32 @@ def test_monte_carlo_without_distributions_says_where_they_go():
     with pytest.raises(ConfigError, match='study.uncertainty.distributions') as err:
         voltwake.monte_carlo(data, 10)
     assert err.value.path == 'study.uncertainty'
+
+
+def test_axes_come_back_in_the_units_they_were_written_in(tmp_path):
+    # the CSV and the figures show an axis in the unit the user wrote it in (the arrays of
+    # the result object stay in SI, with their SI units)
+    from voltwake.studies import figures
+
+    result = voltwake.design_map(
+        'demo_turbo_electric',
+        {
+            'mission.cruise_altitude': '30000 ft:40000 ft:3',
+            'electrical.motor.specific_power': '5 kW/kg:20 kW/kg:2',
+        },
+    )
+    path = tmp_path / 'map.csv'
+    result.to_csv(path)
+    header, first = path.read_text().splitlines()[:2]
+    assert header.startswith(
+        'mission.cruise_altitude [ft],electrical.motor.specific_power [kW/kg],'
+    )
+    assert first.startswith('30000.0,5.0,')
+    assert result.units['mission.cruise_altitude'] == 'm'
+    assert result.points['mission.cruise_altitude'][0] == pytest.approx(9144.0)
+    token = figures._WRITTEN.set({'mission.cruise_altitude': 'ft'})
+    try:
+        label, values = figures._axis('mission.cruise_altitude', [9144.0])
+    finally:
+        figures._WRITTEN.reset(token)
+    assert label.endswith('[ft]') and values[0] == pytest.approx(30000.0)

@@ -505,7 +505,7 @@ def _contour_map(
         # Cells: the ticks sit on the swept values, not on the cell edges.
         for axis, values in ((ax.xaxis, x), (ax.yaxis, y)):
             if values.size <= 12:
-                axis.set_ticks(values, [f'{v:.4g}' for v in values])
+                axis.set_ticks(values, [_tick(v) for v in values])
     ax.set_xlabel(x_label)
     ax.set_ylabel(y_label)
     if ax.get_legend_handles_labels()[0]:
@@ -515,6 +515,14 @@ def _contour_map(
         note += '; ' + extra if len(note) + len(extra) < 80 else '\n' + extra
     ax.set_title(f'{title}\n{note}', fontsize=10.5)
     return _save(fig, path, details)
+
+
+def _tick(value):
+    """Format a tick value as a reader writes it: ``35,000`` rather than ``3.5e+04``."""
+    value = float(f'{value:.10g}')  # a unit conversion leaves 29999.999999 for 30,000
+    if abs(value) >= 1e4 and value.is_integer():
+        return f'{value:,.0f}'
+    return f'{value:.4g}'
 
 
 def plot_fuel_map(

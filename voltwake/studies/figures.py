@@ -5,24 +5,37 @@ The figures of a trade study: fuel-burn and PSC maps, curves, histogram, mass br
 and by :meth:`voltwake.studies.results.StudyResult.write`) in the units a reader sees.
 """
 
+import contextvars
 import math
 import os
 import sys
 
 import numpy as np
+from openmdao.utils.units import convert_units
 
 from ..configuration.loader import field_at
 from ..errors import ConfigError
 from ..outputs.plots import NOT_CLOSED, OK, point_status
 from ..outputs.summary import axis_label, display_units, input_label, pretty_units
 
+#: The unit the user wrote each axis of the study being drawn in (path -> unit).
+_WRITTEN = contextvars.ContextVar('written_axis_units', default={})
+
 
 def _axis(path, values):
-    """Return the axis label (words and the units a reader sees) and the values in them."""
+    """
+    Return the axis label (words and units) and the values in those units.
+
+    The units are those the user wrote the axis in, else the units a reader sees.
+    """
     field = field_at(path)
     values = np.asarray(values, dtype=float)
     if field is None:  # a model output held as a target: in the output's own units
         return f'{input_label(path)} [model units]', values
+    written = _WRITTEN.get().get(path)
+    if written and field.units and written != field.units:
+        factor = float(convert_units(1.0, field.units, written))
+        return f'{input_label(path)} [{pretty_units(written)}]', values * factor
     _, factor = display_units(field.units)
     return axis_label(path, field.units), values * factor
 
@@ -82,6 +95,15 @@ def study_figures(kind, result, out_dir, config=None):
     list of str
         The PNG files written.
     """
+    token = _WRITTEN.set(dict(result.get('axis_units') or {}))
+    try:
+        return _study_figures(kind, result, out_dir, config)
+    finally:
+        _WRITTEN.reset(token)
+
+
+def _study_figures(kind, result, out_dir, config):
+    """Draw the figures of one study (see :func:`study_figures`)."""
     try:
         from ..outputs import plots
     except ImportError:  # pragma: no cover - the module itself has no hard dependency

@@ -10,6 +10,7 @@ import io
 import math
 
 import numpy as np
+from openmdao.utils.units import convert_units
 
 from ..configuration.loader import field_at, load_config, parse_quantity
 from ..design.analysis import analyze
@@ -263,7 +264,7 @@ def monte_carlo(config, distributions, samples=1000, seed=1):
     }
 
 
-def points_csv(rows, units=None):
+def points_csv(rows, units=None, shown=None):
     """
     Return the rows of a study as CSV text with units in the header.
 
@@ -273,6 +274,10 @@ def points_csv(rows, units=None):
         One dict per point (same keys).
     units : dict or None
         Column -> units shown in the header as ``name [units]``.
+    shown : dict or None
+        Column -> the unit the user wrote that axis in: its values are converted from SI to
+        it (rounded to 12 significant digits, so that a decimal grid stays decimal) and the
+        header names it.
 
     Returns
     -------
@@ -283,11 +288,21 @@ def points_csv(rows, units=None):
         return ''
     columns = list(rows[0])
     units = points_units(columns, units)
+    factors = {}
+    for column, unit in (shown or {}).items():
+        if column in units and units[column] not in (None, '-') and unit != units[column]:
+            factors[column] = float(convert_units(1.0, units[column], unit))
+            units[column] = unit
     buf = io.StringIO()
     writer = csv.writer(buf, lineterminator='\n')
     writer.writerow([f'{c} [{units[c]}]' if units[c] else c for c in columns])
     for row in rows:
-        writer.writerow([_cell(row[c]) for c in columns])
+        writer.writerow(
+            [
+                _cell(float(f'{row[c] * factors[c]:.12g}')) if c in factors else _cell(row[c])
+                for c in columns
+            ]
+        )
     return buf.getvalue()
 
 

@@ -170,7 +170,27 @@ class StudyResult:
         str
             One row per point, units in the header (empty for a study without points).
         """
-        return points_csv(self.rows)
+        return points_csv(self.rows, shown=self._written())
+
+    def _written(self):
+        """Column -> the unit the user wrote that axis in (map axes and targets)."""
+        written = self.data.get('axis_units') or {}
+        return {**written, **{f'target:{p}': u for p, u in written.items()}}
+
+    @property
+    def csv_units(self):
+        """
+        The units of the CSV columns.
+
+        Those of :attr:`units`, except the axes the user wrote with a unit, which the CSV
+        gives in that unit.
+
+        Returns
+        -------
+        dict
+            Column -> units as the CSV header shows them.
+        """
+        return {**self.units, **{c: u for c, u in self._written().items() if c in self.units}}
 
     def to_csv(self, path):
         """

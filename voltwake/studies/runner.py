@@ -290,6 +290,9 @@ def study_spec(config, maps=(), targets=(), breakeven=None, samples=None, seed=N
                 for text in axes:
                     path, lo, hi, count = parse_axis(text)
                     spec[key][path] = decimal_grid(lo, hi, count)
+                    unit = _written_units(str(text).partition('=')[2].split(':')[:2])
+                    if unit:
+                        spec.setdefault('axis_units', {})[path] = unit
         if breakeven:
             path, lo, hi, _ = parse_axis(breakeven, count_required=False)
             spec['breakeven'] = (path, lo, hi)
@@ -316,6 +319,15 @@ def study_spec(config, maps=(), targets=(), breakeven=None, samples=None, seed=N
                 str(path): _axis_from_spec(config, key, path, axis)
                 for path, axis in study[key].items()
             }
+            for path, axis in study[key].items():
+                written = (
+                    [axis.get('lower'), axis.get('upper')] + list(axis.get('values') or [])
+                    if isinstance(axis, dict)
+                    else []
+                )
+                unit = _written_units(written)
+                if unit:
+                    spec.setdefault('axis_units', {})[str(path)] = unit
     if 'breakeven' in study:
         entry = study['breakeven']
         if not isinstance(entry, dict) or len(entry) != 1:
@@ -396,10 +408,14 @@ def run_sweep(config, spec, jobs=None, out_dir=None, progress=None):
 
 def _run_study(kind, config, spec, jobs, progress, xtol=None):
     """Run one study of ``spec`` (values in SI) and return its result object."""
+    written = spec.get('axis_units') or {}
     if kind == 'map':
-        return DesignMapResult.from_study(design_space_map(config, spec['map']), config)
+        result = design_space_map(config, spec['map'])
+        result['axis_units'] = {p: u for p, u in written.items() if p in spec['map']}
+        return DesignMapResult.from_study(result, config)
     if kind == 'targets':
         result = _target_sweep(config, spec['targets'], jobs=jobs, progress=progress)
+        result['axis_units'] = {p: u for p, u in written.items() if p in spec['targets']}
         result['kind'] = 'targets'
         result['target_axes'] = {p: [float(v) for v in vals] for p, vals in spec['targets'].items()}
         return TargetSweepResult.from_study(result, config)
@@ -497,7 +513,8 @@ def design_map(config, axes, overrides=None):
         Per-point arrays with their units, the summary, ``to_csv`` and ``write``.
     """
     config = load_config(config, overrides)
-    spec = {'map': _axes(config, axes, 'design_map', 'map')}
+    written = {}
+    spec = {'map': _axes(config, axes, 'design_map', 'map', written), 'axis_units': written}
     return _run_study('map', config, spec, None, None)
 
 
@@ -532,7 +549,11 @@ def target_sweep(config, targets, jobs=None, progress=None, overrides=None):
         Per-point arrays with their units, the summary, ``to_csv`` and ``write``.
     """
     config = load_config(config, overrides)
-    spec = {'targets': _axes(config, targets, 'target_sweep', 'targets')}
+    written = {}
+    spec = {
+        'targets': _axes(config, targets, 'target_sweep', 'targets', written),
+        'axis_units': written,
+    }
     return _run_study('targets', config, spec, jobs, progress)
 
 
@@ -643,8 +664,12 @@ def monte_carlo(config=None, samples=None, seed=None, distributions=None, overri
     return _run_study('uncertainty', config, spec, None, None)
 
 
-def _axes(config, axes, source, kind):
-    """Return the axes of a map (``kind`` 'map') or target sweep ('targets') in SI."""
+def _axes(config, axes, source, kind, written=None):
+    """
+    Return the axes of a map (``kind`` 'map') or target sweep ('targets') in SI.
+
+    The unit each axis was written in goes into ``written`` (path -> unit), when given.
+    """
     if not isinstance(axes, Mapping) or not axes:
         raise ConfigError(
             f'got {axes!r}; expected a mapping of config key paths to values', source=source
@@ -670,10 +695,16 @@ def _axes(config, axes, source, kind):
         if isinstance(axis, str):  # 'LO:HI:N', read as the command line reads it
             flag = {'map': 'maps', 'targets': 'targets'}[kind]
             try:
-                out[path] = study_spec(config, **{flag: [f'{path}={axis}']})[kind][path]
+                spec = study_spec(config, **{flag: [f'{path}={axis}']})
             except ConfigError as err:
                 raise ConfigError(err.detail, **where) from None
+            out[path] = spec[kind][path]
+            if written is not None and path in spec.get('axis_units', {}):
+                written[path] = spec['axis_units'][path]
             continue
+        unit = _written_units(list(_sequence(axis, where)))
+        if written is not None and unit:
+            written[path] = unit
         out[path] = [
             parse_quantity(v, field.units, where, key=path) if field.units else _number(v, where)
             for v in _sequence(axis, where)
