@@ -300,3 +300,16 @@ def test_axes_come_back_in_the_units_they_were_written_in(tmp_path):
     finally:
         figures._WRITTEN.reset(token)
     assert label.endswith('[ft]') and values[0] == pytest.approx(30000.0)
+
+
+def test_monte_carlo_csv_gives_the_sampled_inputs_in_their_written_units():
+    # the demo's distributions are written in kW/kg: the CSV columns are in kW/kg, the
+    # arrays in W/kg (SI)
+    result = voltwake.monte_carlo('demo_turbo_electric', samples=20, seed=1)
+    header = result.csv_text().splitlines()[0].split(',')
+    assert f'{MOTOR} [kW/kg]' in header
+    assert result.units[MOTOR] == 'W/kg'
+    column = header.index(f'{MOTOR} [kW/kg]')
+    first = float(result.csv_text().splitlines()[1].split(',')[column])
+    assert first == pytest.approx(result.points[MOTOR][0] / 1000.0, rel=1e-11)
+    assert 5.0 <= first <= 20.0

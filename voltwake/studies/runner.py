@@ -439,7 +439,19 @@ def _run_study(kind, config, spec, jobs, progress, xtol=None):
         return BreakevenResult.from_study(result, config)
     unc = spec['uncertainty']
     result = _monte_carlo(config, unc['distributions'], unc['samples'], unc['seed'])
+    result['axis_units'] = {
+        path: unit
+        for path, shape in unc['distributions'].items()
+        if isinstance(shape, Mapping)
+        for unit in [_written_units([v for params in shape.values() for v in _as_list(params)])]
+        if unit
+    }
     return MonteCarloResult.from_study(result, config)
+
+
+def _as_list(params):
+    """Return a distribution's parameters as a list (one value as a list of one)."""
+    return list(params) if isinstance(params, (list, tuple)) else [params]
 
 
 def _written_units(values):
