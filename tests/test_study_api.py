@@ -300,6 +300,8 @@ def test_axes_come_back_in_the_units_they_were_written_in(tmp_path):
     finally:
         figures._WRITTEN.reset(token)
     assert label.endswith('[ft]') and values[0] == pytest.approx(30000.0)
+    report = result.write(tmp_path / 'out')
+    assert '30,000–40,000 ft (3 values)' in open(report, encoding='utf-8').read()
 
 
 def test_monte_carlo_csv_gives_the_sampled_inputs_in_their_written_units():

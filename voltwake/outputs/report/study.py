@@ -203,10 +203,11 @@ def field_short(field):
     return 'economic-mission block fuel' if field == 'economic_block_fuel_kg' else 'block fuel'
 
 
-def _inputs_of_axes(axes):
-    """Return the rows of a study's axes: label, lo–hi with units, count."""
+def _inputs_of_axes(axes, written=None):
+    """Return the rows of a study's axes: label, lo–hi with units (as written), count."""
+    written = written or {}
     return [
-        (input_label(p), _axis_text(p, v).split(input_label(p), 1)[1].strip())
+        (input_label(p), _axis_text(p, v, written.get(p)).split(input_label(p), 1)[1].strip())
         for p, v in axes.items()
     ]
 

@@ -87,7 +87,7 @@ def _map_study(data, rows, figures):
                 require=0,
             )
         )
-    pairs = _inputs_of_axes(axes) + [
+    pairs = _inputs_of_axes(axes, data.get('axis_units')) + [
         (
             'points',
             f'{total} ({total - missing} closed, {data.get("recovered", 0)} of them by '
@@ -310,7 +310,13 @@ def _targets_study(data, rows, figures):
                 'targets_points.csv.</p>'
             )
     pairs = [
-        (input_label(p), _axis_text(p, v).split(input_label(p), 1)[1].strip() or 'model output')
+        (
+            input_label(p),
+            _axis_text(p, v, (data.get('axis_units') or {}).get(p))
+            .split(input_label(p), 1)[1]
+            .strip()
+            or 'model output',
+        )
         for p, v in axes.items()
     ]
     pairs.append(

@@ -1,5 +1,7 @@
 """What the report shows of a design, in which units, and the words it uses for it."""
 
+from openmdao.utils.units import convert_units
+
 from ...configuration.loader import field_at
 from ..summary import input_label, pretty_units
 from .html import NONE, _esc, _number, _pct, _shown, _sig, _table, _td
@@ -349,16 +351,25 @@ def _more_less(change, what='fuel'):
     return f'burns {abs(change):.2f} % {word} {what}'
 
 
-def _axis_text(path, values):
-    """Return 'motor specific power 2–20 kW/kg (6 values)'."""
+def _axis_text(path, values, written=None):
+    """
+    Return 'motor specific power 2–20 kW/kg (6 values)'.
+
+    In ``written`` (the unit the user wrote the axis in) when given, else in the units a
+    reader sees.
+    """
     field = field_at(path)
     units = field.units if field is not None else None
     nums = [_number(v) for v in values]
     nums = [v for v in nums if v is not None]
     if not nums:
         return input_label(path)
-    lo, shown = _shown(min(nums), units)
-    hi, _ = _shown(max(nums), units)
+    if written and units and written != units:
+        factor = float(convert_units(1.0, units, written))
+        lo, hi, shown = min(nums) * factor, max(nums) * factor, written
+    else:
+        lo, shown = _shown(min(nums), units)
+        hi, _ = _shown(max(nums), units)
     unit = pretty_units(shown)
     unit = '' if unit == '-' else f' {unit}'
     return f'{input_label(path)} {_sig(lo)}–{_sig(hi)}{unit} ({len(nums)} values)'
