@@ -138,6 +138,32 @@ def _prefixed(prefix, names):
     return [(name, f'{prefix}_{name}') for name in names]
 
 
+def _newton_solve(group, **kwargs):
+    """
+    Solve ``group`` by Newton's method with the point-by-point direct linear solver.
+
+    The iteration limit and tolerance are the group's options; a solve that does not
+    converge raises. No line search: every state stays defined along full Newton steps (the
+    capture-height fluxes are continued as odd functions below the wall), and a line search
+    would cost one more residual evaluation per iteration.
+
+    Parameters
+    ----------
+    group : om.Group
+        A group with the options ``max_iterations`` and ``tolerance``.
+    **kwargs : dict
+        Options of :class:`SizingNewtonSolver` (e.g. ``solve_subsystems``).
+    """
+    newton = group.nonlinear_solver = SizingNewtonSolver(**kwargs)
+    newton.options['maxiter'] = group.options['max_iterations']
+    newton.options['rtol'] = group.options['tolerance']
+    newton.options['atol'] = 1e-8
+    newton.options['iprint'] = -1
+    newton.options['err_on_non_converge'] = True
+    newton.linesearch = None
+    group.linear_solver = PointwiseDirectSolver(assemble_jac=True)
+
+
 class FlightConditionGroup(om.Group):
     """
     ISA atmosphere and free-stream conditions at one altitude and Mach number.
@@ -984,17 +1010,7 @@ class SizingLoop(om.Group):
             ],
         )
 
-        newton = self.nonlinear_solver = SizingNewtonSolver(solve_subsystems=True, max_sub_solves=2)
-        newton.options['maxiter'] = opt['max_iterations']
-        newton.options['rtol'] = opt['tolerance']
-        newton.options['atol'] = 1e-8
-        newton.options['iprint'] = -1
-        newton.options['err_on_non_converge'] = True
-        # No line search: every state stays defined along full Newton steps (the capture-height
-        # fluxes are continued as odd functions below the wall), and a line search would cost
-        # one more residual evaluation per iteration.
-        newton.linesearch = None
-        self.linear_solver = PointwiseDirectSolver(assemble_jac=True)
+        _newton_solve(self, solve_subsystems=True, max_sub_solves=2)
 
     def guess_nonlinear(self, inputs, outputs, residuals):
         """
@@ -1340,14 +1356,7 @@ class EconomicMissionGroup(om.Group):
             [('value', 'economic_takeoff_mass'), ('rating', 'mtow')],
             [('margin', 'economic_takeoff_mass_margin')],
         )
-        newton = self.nonlinear_solver = SizingNewtonSolver(solve_subsystems=False)
-        newton.options['maxiter'] = opt['max_iterations']
-        newton.options['rtol'] = opt['tolerance']
-        newton.options['atol'] = 1e-8
-        newton.options['iprint'] = -1
-        newton.options['err_on_non_converge'] = True
-        newton.linesearch = None
-        self.linear_solver = PointwiseDirectSolver(assemble_jac=True)
+        _newton_solve(self, solve_subsystems=False)
 
 
 class AircraftModel(om.Group):
