@@ -3,7 +3,8 @@ The ``voltwake`` command.
 
 Every error a user can cause ends in one line on standard error and a documented exit
 code (see README.md): 0 success, 2 bad input, 3 design did not close, 4 optimiser failed,
-5 derivative check above tolerance, 130 interrupted. Output cut short by its reader (``voltwake
+5 derivative check above tolerance, 6 no feasible design, 7 no break-even in the interval,
+130 interrupted. Output cut short by its reader (``voltwake
 analyze | head -3``) is not an error: the rest is dropped and the command keeps its code.
 """
 

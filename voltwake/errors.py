@@ -7,6 +7,8 @@ EXIT_BAD_INPUT = 2
 EXIT_NOT_CLOSED = 3
 EXIT_OPTIMIZER_FAILED = 4
 EXIT_DERIVATIVE_CHECK = 5
+EXIT_INFEASIBLE = 6
+EXIT_NO_BREAKEVEN = 7
 EXIT_INTERRUPTED = 130
 
 
@@ -78,6 +80,35 @@ class OptimizationError(VoltwakeError):
     """
 
     exit_code = EXIT_OPTIMIZER_FAILED
+
+
+class InfeasibleError(VoltwakeError):
+    """
+    No design satisfies the constraints (the optimiser found only infeasible designs).
+
+    Not an optimiser failure: the least-infeasible design was found and the message names
+    the constraints it violates and by how much.
+
+    Parameters
+    ----------
+    message : str
+        The violated constraints, by name and amount, at the least-infeasible design.
+    """
+
+    exit_code = EXIT_INFEASIBLE
+
+
+class NoBreakevenError(VoltwakeError):
+    """
+    A break-even study whose fuel-burn difference does not change sign in its interval.
+
+    Parameters
+    ----------
+    message : str
+        The difference at both ends of the interval and which design wins throughout.
+    """
+
+    exit_code = EXIT_NO_BREAKEVEN
 
 
 class InterruptedRun(VoltwakeError):
