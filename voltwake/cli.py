@@ -487,6 +487,9 @@ def _cmd_optimize(args):
             write_results(out_dir, 'results', {'status': 'complete', **data, 'figures_note': note})
         write_report(out_dir)
     print(json.dumps(data, indent=2) if args.json else optimization_text(result))
+    if result.status == 'infeasible':
+        print(f'voltwake: error: {result.message}', file=sys.stderr)
+        return errors.EXIT_INFEASIBLE
     if not result.success:
         print(f'voltwake: error: optimisation failed: {result.message}', file=sys.stderr)
         return errors.EXIT_OPTIMIZER_FAILED
@@ -516,6 +519,35 @@ def _cmd_sweep(args):
         from .outputs.summary import sweep_text
 
         print(sweep_text(summaries, out_dir))
+    return _sweep_exit_code(summaries)
+
+
+def _sweep_exit_code(summaries):
+    """
+    Return the exit code of a sweep whose files are written.
+
+    Returns
+    -------
+    int
+        4 when an optimisation of a target sweep failed, else 6 when a target point has no
+        feasible design, else 0.
+    """
+    targets = summaries.get('targets') or {}
+    if targets.get('failed_count'):
+        print(
+            f"voltwake: error: {targets['failed_count']} target-sweep optimisations failed",
+            file=sys.stderr,
+        )
+        return errors.EXIT_OPTIMIZER_FAILED
+    if targets.get('infeasible_count'):
+        from .outputs.summary import binding_words
+
+        print(
+            f"voltwake: error: {targets['infeasible_count']} target points have no feasible "
+            f'design: {binding_words(targets)}',
+            file=sys.stderr,
+        )
+        return errors.EXIT_INFEASIBLE
     return errors.EXIT_OK
 
 

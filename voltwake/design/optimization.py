@@ -29,6 +29,14 @@ from .constraints import (
     design_variables,
     in_units,
 )
+from .feasibility import (
+    FAILED,
+    INFEASIBLE,
+    OPTIMUM,
+    least_infeasible,
+    violation_words,
+    violations,
+)
 from .fields import read_fields
 from .sizing import build_model_problem, closure_problem, run_sizing, set_model_inputs
 
@@ -340,6 +348,14 @@ class OptimizationResult:
         The configuration as given (after overrides).
     problem : om.Problem or None
         The OpenMDAO problem at the final point.
+    status : str
+        'optimum' (a feasible optimum), 'infeasible' (no feasible design: the feasibility
+        phase's least-infeasible design still violates constraints; ``design``,
+        ``constraints`` and ``outputs`` are at that design) or 'failed' (the optimiser
+        failed; ``message`` says how).
+    violations : list of dict
+        For 'infeasible': the violated constraints at the least-infeasible design, worst
+        first (see :func:`voltwake.design.feasibility.violations`); else empty.
     """
 
     success: bool
@@ -355,6 +371,8 @@ class OptimizationResult:
     best_feasible: dict = None
     inputs: dict = None
     problem: object = None
+    status: str = OPTIMUM
+    violations: list = dataclasses.field(default_factory=list)
 
     def to_dict(self):
         """
@@ -398,7 +416,39 @@ def optimize(config=None, overrides=None, recorder_path=None, on_evaluation=None
         return _optimize(config, overrides, recorder_path, on_evaluation)
 
 
-def _optimize(config, overrides, recorder_path, on_evaluation):
+def design_table(dvs, prob):
+    """
+    Return each design variable at the problem's current (single) design point.
+
+    Parameters
+    ----------
+    dvs : list of DesignVariable
+        The design variables.
+    prob : om.Problem
+        A problem that has been run (``vec_size`` 1).
+
+    Returns
+    -------
+    dict
+        Config key path -> {value, lower, upper, units, active, si}: in the unit the user
+        wrote the bounds in, and under ``si`` in SI.
+    """
+    design = {}
+    for dv in dvs:
+        value = float(np.real(prob.get_val(dv.target, units=dv.units)[0]))
+        shown = dv.display_units or dv.units
+        design[dv.path] = {
+            'value': in_units(value, dv.units, shown),
+            'lower': in_units(dv.lower, dv.units, shown),
+            'upper': in_units(dv.upper, dv.units, shown),
+            'units': shown,
+            'active': _active(value, dv.lower, dv.upper),
+            'si': {'value': value, 'lower': dv.lower, 'upper': dv.upper, 'units': dv.units},
+        }
+    return design
+
+
+def _optimize(config, overrides, recorder_path, on_evaluation, feasibility=True):
     config = load_config(config, overrides)
     prob = build_problem(config, recorder_path=recorder_path)
     driver = prob.driver
@@ -440,18 +490,7 @@ def _optimize(config, overrides, recorder_path, on_evaluation):
     driver._run_solve_nonlinear()
     reason = closure_problem(prob, config.has_aft_fan)
     result = getattr(driver, '_scipy_optimize_result', None)
-    design = {}
-    for dv in driver.design_variables:
-        value = float(np.real(prob.get_val(dv.target, units=dv.units)[0]))
-        shown = dv.display_units or dv.units
-        design[dv.path] = {
-            'value': in_units(value, dv.units, shown),
-            'lower': in_units(dv.lower, dv.units, shown),
-            'upper': in_units(dv.upper, dv.units, shown),
-            'units': shown,
-            'active': _active(value, dv.lower, dv.upper),
-            'si': {'value': value, 'lower': dv.lower, 'upper': dv.upper, 'units': dv.units},
-        }
+    design = design_table(driver.design_variables, prob)
     cons = constraint_table(driver.spec_constraints, prob)
     worst = max((c['violation'] for c in cons.values()), default=0.0)
     message = str(result.message) if result is not None else 'no optimiser result'
@@ -472,7 +511,7 @@ def _optimize(config, overrides, recorder_path, on_evaluation):
         e for e in driver.history if e['closed'] and e['max_violation'] <= FEASIBILITY_TOLERANCE
     ]
     best = min(feasible, key=lambda e: e['objective']) if feasible else None
-    return OptimizationResult(
+    result = OptimizationResult(
         success,
         message,
         design,
@@ -486,4 +525,67 @@ def _optimize(config, overrides, recorder_path, on_evaluation):
         best,
         config.data,
         prob,
+        OPTIMUM if success else FAILED,
     )
+    if success or not feasibility:
+        return result
+    return _feasibility_phase(config, result, recorder_path, on_evaluation)
+
+
+def _feasibility_phase(config, result, recorder_path, on_evaluation):
+    """
+    Decide whether a failed optimisation has a feasible design at all.
+
+    The least-infeasible design is found over the same design variables and bounds (see
+    :mod:`voltwake.design.feasibility`). If it still violates constraints the outcome is
+    'infeasible', at that design; if it satisfies them the optimisation is run again from
+    it, and only a second failure is 'failed'.
+    """
+    prob = build_problem(config)
+    driver = prob.driver
+    prob.run_model()
+    reason = least_infeasible(prob) or closure_problem(prob, config.has_aft_fan)
+    evaluations = result.evaluations + driver.evaluations
+    if reason is not None:
+        result.message += f'; the feasibility phase found no closed design ({reason})'
+        result.evaluations = evaluations
+        return result
+    found = violations(driver.spec_constraints, prob)
+    if found:
+        return dataclasses.replace(
+            result,
+            status=INFEASIBLE,
+            message=f'no feasible design: {violation_words(found)}',
+            design=design_table(driver.design_variables, prob),
+            constraints=constraint_table(driver.spec_constraints, prob),
+            outputs=read_fields(prob, config.has_aft_fan),
+            violations=found,
+            evaluations=evaluations,
+            failed_points=result.failed_points + driver.failed_points,
+            problem=prob,
+        )
+    feasible = {
+        dv.path: float(np.real(prob.get_val(dv.target, units=dv.units)[0]))
+        for dv in driver.design_variables
+    }
+    try:
+        retry = _optimize(
+            config.with_overrides(feasible), None, recorder_path, on_evaluation, False
+        )
+    except (ConfigError, NotClosedError) as err:
+        result.message += f'; a feasible design exists, but the retry from it stopped: {err}'
+        result.evaluations = evaluations
+        return result
+    if retry.success:
+        retry.message += (
+            f'; reached from a feasible design found after a first run failed ({result.message})'
+        )
+    else:
+        retry.message = (
+            f'{result.message}; a feasible design exists, but the optimisation from it failed '
+            f'too: {retry.message}'
+        )
+    retry.evaluations += evaluations
+    retry.failed_points += result.failed_points + driver.failed_points
+    retry.start, retry.inputs = result.start, result.inputs
+    return retry

@@ -34,11 +34,14 @@ ANNOTATE_POINTS = 64
 #: Status of a study point: an optimum (or a closed analysis), an optimisation that closed
 #: but found no feasible optimum, and a point whose sizing loop did not close.
 OK, INFEASIBLE, NOT_CLOSED = 'ok', 'infeasible', 'not closed'
+#: A target-sweep point whose optimisation failed (the optimiser's failure, not the design's).
+FAILED = 'optimiser failed'
 
 #: How failed points are drawn: status -> (marker, colour, legend text).
 _FAILED_STYLE = {
     NOT_CLOSED: ('x', '0.15', 'did not close'),
-    INFEASIBLE: ('o', 'tab:purple', 'closed, no feasible optimum'),
+    INFEASIBLE: ('o', 'tab:purple', 'no feasible design'),
+    FAILED: ('s', 'tab:red', 'optimiser failed'),
 }
 
 _MASS_PARTS = [
@@ -309,6 +312,9 @@ def point_status(row):
 
     if 'closed' in row:
         return OK if flag(row['closed']) else NOT_CLOSED
+    status = str(row.get('status') or '').strip()
+    if status in ('optimum', 'infeasible', 'failed'):  # a target-sweep row with its status
+        return {'optimum': OK, 'infeasible': INFEASIBLE, 'failed': FAILED}[status]
     if flag(row.get('success')):
         return OK
     try:
@@ -343,6 +349,27 @@ def _failed_note(status, optimised=False):
     )
 
 
+def _hatch_cells(ax, x, y, where):
+    """Hatch the grid cells of ``where`` (points with no feasible design)."""
+    if not where.any():
+        return
+    from matplotlib.patches import Rectangle
+
+    xe, ye = _cell_edges(x), _cell_edges(y)
+    for j, i in zip(*np.nonzero(where)):
+        ax.add_patch(
+            Rectangle(
+                (xe[i], ye[j]),
+                xe[i + 1] - xe[i],
+                ye[j + 1] - ye[j],
+                fill=False,
+                hatch='///',
+                edgecolor='tab:purple',
+                linewidth=0.0,
+            )
+        )
+
+
 def _contour_map(
     x,
     y,
@@ -357,6 +384,7 @@ def _contour_map(
     break_even,
     feasible=None,
     marker=None,
+    status=None,
 ):
     """
     Draw a filled contour map with round levels and failed points marked.
@@ -386,6 +414,9 @@ def _contour_map(
         Where an optimisation found a feasible optimum (target sweeps); None for analyses.
     marker : tuple or None
         (x, y, label) of a point to mark, e.g. the configured design.
+    status : array_like or None
+        The status of every point (OK, INFEASIBLE, FAILED, NOT_CLOSED), shape (ny, nx);
+        None: from ``closed`` and ``feasible``. Cells with no feasible design are hatched.
 
     Returns
     -------
@@ -394,7 +425,10 @@ def _contour_map(
         'levels', 'norm_limits' (colour limits, symmetric about 0 for a fuel-burn map).
     """
     x, y, z, closed = _grid(x, y, z, closed)
-    status = _status_grid(z, closed, feasible)
+    if status is None:
+        status = _status_grid(z, closed, feasible)
+    else:
+        status = np.asarray(status, dtype=object).reshape(z.shape)
     good = status == OK
     fig = _new_figure((7.5, 6.0))
     from matplotlib.colors import Normalize
@@ -474,6 +508,7 @@ def _contour_map(
                     f'no break-even in the map: {low:+.3g} % to {high:+.3g} %, {side} everywhere'
                 )
     grid_x, grid_y = np.meshgrid(x, y)
+    _hatch_cells(ax, x, y, status == INFEASIBLE)
     for kind, (symbol, colour, text) in _FAILED_STYLE.items():
         where = status == kind
         if where.any():
@@ -537,6 +572,7 @@ def plot_fuel_map(
     feasible=None,
     marker=None,
     bar_label='fuel-burn change versus the reference [%]',
+    status=None,
 ):
     """
     Draw a filled contour of the fuel-burn change over two swept quantities.
@@ -571,6 +607,9 @@ def plot_fuel_map(
         (x, y, label) of a point to mark, e.g. the configured design.
     bar_label : str
         Colour bar label.
+    status : array_like or None
+        Status of every point, shape (ny, nx) (see :func:`point_status`); cells with no
+        feasible design are hatched. None: from ``closed`` and ``feasible``.
 
     Returns
     -------
@@ -593,6 +632,7 @@ def plot_fuel_map(
         True,
         feasible=feasible,
         marker=marker,
+        status=status,
     )
 
 
@@ -607,6 +647,7 @@ def plot_psc_map(
     title='Power saving coefficient of the aft fan',
     feasible=None,
     marker=None,
+    status=None,
 ):
     """
     Draw a filled contour of the power saving coefficient over two swept quantities.
@@ -634,6 +675,8 @@ def plot_psc_map(
         True where an optimisation found a feasible optimum; None for analyses.
     marker : tuple or None
         (x, y, label) of a point to mark.
+    status : array_like or None
+        Status of every point, shape (ny, nx); None: from ``closed`` and ``feasible``.
 
     Returns
     -------
@@ -654,6 +697,7 @@ def plot_psc_map(
         False,
         feasible=feasible,
         marker=marker,
+        status=status,
     )
 
 

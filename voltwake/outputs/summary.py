@@ -430,12 +430,7 @@ def sweep_text(summaries, out_dir=None):
                 f"({res.get('recovered', 0)} by continuation)"
             )
         elif name == 'targets':
-            ref = (res.get('reference') or {}).get('outputs') or {}
-            lines.append(
-                f"target sweep: {res.get('closed_count', 0)} of "
-                f"{res.get('points_count', 0)} optimisations succeeded; optimised "
-                f"reference block fuel {ref.get('block_fuel_kg', float('nan')):,.1f} kg"
-            )
+            lines += target_sweep_lines(res)
         elif name == 'breakeven':
             shown = res.get('display') or res  # in the unit the user wrote, when given
             units = shown.get('units') or ''
@@ -464,6 +459,78 @@ def sweep_text(summaries, out_dir=None):
         lines.append(f'results written to {out_dir}')
     lines.append(CAUTION)
     return '\n'.join(lines)
+
+
+def target_sweep_lines(res):
+    """
+    Return the lines of a target sweep: points by status, why points have no design.
+
+    Parameters
+    ----------
+    res : dict
+        The target sweep's summary.
+
+    Returns
+    -------
+    list of str
+        The counts of optima, points with no feasible design and optimiser failures; the
+        constraints that bind at the infeasible points and by how much; the optimised
+        reference block fuel (its range when the references differ by point).
+    """
+    total = res.get('points_count', 0)
+    optimum = res.get('optimum_count', res.get('closed_count', 0))
+    infeasible, failed = res.get('infeasible_count', 0), res.get('failed_count', 0)
+    lines = [
+        f'target sweep: {optimum} of {total} points have an optimum, {infeasible} have no '
+        f'feasible design, {failed} optimisations failed'
+    ]
+    if infeasible:
+        lines.append(f'{infeasible} points have no feasible design: {binding_words(res)}')
+    if failed:
+        lines.append(
+            f'{failed} optimisations failed (the optimiser, not the design: see the '
+            "'message' column of the points)"
+        )
+    fuels = [
+        ((ref or {}).get('outputs') or {}).get('block_fuel_kg', float('nan'))
+        for ref in (res.get('references') or [res.get('reference') or {}])
+    ]
+    fuels = [f for f in fuels if f is not None and f == f] or [float('nan')]
+    if len(fuels) == 1 or min(fuels) == max(fuels):
+        lines.append(f'optimised reference block fuel {fuels[0]:,.1f} kg')
+    else:
+        lines.append(
+            f'optimised reference block fuel {min(fuels):,.1f} to {max(fuels):,.1f} kg '
+            f'({len(fuels)} references, one per value of the shared inputs)'
+        )
+    return lines
+
+
+def binding_words(res):
+    """
+    Return which constraints bind at a target sweep's infeasible points, and by how much.
+
+    Parameters
+    ----------
+    res : dict
+        The target sweep's summary (``infeasible_constraints``).
+
+    Returns
+    -------
+    str
+        E.g. ``'motor_power_margin binds by 0.6-53 % (at 6 points)'``.
+    """
+    parts = []
+    for name, entry in (res.get('infeasible_constraints') or {}).items():
+        if entry.get('percent_min') is not None:
+            low, high, unit = entry['percent_min'], entry['percent_max'], ' %'
+        else:
+            low, high = entry['amount_min'], entry['amount_max']
+            unit = f" {entry['units']}" if entry.get('units') else ''
+        span = f'{low:.3g}' if f'{low:.3g}' == f'{high:.3g}' else f'{low:.3g}-{high:.3g}'
+        span += unit
+        parts.append(f"{name} binds by {span} (at {entry['points']} points)")
+    return '; '.join(parts) or 'no constraint recorded'
 
 
 #: Words for config key paths that studies and optimisations commonly vary.

@@ -56,7 +56,7 @@ def _grid_arrays(axes, rows, key):
     closed = status != NOT_CLOSED
     _, x = _axis(paths[1], axes[paths[1]])
     _, y = _axis(paths[0], axes[paths[0]])
-    return x, y, z, closed, status == OK
+    return x, y, z, closed, status == OK, status
 
 
 def _design_marker(config, paths):
@@ -113,7 +113,8 @@ def _study_figures(kind, result, out_dir, config):
     try:
         axes = result.get('axes') or result.get('target_axes')
         if kind in ('map', 'targets') and axes and len(axes) == 2:
-            x, y, z, closed, ok = _grid_arrays(axes, rows, 'fuel_burn_change_percent')
+            x, y, z, closed, ok, status = _grid_arrays(axes, rows, 'fuel_burn_change_percent')
+            status = status if kind == 'targets' else None
             paths = list(axes)
             feasible = ok if kind == 'targets' else None
             marker = _design_marker(config, paths) if kind == 'map' else None
@@ -135,9 +136,10 @@ def _study_figures(kind, result, out_dir, config):
                     feasible=feasible,
                     marker=marker,
                     bar_label=f"{_fuel_words(result)} change versus the reference [%]",
+                    status=status,
                 )
             )
-            _, _, psc, _, _ = _grid_arrays(axes, rows, 'power_saving_coefficient')
+            _, _, psc, _, _, _ = _grid_arrays(axes, rows, 'power_saving_coefficient')
             made.append(
                 plots.plot_psc_map(
                     x,
@@ -149,6 +151,7 @@ def _study_figures(kind, result, out_dir, config):
                     os.path.join(out_dir, f'{kind}_psc.png'),
                     feasible=feasible,
                     marker=marker,
+                    status=status,
                 )
             )
         if kind == 'targets' and axes and len(axes) == 1:

@@ -73,8 +73,17 @@ def _call(func, item):
 
 
 def _failed(result):
-    """Return True when a job result is a mapping with ``success`` False."""
-    return isinstance(result, dict) and result.get('success', True) is False
+    """
+    Return True when a job result is a mapping with ``success`` False.
+
+    A result with a ``status`` (an optimisation) has failed only when that is 'failed': a
+    point with no feasible design is an answer, not a failure.
+    """
+    if not isinstance(result, dict):
+        return False
+    if 'status' in result:
+        return result['status'] == 'failed'
+    return result.get('success', True) is False
 
 
 def _init_worker():
@@ -89,7 +98,7 @@ def _pool_context():
     return None
 
 
-def map_jobs(func, items, jobs=None, progress=None):
+def map_jobs(func, items, jobs=None, progress=None, uncounted=0):
     """
     Apply ``func`` to every item, in parallel, and return the results in item order.
 
@@ -111,6 +120,10 @@ def map_jobs(func, items, jobs=None, progress=None):
     progress : callable or None
         ``progress(done, failed, total, elapsed)`` after every finished item (on rank 0 only
         under MPI); a result that is a dict with ``success`` False counts as failed.
+    uncounted : int
+        The first ``uncounted`` items (e.g. the reference optimisations of a target sweep)
+        run like the others but are not points of the progress: ``total`` and ``done``
+        count the rest.
 
     Returns
     -------
@@ -120,17 +133,17 @@ def map_jobs(func, items, jobs=None, progress=None):
     items = list(items)
     comm = mpi_comm()
     if comm is not None:
-        return _map_mpi(comm, func, items, progress)
+        return _map_mpi(comm, func, items, progress, uncounted)
     jobs = (os.cpu_count() or 1) if jobs is None else int(jobs)
     if jobs < 1:
         raise ValueError(f'jobs must be at least 1; got {jobs}')
-    counter = _Counter(len(items), progress)
+    counter = _Counter(len(items), progress, uncounted)
     if jobs == 1 or len(items) <= 1:
         results = []
         with _one_blas_thread():
-            for item in items:
+            for index, item in enumerate(items):
                 results.append(func(item))
-                counter.add(_failed(results[-1]))
+                counter.add(_failed(results[-1]), index)
         return results
     results = [None] * len(items)
     with concurrent.futures.ProcessPoolExecutor(
@@ -140,7 +153,7 @@ def map_jobs(func, items, jobs=None, progress=None):
         try:
             for future in concurrent.futures.as_completed(futures):
                 results[futures[future]] = future.result()
-                counter.add(_failed(results[futures[future]]))
+                counter.add(_failed(results[futures[future]]), futures[future])
         except BaseException:
             for future in futures:
                 future.cancel()
@@ -151,12 +164,16 @@ def map_jobs(func, items, jobs=None, progress=None):
 class _Counter:
     """Count finished and failed items and call the progress callback."""
 
-    def __init__(self, total, progress):
-        self.total, self.progress = total, progress
-        self.done = self.failed = 0
+    def __init__(self, total, progress, uncounted=0):
+        self.total, self.progress = total - uncounted, progress
+        self.uncounted = uncounted
+        self.done = self.failed = self.finished = 0
         self.start = time.monotonic()
 
-    def add(self, failed):
+    def add(self, failed, index=None):
+        self.finished += 1
+        if index is not None and index < self.uncounted:
+            return
         self.done += 1
         self.failed += bool(failed)
         if self.progress is not None:
@@ -179,12 +196,12 @@ def _problems_on_this_rank(mpi):
         mpi.COMM_WORLD = world
 
 
-def _map_mpi(comm, func, items, progress):
+def _map_mpi(comm, func, items, progress, uncounted=0):
     """Run this rank's share of the items, gather on rank 0, broadcast the results."""
     from mpi4py import MPI
 
     rank, size = comm.rank, comm.size
-    counter = _Counter(len(items), progress if rank == 0 else None)
+    counter = _Counter(len(items), progress if rank == 0 else None, uncounted)
     mine, sends = [], []
     with _problems_on_this_rank(MPI):
         for index in range(rank, len(items), size):
@@ -194,16 +211,15 @@ def _map_mpi(comm, func, items, progress):
                 result, error = None, exc
             mine.append((index, result, error))
             if rank == 0:
-                counter.add(error is not None or _failed(result))
+                counter.add(error is not None or _failed(result), index)
                 while comm.iprobe(source=MPI.ANY_SOURCE, tag=_PROGRESS_TAG):
-                    counter.add(comm.recv(source=MPI.ANY_SOURCE, tag=_PROGRESS_TAG))
+                    counter.add(*comm.recv(source=MPI.ANY_SOURCE, tag=_PROGRESS_TAG))
             else:
-                sends.append(
-                    comm.isend(error is not None or _failed(result), dest=0, tag=_PROGRESS_TAG)
-                )
+                note = (error is not None or _failed(result), index)
+                sends.append(comm.isend(note, dest=0, tag=_PROGRESS_TAG))
     if rank == 0:
-        while counter.done < len(items):
-            counter.add(comm.recv(source=MPI.ANY_SOURCE, tag=_PROGRESS_TAG))
+        while counter.finished < len(items):
+            counter.add(*comm.recv(source=MPI.ANY_SOURCE, tag=_PROGRESS_TAG))
     MPI.Request.waitall(sends)
     gathered = comm.gather(mine, root=0)
     if rank == 0:

@@ -35,7 +35,7 @@ from .figures import study_figures as _plots  # noqa: F401 - the name earlier ca
 from .maps import design_space_map, parse_axis
 from .maps import monte_carlo as _monte_carlo
 from .results import BreakevenResult, DesignMapResult, MonteCarloResult, TargetSweepResult
-from .target_sweep import fixed_config, is_config_input, optimize_job
+from .target_sweep import fixed_config, is_config_input, optimize_job, output_axis
 from .target_sweep import target_sweep as _target_sweep
 
 _STUDY_KEYS = ('map', 'targets', 'breakeven', 'uncertainty')
@@ -288,6 +288,12 @@ def study_spec(config, maps=(), targets=(), breakeven=None, samples=None, seed=N
             if axes:
                 spec[key] = {}
                 for text in axes:
+                    name = str(text).partition('=')[0].strip()
+                    if key == 'targets' and not is_config_input(name):
+                        # A model output held as an equality constraint, in its own units.
+                        path, lo, hi, count, _ = output_axis(config, text)
+                        spec[key][path] = decimal_grid(lo, hi, count)
+                        continue
                     path, lo, hi, count = parse_axis(text)
                     spec[key][path] = decimal_grid(lo, hi, count)
                     unit = _written_units(str(text).partition('=')[2].split(':')[:2])
@@ -691,8 +697,12 @@ def _axes(config, axes, source, kind, written=None):
         path = str(path)
         where = {'source': source, 'path': path}
         if kind == 'targets' and not is_config_input(path):
-            # A model output held as a target: numbers in its own units; the sweep checks
-            # the name against the model's outputs.
+            # A model output held as a target: numbers in its own units ('LO:HI:N' with
+            # units as on the command line); the sweep checks the name against the outputs.
+            if isinstance(axis, str):
+                _, lo, hi, count, _ = output_axis(config, f'{path}={axis}')
+                out[path] = decimal_grid(lo, hi, count)
+                continue
             out[path] = [_number(v, where) for v in _sequence(axis, where, grid=False)]
             continue
         field = field_at(path)

@@ -14,7 +14,8 @@ import itertools
 import math
 import numbers
 
-from ..configuration.loader import field_at, load_config
+from ..configuration.loader import field_at, input_paths, load_config, parse_quantity
+from ..design.feasibility import FAILED, INFEASIBLE, OPTIMUM, amounts_text
 from ..design.fields import fuel_burn_field
 from ..design.optimization import optimize
 from ..design.sizing import build_model_problem
@@ -134,22 +135,84 @@ def _set_path(data, path, value, source):
     node[parts[-1]] = value
 
 
-def _check_outputs(config, names):
-    """Raise ConfigError for target names that are neither config keys nor model outputs."""
+def _check_outputs(config, names, source=None):
+    """
+    Raise ConfigError for target names that are neither config keys nor model outputs.
+
+    A misspelt name gets a did-you-mean over the model's outputs and the config's inputs.
+
+    Returns
+    -------
+    dict
+        Model output -> its units (None for a dimensionless output).
+    """
     if not names:
-        return
+        return {}
     prob = build_model_problem(config)
-    meta = prob.model.get_io_metadata(iotypes='output', get_remote=True)
-    known = {info['prom_name'] for info in meta.values()}
+    meta = prob.model.get_io_metadata(
+        iotypes='output', metadata_keys=['units'], get_remote=True, return_rel_names=False
+    )
+    units = {info['prom_name']: info['units'] for info in meta.values()}
     for name in names:
-        if name not in known:
-            close = difflib.get_close_matches(name, sorted(known), n=1)
+        if name not in units:
+            close = difflib.get_close_matches(name, sorted(units) + input_paths(), n=1)
             hint = f" (did you mean '{close[0]}'?)" if close else ''
             raise ConfigError(
                 f'neither a config key nor a model output of this design{hint}',
-                source=config.source,
+                source=source or config.source,
                 path=name,
             )
+    return {name: units[name] for name in names}
+
+
+def output_axis(config, text):
+    """
+    Parse ``OUTPUT=LO:HI:N``: a model output held at each of N values as a target.
+
+    Units are allowed on LO and HI and converted to the output's units; a bare number is in
+    the output's units. A name that is neither a model output nor a config key gets a
+    did-you-mean over both.
+
+    Parameters
+    ----------
+    config : Config
+        The configuration (its model gives the outputs and their units).
+    text : str
+        E.g. ``'wingspan=30 m:36 m:3'``.
+
+    Returns
+    -------
+    tuple
+        (name, lower, upper, count, units): bounds in the output's units.
+    """
+    name, sep, spec = str(text).partition('=')
+    name, parts = name.strip(), spec.split(':')
+    where = {'source': 'command line', 'path': name or None}
+    if not sep or len(parts) != 3:
+        raise ConfigError(f'got {text!r}; expected PATH=LO:HI:N', **where)
+    units = _check_outputs(config, [name], source='command line')[name]
+    lower, upper = (
+        parse_quantity(p.strip(), units, where, check_bare=False) if units else _number(p, where)
+        for p in parts[:2]
+    )
+    try:
+        count = int(parts[2])
+    except ValueError:
+        count = 0
+    if count < 1:
+        raise ConfigError(f'got {parts[2]!r} points; expected a whole number >= 1', **where)
+    return name, lower, upper, count, units
+
+
+def _number(text, where):
+    """Return ``text`` as a finite float, or raise."""
+    try:
+        value = float(text)
+    except ValueError:
+        raise ConfigError(f'got {text!r}; expected a number', **where) from None
+    if not math.isfinite(value):
+        raise ConfigError(f'got {text!r}; expected a finite number', **where)
+    return value
 
 
 def optimize_job(job):
@@ -166,19 +229,23 @@ def optimize_job(job):
     dict
         ``success``, ``message``, ``outputs`` (analysis fields), ``design`` (path -> value),
         ``active`` (active constraint names and ``'bound:<path>'`` for design variables at a
-        bound) and ``evaluations``. A point that raises keeps ``success`` False and the
-        error as its message.
+        bound), ``evaluations``, ``status`` ('optimum', 'infeasible' or 'failed') and
+        ``violations`` (for 'infeasible': the violated constraints at the least-infeasible
+        design, whose variables are then ``design``). A point that raises is 'failed', with
+        the error as its message.
     """
     try:
         result = optimize(load_config(job['data']))
     except Exception as exc:  # noqa: BLE001 - a failed point is reported in its row
         return {
             'success': False,
+            'status': FAILED,
             'message': f'{type(exc).__name__}: {exc}',
             'outputs': {},
             'design': {},
             'active': [],
             'evaluations': 0,
+            'violations': [],
         }
     active = [name for name, con in result.constraints.items() if con['active']]
     active += [f'bound:{path}' for path, dv in result.design.items() if dv['active']]
@@ -189,6 +256,8 @@ def optimize_job(job):
         'design': {path: dv['si']['value'] for path, dv in result.design.items()},
         'active': active,
         'evaluations': result.evaluations,
+        'status': result.status,
+        'violations': list(result.violations),
     }
 
 
@@ -207,15 +276,20 @@ def target_sweep(config, targets, jobs=None, progress=None):
     jobs : int or None
         Local processes (see :func:`voltwake.parallel.map_jobs`); None for all cores.
     progress : callable or None
-        ``progress(done, failed, total, elapsed)`` after each optimisation (references
-        included).
+        ``progress(done, failed, total, elapsed)`` after each point's optimisation: the
+        reference optimisations are not points and are not counted; ``failed`` counts
+        optimiser failures (not points without a feasible design).
 
     Returns
     -------
     dict
         ``targets``: the swept names in order; ``points``: one row per point with
-        ``'target:<name>'`` values, ``success``, ``message``, :data:`ROW_FIELDS`,
-        ``'dv:<path>'`` optimised design variables, ``active_constraints``, ``evaluations``,
+        ``'target:<name>'`` values, ``success``, ``status`` ('optimum', 'infeasible': no
+        feasible design, or 'failed': the optimiser failed), ``message``,
+        ``violated_constraints`` (``name:amount`` pairs in the constraints' units at the
+        least-infeasible design of an infeasible point), :data:`ROW_FIELDS`,
+        ``'dv:<path>'`` optimised design variables (the least-infeasible design's for an
+        infeasible point), ``active_constraints``, ``evaluations``,
         ``reference`` (index into ``references``) and ``fuel_burn_change_percent`` (block fuel
         against the reference, percent); failed points have NaN numbers. ``reference``: the
         first (usually only) reference, ``references``: all of them, each with ``targets``
@@ -223,6 +297,8 @@ def target_sweep(config, targets, jobs=None, progress=None):
         ``outputs`` and ``design``. A reference is optimised once for every combination of
         swept inputs that the conventional design also has (once when only aft-fan or
         electrical inputs and outputs are swept); output targets do not apply to it.
+        The counts by status and the constraints that bind at the infeasible points come
+        from :func:`status_summary`.
     """
     config = load_config(config)
     names = list(targets)
@@ -253,13 +329,16 @@ def target_sweep(config, targets, jobs=None, progress=None):
     jobs_list = [{'data': cfg.data} for cfg in ref_configs] + [
         {'data': cfg.data} for _, cfg, _ in points
     ]
-    results = map_jobs(optimize_job, jobs_list, jobs=jobs, progress=progress)
+    results = map_jobs(
+        optimize_job, jobs_list, jobs=jobs, progress=progress, uncounted=len(ref_configs)
+    )
     ref_results, point_results = results[: len(ref_configs)], results[len(ref_configs) :]
 
     references = [
         {
             'targets': dict(key),
             'success': res['success'],
+            'status': res['status'],
             'message': res['message'],
             'outputs': res['outputs'],
             'design': res['design'],
@@ -269,18 +348,77 @@ def target_sweep(config, targets, jobs=None, progress=None):
     rows = []
     for (point, cfg, ref_index), res in zip(points, point_results):
         rows.append(_row(point, cfg, res, references[ref_index], ref_index))
-    return {'targets': names, 'points': rows, 'reference': references[0], 'references': references}
+    return {
+        'targets': names,
+        'points': rows,
+        'reference': references[0],
+        'references': references,
+        **status_summary(point_results),
+    }
+
+
+def status_summary(results):
+    """
+    Count the points by status and say which constraints leave points with no design.
+
+    Parameters
+    ----------
+    results : list of dict
+        The results of :func:`optimize_job` at the points (``status``, ``violations``).
+
+    Returns
+    -------
+    dict
+        ``optimum_count``, ``infeasible_count``, ``failed_count`` and ``infeasible_constraints``:
+        constraint name -> {``points`` (how many infeasible points violate it),
+        ``percent_min``, ``percent_max`` (how far it binds, percent of its limit; None when
+        it has no percentage), ``amount_min``, ``amount_max`` and ``units``}, the
+        constraints violated at most points first.
+    """
+    counts = {OPTIMUM: 0, INFEASIBLE: 0, FAILED: 0}
+    binding = {}
+    for res in results:
+        counts[res['status']] += 1
+        for v in res.get('violations') or []:
+            entry = binding.setdefault(
+                v['name'], {'points': 0, 'percents': [], 'amounts': [], 'units': v['units']}
+            )
+            entry['points'] += 1
+            entry['amounts'].append(v['amount'])
+            if v['percent'] is not None:
+                entry['percents'].append(v['percent'])
+    summary = {}
+    for name, entry in sorted(binding.items(), key=lambda item: -item[1]['points']):
+        pct, amt = entry['percents'], entry['amounts']
+        summary[name] = {
+            'points': entry['points'],
+            'percent_min': min(pct) if pct else None,
+            'percent_max': max(pct) if pct else None,
+            'amount_min': min(amt),
+            'amount_max': max(amt),
+            'units': entry['units'],
+        }
+    return {
+        'optimum_count': counts[OPTIMUM],
+        'infeasible_count': counts[INFEASIBLE],
+        'failed_count': counts[FAILED],
+        'infeasible_constraints': summary,
+    }
 
 
 def _row(point, cfg, res, reference, ref_index):
     """Return the result row of one point."""
     ok = res['success']
+    status = res.get('status', OPTIMUM if ok else FAILED)
     row = {f'target:{name}': value for name, value in point.items()}
-    row.update(success=ok, message=res['message'])
+    row.update(success=ok, status=status, message=res['message'])
+    row['violated_constraints'] = amounts_text(res.get('violations') or [])
     for key in ROW_FIELDS:
         row[key] = res['outputs'].get(key, math.nan) if ok else math.nan
     for path in cfg.values['optimization.design_variables']:
-        row[f'dv:{path}'] = res['design'].get(path, math.nan) if ok else math.nan
+        # An infeasible point keeps the variables of its least-infeasible design.
+        shown = ok or status == INFEASIBLE
+        row[f'dv:{path}'] = res['design'].get(path, math.nan) if shown else math.nan
     row['active_constraints'] = list(res['active']) if ok else []
     row['evaluations'] = res['evaluations']
     row['reference'] = ref_index

@@ -9,7 +9,7 @@ import os
 
 from ...configuration.loader import parse_quantity
 from ...errors import ConfigError
-from ..plots import INFEASIBLE, NOT_CLOSED, OK, point_status
+from ..plots import FAILED, INFEASIBLE, NOT_CLOSED, OK, point_status
 from ..summary import input_label
 from .html import _esc, _number, _quantity
 from .wording import ACTIVE_PHRASES, CONSTRAINT_WORDS, _axis_text, _path_units
@@ -181,9 +181,9 @@ class Study:
 
 
 def _status_counts(rows):
-    """Return the counts of OK, INFEASIBLE and NOT_CLOSED rows."""
+    """Return the counts of OK, INFEASIBLE, FAILED and NOT_CLOSED rows."""
     statuses = [point_status(r) for r in rows]
-    return {s: statuses.count(s) for s in (OK, INFEASIBLE, NOT_CLOSED)}
+    return {s: statuses.count(s) for s in (OK, INFEASIBLE, FAILED, NOT_CLOSED)}
 
 
 def field_short(field):

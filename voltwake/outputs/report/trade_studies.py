@@ -1,7 +1,7 @@
 """The report sections of the trade studies: map, Monte Carlo, targets, break-even."""
 
-from ..plots import INFEASIBLE, NOT_CLOSED, OK, point_status
-from ..summary import input_label, pretty_units
+from ..plots import FAILED, INFEASIBLE, NOT_CLOSED, OK, point_status
+from ..summary import binding_words, input_label, pretty_units
 from .html import (
     MAX_ROWS,
     NONE,
@@ -234,8 +234,14 @@ def _targets_study(data, rows, figures):
         headline = 'no target point has a feasible optimum'
         sentence = 'No target point has a feasible optimum.'
     failed = []
-    if counts[INFEASIBLE]:
+    if data.get('infeasible_count'):  # a sweep that told infeasible points from failures
+        failed.append(
+            f"{data['infeasible_count']} points have no feasible design: {binding_words(data)}"
+        )
+    elif counts[INFEASIBLE]:
         failed.append(f'{counts[INFEASIBLE]} closed without a feasible optimum')
+    if counts[FAILED]:
+        failed.append(f'{counts[FAILED]} optimisations failed (the optimiser, not the design)')
     if counts[NOT_CLOSED]:
         failed.append(f'{counts[NOT_CLOSED]} did not close')
     if failed:
@@ -279,9 +285,11 @@ def _targets_study(data, rows, figures):
         trows = []
         for r in rows[:MAX_ROWS]:
             status = point_status(r)
+            no_design = 'no feasible design' if 'status' in r else 'closed, no feasible optimum'
             words = {
                 OK: 'optimum',
-                INFEASIBLE: 'closed, no feasible optimum',
+                INFEASIBLE: no_design,
+                FAILED: 'optimiser failed',
                 NOT_CLOSED: 'did not close',
             }[status]
             chg = r.get('fuel_burn_change_percent')
