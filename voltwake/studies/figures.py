@@ -112,7 +112,13 @@ def _study_figures(kind, result, out_dir, config):
     rows = result.get('points') or []
     try:
         axes = result.get('axes') or result.get('target_axes')
-        if kind in ('map', 'targets') and axes and len(axes) == 2:
+        # A map needs two values on each axis (a 1 x N grid has no area to draw).
+        if (
+            kind in ('map', 'targets')
+            and axes
+            and len(axes) == 2
+            and min(map(len, axes.values())) > 1
+        ):
             x, y, z, closed, ok, status = _grid_arrays(axes, rows, 'fuel_burn_change_percent')
             status = status if kind == 'targets' else None
             paths = list(axes)
