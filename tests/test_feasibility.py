@@ -133,8 +133,12 @@ def test_an_infeasible_only_sweep_exits_6_and_writes_its_files(tmp_path, capsys)
     assert code == EXIT_INFEASIBLE
     out, err = capsys.readouterr()
     assert '1 points have no feasible design: motor_power_margin binds by' in out
-    assert err.strip().splitlines()[-1].startswith(
-        'voltwake: error: 1 target points have no feasible design: motor_power_margin binds'
+    assert (
+        err.strip()
+        .splitlines()[-1]
+        .startswith(
+            'voltwake: error: 1 target points have no feasible design: motor_power_margin binds'
+        )
     )
     summary = json.loads((tmp_path / 'out' / 'targets_summary.json').read_text())
     assert (summary['optimum_count'], summary['infeasible_count'], summary['failed_count']) == (

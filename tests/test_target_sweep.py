@@ -175,6 +175,7 @@ def test_failed_points_keep_their_rows_with_nan_numbers():
     assert not sweep['reference']['success']
     for point in sweep['points']:
         assert point['success'] is False and point['message']
+        assert point['status'] == 'failed'  # a feasible design exists: the optimiser's failure
         assert math.isnan(point['block_fuel_kg']) and math.isnan(point['fuel_burn_change_percent'])
         assert math.isnan(point['dv:wing.loading'])
         assert point['active_constraints'] == []

@@ -341,7 +341,10 @@ def _failed_note(status, optimised=False):
     if not_closed:
         parts.append(f'{not_closed} of {total} points did not close')
     if infeasible:
-        parts.append(f'{infeasible} closed without a feasible optimum')
+        parts.append(f'{infeasible} with no feasible design')
+    failed = int(np.sum(status == FAILED))
+    if failed:
+        parts.append(f'{failed} optimisations failed')
     if parts:
         return '; '.join(parts)
     return (
