@@ -117,6 +117,29 @@ def _config_arg(parser):
     )
 
 
+def _whole_or_text(text):
+    """
+    Return a count written on the command line as an int, or as written if it is not one.
+
+    What is not a whole number is kept as text, so that the study checks it and ends with
+    one line (argparse would print its usage as well).
+
+    Parameters
+    ----------
+    text : str
+        The value as written.
+
+    Returns
+    -------
+    int or str
+        The whole number, or ``text``.
+    """
+    try:
+        return int(text)
+    except ValueError:
+        return text
+
+
 def _parser():
     parser = argparse.ArgumentParser(
         prog='voltwake',
@@ -185,11 +208,11 @@ def _parser():
     p.add_argument(
         '--monte-carlo',
         dest='samples',
-        type=int,
+        type=_whole_or_text,
         metavar='N',
         help='Monte Carlo samples over study.uncertainty.distributions',
     )
-    p.add_argument('--seed', type=int, help='Monte Carlo seed')
+    p.add_argument('--seed', type=_whole_or_text, help='Monte Carlo seed')
     p.add_argument(
         '--jobs',
         type=int,

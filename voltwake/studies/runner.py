@@ -283,7 +283,7 @@ def study_spec(config, maps=(), targets=(), breakeven=None, samples=None, seed=N
     if seed is not None:
         seed = _study_whole(seed, 0, {'source': '--seed'})
     spec = {}
-    if maps or targets or breakeven or samples:
+    if maps or targets or breakeven or samples is not None:
         for key, axes in (('map', maps), ('targets', targets)):
             if axes:
                 spec[key] = {}
@@ -297,7 +297,7 @@ def study_spec(config, maps=(), targets=(), breakeven=None, samples=None, seed=N
             path, lo, hi, _ = parse_axis(breakeven, count_required=False)
             spec['breakeven'] = (path, lo, hi)
             spec['breakeven_units'] = _written_units(str(breakeven).partition('=')[2].split(':'))
-        if samples:
+        if samples is not None:
             if 'uncertainty' not in study:
                 raise ConfigError(
                     '--monte-carlo needs study.uncertainty.distributions in the config',
