@@ -533,12 +533,18 @@ def _cmd_sweep(args):
     summaries = run_sweep(config, spec, jobs=args.jobs, out_dir=out_dir, progress=bar)
     if not root:
         return errors.EXIT_OK
+    # No break-even in the interval: its answer is the one error line (exit 7), not also
+    # a line of the summary; the files are written all the same.
+    missed = summaries.get('breakeven', {}).get('found') is False
     if args.json:
         print(json.dumps(clean(summaries), indent=2, sort_keys=True))
     else:
         from .outputs.summary import sweep_text
 
-        print(sweep_text(summaries, out_dir))
+        shown = {k: v for k, v in summaries.items() if not (missed and k == 'breakeven')}
+        print(sweep_text(shown, out_dir))
+    if missed:
+        raise errors.NoBreakevenError(summaries['breakeven']['message'])
     return errors.EXIT_OK
 
 
