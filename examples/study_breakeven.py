@@ -5,7 +5,8 @@ A technology break-even with :func:`voltwake.breakeven`: the optimised turbo-ele
 with the motor's specific power held, against the optimised conventional reference, solved
 for equal block fuel by Brent's method between 5 and 20 kW/kg. The demo has no break-even
 there (it burns more fuel at both ends); the study says so and gives the sensitivity of
-block fuel to every technology input. Prints the evaluations, the answer and the
+the optimised block fuel to every technology input held fixed (at the optimum, with the
+motor's specific power at its configured value). Prints the evaluations, the answer and the
 sensitivities, and writes the files of ``voltwake sweep --out`` to OUTDIR.
 
 Run: ``python examples/study_breakeven.py [OUTDIR]`` (OUTDIR defaults to a new temporary
@@ -54,7 +55,7 @@ def main(outdir=None):
     ):
         print(f'{convert_units(value, units[PATH], "kW/kg"):29.2f}{fuel:17.1f}{change:+17.3f}')
     print(result.message)
-    print('\nsensitivity of block fuel at the configured design (largest first):')
+    print('\nsensitivity of the optimised block fuel at 9 kW/kg (largest first):')
     print(f"{'technology input':<36s}{'elasticity [%/%]':>17s}")
     ranked = sorted(result.sensitivities.items(), key=lambda item: -abs(item[1]['elasticity']))
     for path, entry in ranked:

@@ -74,7 +74,8 @@ def reports(tmp_path_factory):
             timeout=600,
             preexec_fn=_umask_022,
         )
-        assert done.returncode == 0, done.stderr
+        # The demo has no break-even in its interval: exit code 7, the files written.
+        assert done.returncode == (7 if name == 'breakeven' else 0), done.stderr
         out[name] = folder
     return out
 

@@ -117,6 +117,29 @@ def _config_arg(parser):
     )
 
 
+def _whole_or_text(text):
+    """
+    Return a count written on the command line as an int, or as written if it is not one.
+
+    What is not a whole number is kept as text, so that the study checks it and ends with
+    one line (argparse would print its usage as well).
+
+    Parameters
+    ----------
+    text : str
+        The value as written.
+
+    Returns
+    -------
+    int or str
+        The whole number, or ``text``.
+    """
+    try:
+        return int(text)
+    except ValueError:
+        return text
+
+
 def _parser():
     parser = argparse.ArgumentParser(
         prog='voltwake',
@@ -185,11 +208,11 @@ def _parser():
     p.add_argument(
         '--monte-carlo',
         dest='samples',
-        type=int,
+        type=_whole_or_text,
         metavar='N',
         help='Monte Carlo samples over study.uncertainty.distributions',
     )
-    p.add_argument('--seed', type=int, help='Monte Carlo seed')
+    p.add_argument('--seed', type=_whole_or_text, help='Monte Carlo seed')
     p.add_argument(
         '--jobs',
         type=int,
@@ -513,12 +536,18 @@ def _cmd_sweep(args):
     summaries = run_sweep(config, spec, jobs=args.jobs, out_dir=out_dir, progress=bar)
     if not root:
         return errors.EXIT_OK
+    # No break-even in the interval: its answer is the one error line (exit 7), not also
+    # a line of the summary; the files are written all the same.
+    missed = summaries.get('breakeven', {}).get('found') is False
     if args.json:
         print(json.dumps(clean(summaries), indent=2, sort_keys=True))
     else:
         from .outputs.summary import sweep_text
 
-        print(sweep_text(summaries, out_dir))
+        shown = {k: v for k, v in summaries.items() if not (missed and k == 'breakeven')}
+        print(sweep_text(shown, out_dir))
+    if missed:
+        raise errors.NoBreakevenError(summaries['breakeven']['message'])
     return _sweep_exit_code(summaries)
 
 

@@ -439,6 +439,7 @@ def sweep_text(summaries, out_dir=None):
                     f"break-even {res['path']} = {shown['value']:.6g} {units} (fuel-burn "
                     f"difference there {res['difference_at_value']:+.4f}%)"
                 )
+                lines.extend(_breakeven_held_lines(res))
             else:
                 lines.append(
                     f"no break-even of {res['path']} in [{shown['lower']:g}, "
@@ -502,6 +503,38 @@ def target_sweep_lines(res):
         lines.append(
             f'optimised reference block fuel {min(fuels):,.1f} to {max(fuels):,.1f} kg '
             f'({len(fuels)} references, one per value of the shared inputs)'
+        )
+    return lines
+
+
+def _breakeven_held_lines(res):
+    """Return the lines of what holds the optimum at a break-even and its bound dependence."""
+    held = res.get('design_at_value') or {}
+    lines = []
+    if held.get('active'):
+        lines.append(
+            '  held there by: '
+            + ', '.join(
+                f"{a[len('bound:') :]} at its "
+                f"{held['design_variables'][a[len('bound:') :]]['at_bound']} bound"
+                if a.startswith('bound:')
+                else a
+                for a in held['active']
+            )
+        )
+    if held.get('design'):
+        lines.append(
+            '  design there: ' + ', '.join(f'{k} = {v:.5g}' for k, v in held['design'].items())
+        )
+    lines.extend(f"  {dep['message']}" for dep in res.get('bound_dependence') or [])
+    sens = (res.get('sensitivities') or {}).get(res['path'])
+    if sens:
+        at = res.get('sensitivities_at') or {}
+        units = sens.get('units') or '1'
+        lines.append(
+            f"  d(optimised block fuel)/d({res['path']}) at the {at.get('where', '')}: "
+            f"{sens['derivative']:+.4g} kg per {units} (design re-optimised; the reference "
+            'does not depend on it)'
         )
     return lines
 

@@ -12,10 +12,10 @@ the model's analytic total derivatives.
 import math
 
 import numpy as np
-from openmdao.utils.units import unit_conversion
+from openmdao.utils.units import convert_units, unit_conversion
 from scipy.optimize import brentq
 
-from ..configuration.loader import field_at, load_config
+from ..configuration.loader import _CHECKS, field_at, load_config
 from ..design.fields import fuel_burn_field
 from ..design.sizing import build_model_problem, run_sizing
 from ..errors import ConfigError, OptimizationError
@@ -156,12 +156,8 @@ def breakeven(config, path, lower, upper, jobs=None, xtol=None):
         'evaluations': evaluations,
     }
     if d_lower * d_upper > 0.0:
-        side = 'more' if d_lower > 0.0 else 'less'
-        out['message'] = (
-            f'no break-even on [{lower:g}, {upper:g}]{units}: the '
-            f'turbo-electric design burns {side} fuel than the reference at both '
-            f'ends ({d_lower:+.4g} % and {d_upper:+.4g} %)'
-        )
+        out['trend'] = no_breakeven_trend(out)
+        out['message'] = no_breakeven_message(out)
         return out
     value = brentq(difference, lower, upper, xtol=xtol)
     out.update(
@@ -171,6 +167,101 @@ def breakeven(config, path, lower, upper, jobs=None, xtol=None):
         message=f'break-even at {path} = {value:.6g}{units}',
     )
     return out
+
+
+def no_breakeven_trend(result):
+    """
+    Return what the ends of an interval without a break-even say about a wider one.
+
+    The fuel-burn difference is compared at the two ends: the gap to zero narrows toward the
+    end where it is smaller. A straight line through the two ends gives where it would reach
+    zero: an extrapolation, not a result (the optimised difference is not linear in the
+    input; a specific power, for instance, acts through a mass that goes as its inverse).
+
+    Parameters
+    ----------
+    result : dict
+        A break-even result with ``path``, ``lower``, ``upper``, ``difference_at_lower`` and
+        ``difference_at_upper``.
+
+    Returns
+    -------
+    dict
+        ``winner`` ('reference' or 'turbo-electric'), ``narrows_toward`` ('lower', 'upper'
+        or None when the difference does not change), ``straight_line_zero`` (SI, None when
+        flat) and ``straight_line_zero_possible`` (whether the input can take that value).
+    """
+    lo, hi = result['lower'], result['upper']
+    d_lo, d_hi = result['difference_at_lower'], result['difference_at_upper']
+    trend = {
+        'winner': 'reference' if d_lo > 0.0 else 'turbo-electric',
+        'narrows_toward': None,
+        'straight_line_zero': None,
+        'straight_line_zero_possible': None,
+    }
+    if abs(d_hi - d_lo) <= 1e-9 * max(abs(d_lo), abs(d_hi)):
+        return trend
+    trend['narrows_toward'] = 'upper' if abs(d_hi) < abs(d_lo) else 'lower'
+    zero = lo - d_lo * (hi - lo) / (d_hi - d_lo)
+    trend['straight_line_zero'] = zero
+    field = field_at(result['path'])
+    check = _CHECKS.get(getattr(field, 'check', None))
+    trend['straight_line_zero_possible'] = bool(check[0](zero)) if check else True
+    return trend
+
+
+def no_breakeven_message(result):
+    """
+    Return the one-line answer of a break-even study that found none in its interval.
+
+    Parameters
+    ----------
+    result : dict
+        A break-even result (with ``display``, the values in the unit the user wrote, when
+        there is one).
+
+    Returns
+    -------
+    str
+        The difference at both ends, which design wins throughout and the trend.
+    """
+    trend = result.get('trend') or no_breakeven_trend(result)
+    shown = result.get('display') or {}
+    si = result.get('units')
+    units = shown.get('units') or si or ''
+
+    def fmt(value):
+        if shown.get('units') and si:
+            value = float(convert_units(value, si, shown['units']))
+        return f'{value:.4g}{" " + units if units else ""}'
+
+    lo, hi = result['lower'], result['upper']
+    d_lo, d_hi = result['difference_at_lower'], result['difference_at_upper']
+    who = (
+        'the optimised conventional reference burns less fuel'
+        if trend['winner'] == 'reference'
+        else 'the optimised turbo-electric design burns less fuel'
+    )
+    text = (
+        f"no break-even of {result['path']} in [{fmt(lo)}, {fmt(hi)}]: {who} at both ends "
+        f'(difference {d_lo:+.2f} % at {fmt(lo)}, {d_hi:+.2f} % at {fmt(hi)})'
+    )
+    side = trend['narrows_toward']
+    if side is None:
+        return text + '; the difference does not change over the interval'
+    zero = trend['straight_line_zero']
+    text += f'; the gap narrows toward the {side} end'
+    if not trend['straight_line_zero_possible']:
+        return text + (
+            f'; a straight line through the ends would reach zero at {fmt(zero)}, a value '
+            'the input cannot take: widening the interval cannot find a break-even'
+        )
+    return text + (
+        f'; a straight line through the ends would reach zero near {fmt(zero)} (an '
+        f'extrapolation, not a result): widening the interval '
+        f'{"upward" if side == "upper" else "downward"} could find one, if such values are '
+        'plausible'
+    )
 
 
 def default_technology_paths(config):

@@ -30,12 +30,13 @@ from ..errors import ConfigError, InterruptedRun
 from ..outputs.files import write_results
 from ..outputs.report import write_report
 from .breakeven import breakeven as _breakeven
-from .breakeven import technology_sensitivities
+from .breakeven import no_breakeven_message
+from .breakeven_optimum import explain_breakeven
 from .figures import study_figures as _plots  # noqa: F401 - the name earlier callers use
 from .maps import design_space_map, parse_axis
 from .maps import monte_carlo as _monte_carlo
 from .results import BreakevenResult, DesignMapResult, MonteCarloResult, TargetSweepResult
-from .target_sweep import fixed_config, is_config_input, optimize_job, output_axis
+from .target_sweep import is_config_input, output_axis
 from .target_sweep import target_sweep as _target_sweep
 
 _STUDY_KEYS = ('map', 'targets', 'breakeven', 'uncertainty')
@@ -283,7 +284,7 @@ def study_spec(config, maps=(), targets=(), breakeven=None, samples=None, seed=N
     if seed is not None:
         seed = _study_whole(seed, 0, {'source': '--seed'})
     spec = {}
-    if maps or targets or breakeven or samples:
+    if maps or targets or breakeven or samples is not None:
         for key, axes in (('map', maps), ('targets', targets)):
             if axes:
                 spec[key] = {}
@@ -303,7 +304,7 @@ def study_spec(config, maps=(), targets=(), breakeven=None, samples=None, seed=N
             path, lo, hi, _ = parse_axis(breakeven, count_required=False)
             spec['breakeven'] = (path, lo, hi)
             spec['breakeven_units'] = _written_units(str(breakeven).partition('=')[2].split(':'))
-        if samples:
+        if samples is not None:
             if 'uncertainty' not in study:
                 raise ConfigError(
                     '--monte-carlo needs study.uncertainty.distributions in the config',
@@ -429,10 +430,15 @@ def _run_study(kind, config, spec, jobs, progress, xtol=None):
         path, lo, hi = spec['breakeven']
         result = _breakeven(config, path, lo, hi, jobs=jobs, xtol=xtol)
         result['kind'] = 'breakeven'
-        result['sensitivities'] = technology_sensitivities(config)
-        if result.get('found'):
-            result['design_at_value'] = _optimum_at(config, path, result['value'])
+        explain_breakeven(config, result)
         _add_display(result, spec.get('breakeven_units'))
+        if not result['found']:
+            result['message'] = no_breakeven_message(result)
+        elif result.get('display'):
+            shown = result['display']
+            result['message'] = result['message'].replace(
+                f"{result['value']:.6g} {result['units']}", f"{shown['value']:.6g} {shown['units']}"
+            )
         # Every optimised evaluation of the root solve is a point of the study's CSV.
         result['points'] = [
             {
@@ -485,20 +491,6 @@ def _add_display(result, units):
         'units': units,
         **{key: shown(result.get(key)) for key in ('value', 'lower', 'upper')},
     }
-
-
-def _optimum_at(config, path, value):
-    """
-    Optimise the design with ``path`` fixed at ``value``: what holds it at the break-even.
-
-    Returns
-    -------
-    dict
-        ``success``, ``message``, ``design`` (path -> value) and ``active`` (active
-        constraints and ``'bound:<path>'`` for design variables at a bound).
-    """
-    res = optimize_job({'data': fixed_config(config, {path: value}).data})
-    return {k: res[k] for k in ('success', 'message', 'design', 'active')}
 
 
 # --- The studies from Python -----------------------------------------------------------------

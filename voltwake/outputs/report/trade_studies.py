@@ -380,6 +380,9 @@ def _breakeven_study(data, rows, figures):
         if holds:
             headline += f'; held there by {_esc(holds)}'
             sentence += f' There the optimum is held by {_esc(holds)}.'
+        for dep in data.get('bound_dependence') or []:
+            if dep.get('material'):
+                sentence += f' But {_esc(dep.get("message", ""))}.'
     else:
         d_lo, d_hi = data.get('difference_at_lower'), data.get('difference_at_upper')
         headline = (
@@ -413,22 +416,34 @@ def _breakeven_study(data, rows, figures):
                 ],
             )
         )
+    body.extend(_breakeven_root_parts(data))
     sens = data.get('sensitivities') or {}
     if sens:
-        body.append('<h3>Sensitivity of block fuel to the technology inputs</h3>')
+        at = data.get('sensitivities_at') or {}
+        where = (
+            f'at the break-even ({_esc(label)} = {_esc(_quantity(at.get("value"), units))})'
+            if at.get('where') == 'break-even'
+            else f'at the configured {_esc(label)} ({_esc(_quantity(at.get("value"), units))})'
+        )
+        body.append('<h3>Sensitivity of the optimised block fuel to the technology inputs</h3>')
         body.append(
-            '<p class="note">Local derivatives at the configured design (not re-optimised): '
-            'the elasticity is the percent change of block fuel per percent change of the '
-            'input.</p>'
+            f'<p class="note">At the optimised turbo-electric design {where}, every design '
+            'variable re-optimised (post-optimality sensitivity, envelope theorem: the '
+            "objective's derivative plus the active constraints' multipliers times theirs). "
+            'The derivative is in kg of block fuel per unit of the input as shown; the '
+            'elasticity is the percent change of block fuel per percent change of the input. '
+            'The conventional reference has none of these inputs: its sensitivities are zero. '
+            'Inputs that are design variables are optimised, not fixed, and are not listed.</p>'
         )
         ordered = sorted(sens.items(), key=lambda kv: -abs(_number(kv[1].get('elasticity')) or 0))
         body.append(
             _table(
-                ['technology input', 'configured value', 'elasticity [% per %]'],
+                ['technology input', 'value', 'd(block fuel)/d(input)', 'elasticity [% per %]'],
                 [
                     [
                         _raw_td(f'{_esc(input_label(p))} <code>{_esc(p)}</code>'),
                         _td(_quantity(s.get('value'), s.get('units')), 'num'),
+                        _td(_per_unit(s.get('derivative'), s.get('units')), 'num'),
                         _td(_fmt(s.get('elasticity'), '{:+.4f}'), 'num'),
                     ]
                     for p, s in ordered
@@ -455,6 +470,74 @@ def _breakeven_study(data, rows, figures):
         config,
         sentence,
     )
+
+
+def _per_unit(derivative, units):
+    """Return a derivative of block fuel per unit of an input, in the unit it is shown in."""
+    value = _number(derivative)
+    if value is None:
+        return '–'
+    factor, shown = _shown(1.0, units)  # one SI unit in the shown unit
+    per = value / factor if factor else value
+    return f'{per:+.4g} kg per {pretty_units(shown) if units else "unit"}'
+
+
+def _breakeven_root_parts(data):
+    """Return the HTML parts of what holds the optimum at a break-even and its bounds."""
+    held = data.get('design_at_value') or {}
+    if not data.get('found') or not held.get('design_variables'):
+        return []
+    parts = ['<h3>The optimised design at the break-even</h3>']
+    for dep in data.get('bound_dependence') or []:
+        text = f'{_esc(dep.get("message", ""))}.'
+        parts.append(
+            f'<p><b>{text}</b></p>' if dep.get('material') else f'<p class="note">{text}</p>'
+        )
+    cons = held.get('active_constraints') or {}
+    parts.append(
+        _table(
+            ['design variable', 'value', 'lower bound', 'upper bound', 'held at'],
+            [
+                [
+                    _raw_td(f'{_esc(input_label(p))} <code>{_esc(p)}</code>'),
+                    _td(_quantity(d.get('value'), d.get('units')), 'num'),
+                    _td(_quantity(d.get('lower'), d.get('units')), 'num'),
+                    _td(_quantity(d.get('upper'), d.get('units')), 'num'),
+                    _td(f"its {d['at_bound']} bound" if d.get('at_bound') else '–'),
+                ]
+                for p, d in held['design_variables'].items()
+            ],
+        )
+    )
+    if cons:
+        parts.append(
+            _table(
+                ['active constraint', 'value', 'limit', 'multiplier (kg per unit)'],
+                [
+                    [
+                        _td(input_label(n)),
+                        _td(_quantity(c.get('value'), c.get('units')), 'num'),
+                        _td(
+                            _quantity(
+                                next(
+                                    (
+                                        c[k]
+                                        for k in ('equals', 'upper', 'lower')
+                                        if c.get(k) is not None
+                                    ),
+                                    None,
+                                ),
+                                c.get('units'),
+                            ),
+                            'num',
+                        ),
+                        _td(_fmt(c.get('multiplier'), '{:+.4g}'), 'num'),
+                    ]
+                    for n, c in cons.items()
+                ],
+            )
+        )
+    return parts
 
 
 def _other_study(name, data):
