@@ -253,8 +253,9 @@ def test_inputs_with_units_and_bare_numbers_are_read_as_in_a_config():
             'expected a number',
         ),
         (
+            # An output's axis may be written 'LO:HI:N' too; its ends must be numbers.
             lambda: voltwake.target_sweep(DEMO, {'power_saving_coefficient': 'a:b:3'}),
-            'expected a non-empty sequence',
+            "got 'a'; expected a number",
         ),
         (lambda: voltwake.monte_carlo(DEMO, 0), 'expected a whole number >= 1'),
         (lambda: voltwake.monte_carlo(DEMO, 10, seed=1.5), 'expected a whole number >= 0'),
