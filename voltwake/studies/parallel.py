@@ -89,7 +89,7 @@ def _pool_context():
     return None
 
 
-def map_jobs(func, items, jobs=None, progress=None):
+def map_jobs(func, items, jobs=None, progress=None, on_result=None):
     """
     Apply ``func`` to every item, in parallel, and return the results in item order.
 
@@ -111,6 +111,10 @@ def map_jobs(func, items, jobs=None, progress=None):
     progress : callable or None
         ``progress(done, failed, total, elapsed)`` after every finished item (on rank 0 only
         under MPI); a result that is a dict with ``success`` False counts as failed.
+    on_result : callable or None
+        ``on_result(index, result)`` as each item finishes, in this process (so that a caller
+        interrupted part-way keeps what was done). Under MPI it is called on every rank once
+        the results are gathered.
 
     Returns
     -------
@@ -120,7 +124,11 @@ def map_jobs(func, items, jobs=None, progress=None):
     items = list(items)
     comm = mpi_comm()
     if comm is not None:
-        return _map_mpi(comm, func, items, progress)
+        results = _map_mpi(comm, func, items, progress)
+        for index, result in enumerate(results):
+            if on_result is not None:
+                on_result(index, result)
+        return results
     jobs = (os.cpu_count() or 1) if jobs is None else int(jobs)
     if jobs < 1:
         raise ValueError(f'jobs must be at least 1; got {jobs}')
@@ -130,6 +138,8 @@ def map_jobs(func, items, jobs=None, progress=None):
         with _one_blas_thread():
             for item in items:
                 results.append(func(item))
+                if on_result is not None:
+                    on_result(len(results) - 1, results[-1])
                 counter.add(_failed(results[-1]))
         return results
     results = [None] * len(items)
@@ -140,6 +150,8 @@ def map_jobs(func, items, jobs=None, progress=None):
         try:
             for future in concurrent.futures.as_completed(futures):
                 results[futures[future]] = future.result()
+                if on_result is not None:
+                    on_result(futures[future], results[futures[future]])
                 counter.add(_failed(results[futures[future]]))
         except BaseException:
             for future in futures:
