@@ -318,3 +318,12 @@ def test_ctrl_c_keeps_the_finished_samples_and_exits_130(tmp_path):
     with open(out / 'montecarlo_optimized_points.csv', newline='') as handle:
         rows = list(csv.DictReader(handle))
     assert [row['sample'] for row in rows] == ['0', '1', '2']
+
+
+@pytest.mark.parametrize('jobs', [1, 2])
+def test_map_jobs_hands_every_result_over_as_it_finishes(jobs):
+    from voltwake.studies.parallel import map_jobs
+
+    seen = {}
+    results = map_jobs(abs, [-3, -1, -2], jobs=jobs, on_result=seen.__setitem__)
+    assert results == [3, 1, 2] and seen == {0: 3, 1: 1, 2: 2}
