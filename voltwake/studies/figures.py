@@ -225,7 +225,7 @@ def _study_figures(kind, result, out_dir, config):
                     [r.get('fuel_burn_change_percent', math.nan) for r in rows],
                     os.path.join(out_dir, 'montecarlo.png'),
                     f'{_fuel_words(result)} change versus the reference [%]',
-                    f'Monte Carlo over the technology inputs, {ANALYSIS_ONLY}',
+                    f'Monte Carlo over the technology inputs,\n{ANALYSIS_ONLY}',
                     closed=[point_status(r) == OK for r in rows],
                     win_label='turbo-electric design wins',
                 )
