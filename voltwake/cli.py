@@ -212,6 +212,12 @@ def _parser():
         metavar='N',
         help='Monte Carlo samples over study.uncertainty.distributions',
     )
+    p.add_argument(
+        '--optimize',
+        action='store_true',
+        help='with --monte-carlo: re-optimise the design and its conventional reference at '
+        'every sample (needs an optimization section)',
+    )
     p.add_argument('--seed', type=_whole_or_text, help='Monte Carlo seed')
     p.add_argument(
         '--jobs',
@@ -529,7 +535,9 @@ def _cmd_sweep(args):
     if args.jobs is not None and args.jobs < 1:
         raise errors.ConfigError(f'got {args.jobs}; expected a whole number >= 1', source='--jobs')
     config = load_config(args.config, args.overrides)
-    spec = study_spec(config, args.map, args.targets, args.breakeven, args.samples, args.seed)
+    spec = study_spec(
+        config, args.map, args.targets, args.breakeven, args.samples, args.seed, args.optimize
+    )
     root = is_root()
     out_dir = prepare_out_dir(args.out, args.force) if (args.out and root) else None
     bar = ProgressBar() if (root and not args.json) else None

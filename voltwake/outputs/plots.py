@@ -1104,7 +1104,14 @@ def plot_history(history, path, objective_label='objective [-]', feasibility_tol
 
 
 def plot_histogram(
-    values, path, x_label, title, vertical_line=0.0, closed=None, win_label='below the line'
+    values,
+    path,
+    x_label,
+    title,
+    vertical_line=0.0,
+    closed=None,
+    win_label='below the line',
+    dropped_label='did not close',
 ):
     """
     Draw a histogram of sampled values with the break-even line and the winning side shaded.
@@ -1129,6 +1136,8 @@ def plot_histogram(
         True where the sizing loop closed (None: every finite value).
     win_label : str
         Legend text of the shaded side below the line.
+    dropped_label : str
+        What the samples without a result did (legend and title), e.g. 'did not close'.
 
     Returns
     -------
@@ -1166,13 +1175,13 @@ def plot_histogram(
     ax.grid(True, axis='y', alpha=0.3)
     dropped = int(values.size - finite.size)
     if dropped:
-        ax.plot([], [], ' ', label=f'{dropped} samples did not close (not shown)')
+        ax.plot([], [], ' ', label=f'{dropped} samples {dropped_label} (not shown)')
     note = (
         f'{100.0 * share:.1f} % of the {finite.size} samples with a result lie below '
         f'{vertical_line:g}'
     )
     if dropped:
-        note += f'; {dropped} of {values.size} did not close'
+        note += f'; {dropped} of {values.size} {dropped_label}'
     ax.set_title(f'{title}\n{note}', fontsize=11)
     ax.legend(fontsize=9)
     return _save(fig, path, {'share_below': share, 'samples': int(finite.size), 'dropped': dropped})
@@ -1275,3 +1284,65 @@ def plot_line(
             'infeasible': counts[INFEASIBLE],
         },
     )
+
+
+def plot_value_distributions(columns, path, title):
+    """
+    Draw one histogram per quantity, each over its allowed range, with the bounds marked.
+
+    Used for the design variables at the optima of a sampled study: a pile-up at a bound
+    shows the bound, not the physics, holding the optimum.
+
+    Parameters
+    ----------
+    columns : dict
+        Label (with units) -> (values, lower, upper), in the units shown; NaN values are
+        left out (and counted in the panel's title).
+    path : str
+        Destination PNG.
+    title : str
+        Figure title.
+
+    Returns
+    -------
+    PlotFile
+        The path; ``details`` holds per label 'samples' and 'at_bound' (values within
+        1e-4 of the range from a bound).
+    """
+    count = len(columns)
+    if count == 0:
+        raise ValueError('no quantities to draw')
+    ncols = min(3, count)
+    nrows = math.ceil(count / ncols)
+    fig = _new_figure((3.4 * ncols + 0.6, 2.6 * nrows + 0.8))
+    details = {}
+    for k, (label, (values, lower, upper)) in enumerate(columns.items()):
+        ax = fig.add_subplot(nrows, ncols, k + 1)
+        values = np.asarray(values, dtype=float).ravel()
+        finite = values[np.isfinite(values)]
+        span = abs(upper - lower) or 1.0
+        at_bound = int(
+            np.sum(np.minimum(np.abs(finite - lower), np.abs(finite - upper)) <= 1e-4 * span)
+        )
+        if finite.size:
+            ax.hist(
+                finite,
+                bins=min(30, max(5, int(np.sqrt(finite.size)))),
+                range=(lower, upper),
+                color='tab:blue',
+                edgecolor='white',
+            )
+        for bound in (lower, upper):
+            ax.axvline(bound, color='tab:red', linestyle='--', linewidth=1.2)
+        ax.set_xlim(lower - 0.03 * span, upper + 0.03 * span)
+        ax.set_xlabel('\n'.join(textwrap.wrap(label, 34)), fontsize=9)
+        ax.set_ylabel('samples', fontsize=9)
+        ax.tick_params(labelsize=8)
+        missing = int(values.size - finite.size)
+        note = f'{at_bound} of {finite.size} at a bound'
+        if missing:
+            note += f'; {missing} without a value'
+        ax.set_title(note, fontsize=9)
+        details[label] = {'samples': int(finite.size), 'at_bound': at_bound}
+    fig.suptitle(f'{title}\n(dashed red: the bounds of the optimisation)', fontsize=11)
+    return _save(fig, path, details)

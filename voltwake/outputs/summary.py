@@ -7,6 +7,10 @@ CAUTION = (
     'defer to the applicable airworthiness regulations and licensed engineering practice.'
 )
 
+#: How the analysis-only Monte Carlo is labelled wherever it appears (text, JSON, report,
+#: figures), beside the study that re-optimises both aircraft at every sample.
+ANALYSIS_ONLY = 'analysis only (configured design point, not re-optimised)'
+
 #: Relative violation above which a configured constraint is shown as violated (that of the
 #: optimiser's feasibility test, :data:`voltwake.optimization.FEASIBILITY_TOLERANCE`).
 VIOLATION_SHOWN = 1e-5
@@ -447,10 +451,12 @@ def sweep_text(summaries, out_dir=None):
                     f"{res['difference_at_lower']:+.2f}% at the lower end and "
                     f"{res['difference_at_upper']:+.2f}% at the upper end"
                 )
+        elif name == 'montecarlo_optimized':
+            lines += optimized_monte_carlo_lines(res)
         elif name == 'montecarlo':
             stats = res['fuel_burn_change_percent']
             lines.append(
-                f"Monte Carlo, {res['samples']} samples: fuel-burn change mean "
+                f"Monte Carlo, {ANALYSIS_ONLY}, {res['samples']} samples: fuel-burn change mean "
                 f"{stats.get('mean', float('nan')):+.3f}% (5-95%: "
                 f"{stats.get('p05', float('nan')):+.3f}% to "
                 f"{stats.get('p95', float('nan')):+.3f}%), probability that the "
@@ -564,6 +570,86 @@ def binding_words(res):
         span += unit
         parts.append(f"{name} binds by {span} (at {entry['points']} points)")
     return '; '.join(parts) or 'no constraint recorded'
+
+
+#: Unsuccessful samples listed by name in the text (all of them are in the CSV and JSON).
+LISTED_FAILURES = 10
+
+
+def _or_nan(value):
+    """Return ``value``, or NaN for None (a NaN written to JSON)."""
+    return float('nan') if value is None else value
+
+
+def optimized_monte_carlo_lines(res):
+    """
+    Format a Monte Carlo study that re-optimises both aircraft at every sample.
+
+    Parameters
+    ----------
+    res : dict
+        Its summary (``kind`` 'montecarlo_optimized').
+
+    Returns
+    -------
+    list of str
+        The lines: the distribution of the fuel-burn change of the optima, the probability
+        of a win with its Wilson score interval, the unsuccessful samples, the reference and
+        the design variables at the optima.
+    """
+    nan = float('nan')
+    stats = res.get('fuel_burn_change_percent') or {}
+    counts = res.get('status_counts') or {}
+    done = res.get('samples_finished', res.get('samples', 0))
+    ok = res.get('successful_samples', 0)
+    head = f"Monte Carlo, both aircraft re-optimised at every sample, {res['samples']} samples"
+    if res.get('status') == 'partial':
+        head += f' (interrupted: {done} finished)'
+    lines = [head + ':']
+    nominal = (res.get('nominal') or {}).get('fuel_burn_change_percent')
+    if nominal is not None:
+        lines.append(f'  at the nominal inputs the optima differ by {nominal:+.3f}%')
+    if ok:
+        lines.append(
+            f"  fuel-burn change of the optima: mean {stats.get('mean', nan):+.3f}%, std "
+            f"{stats.get('std', nan):.3f}%, 5/50/95%: {stats.get('p05', nan):+.3f}% / "
+            f"{stats.get('p50', nan):+.3f}% / {stats.get('p95', nan):+.3f}%"
+        )
+        ci = res.get('probability_of_win_interval') or {}
+        lines.append(
+            f"  probability that the turbo-electric design wins "
+            f"{100 * res['probability_of_win']:.1f}% ({res.get('wins', 0)} of {ok} successful "
+            f"samples; {100 * ci.get('confidence', 0.95):.0f}% Wilson score interval "
+            f"{100 * _or_nan(ci.get('lower')):.1f}% to {100 * _or_nan(ci.get('upper')):.1f}%)"
+        )
+    else:
+        lines.append('  no sample has an optimum of both aircraft: no probability of a win')
+    bad = res.get('unsuccessful_samples') or []
+    if bad:
+        lines.append(
+            f"  {len(bad)} of {done} samples without an optimum ({counts.get('infeasible', 0)} "
+            f"infeasible, {counts.get('failed', 0)} failed), not counted in the probability:"
+        )
+        for entry in bad[:LISTED_FAILURES]:
+            lines.append(f"    sample {entry['sample']}: {entry['status']}: {entry['message']}")
+        if len(bad) > LISTED_FAILURES:
+            lines.append(f'    ... and {len(bad) - LISTED_FAILURES} more (see the CSV file)')
+    ref = res.get('reference') or {}
+    lines.append(
+        f"  conventional reference optimised {ref.get('optimised', '?')}: {ref.get('why', '')}"
+    )
+    dvs = {p: d for p, d in (res.get('design_variables') or {}).items() if 'p50' in d}
+    if dvs:
+        lines.append('  design variables at the optima (5 / 50 / 95 %; optima at a bound):')
+        width = max(len(p) for p in dvs)
+        for path, d in dvs.items():
+            shown, factor = display_units(d.get('units'))
+            lines.append(
+                f"    {path:<{width}s}  {d['p05'] * factor:.4g} / {d['p50'] * factor:.4g} / "
+                f"{d['p95'] * factor:.4g} {shown or '-'}; {d['at_lower']} at lower, "
+                f"{d['at_upper']} at upper"
+            )
+    return lines
 
 
 #: Words for config key paths that studies and optimisations commonly vary.

@@ -16,7 +16,13 @@ from openmdao.utils.units import convert_units
 from ..configuration.loader import field_at
 from ..errors import ConfigError
 from ..outputs.plots import NOT_CLOSED, OK, point_status
-from ..outputs.summary import axis_label, display_units, input_label, pretty_units
+from ..outputs.summary import (
+    ANALYSIS_ONLY,
+    axis_label,
+    display_units,
+    input_label,
+    pretty_units,
+)
 
 #: The unit the user wrote each axis of the study being drawn in (path -> unit).
 _WRITTEN = contextvars.ContextVar('written_axis_units', default={})
@@ -220,13 +226,15 @@ def _study_figures(kind, result, out_dir, config):
                     vertical=vertical,
                 )
             )
+        if kind == 'montecarlo_optimized':
+            made += _optimized_monte_carlo_figures(plots, result, rows, out_dir)
         if kind == 'montecarlo':
             made.append(
                 plots.plot_histogram(
                     [r.get('fuel_burn_change_percent', math.nan) for r in rows],
                     os.path.join(out_dir, 'montecarlo.png'),
                     f'{_fuel_words(result)} change versus the reference [%]',
-                    'Monte Carlo over the technology inputs',
+                    f'Monte Carlo over the technology inputs,\n{ANALYSIS_ONLY}',
                     closed=[point_status(r) == OK for r in rows],
                     win_label='turbo-electric design wins',
                 )
@@ -235,6 +243,47 @@ def _study_figures(kind, result, out_dir, config):
         result['figures_note'] = f'no figures drawn: {err.message}'
         print(f"voltwake: note: {result['figures_note']}", file=sys.stderr)
         return made
+    return made
+
+
+def _optimized_monte_carlo_figures(plots, result, rows, out_dir):
+    """
+    Draw the figures of a Monte Carlo study that re-optimises both aircraft per sample.
+
+    The histogram of the fuel-burn change of the optima (zero marked; samples without an
+    optimum counted) and the distributions of the design variables at the optima.
+    """
+    ok = [r.get('status') == 'optimum' for r in rows]
+    if not any(ok):
+        return []
+    made = [
+        plots.plot_histogram(
+            [r.get('fuel_burn_change_percent', math.nan) for r in rows],
+            os.path.join(out_dir, 'montecarlo_optimized.png'),
+            f'{_fuel_words(result)} change of the optimum versus the optimised reference [%]',
+            'Monte Carlo over the technology inputs, both aircraft re-optimised per sample',
+            closed=ok,
+            win_label='turbo-electric design wins',
+            dropped_label='without an optimum',
+        )
+    ]
+    columns = {}
+    for path, entry in (result.get('design_variables') or {}).items():
+        shown, factor = display_units(entry.get('units'))
+        values = [
+            r.get(f'dv:{path}', math.nan) * factor if good else math.nan
+            for r, good in zip(rows, ok)
+        ]
+        label = f'{input_label(path)} [{pretty_units(shown)}]'
+        columns[label] = (values, entry['lower'] * factor, entry['upper'] * factor)
+    if columns:
+        made.append(
+            plots.plot_value_distributions(
+                columns,
+                os.path.join(out_dir, 'montecarlo_optimized_design.png'),
+                'Design variables of the turbo-electric optima over the samples',
+            )
+        )
     return made
 
 

@@ -98,7 +98,7 @@ def _pool_context():
     return None
 
 
-def map_jobs(func, items, jobs=None, progress=None, uncounted=0):
+def map_jobs(func, items, jobs=None, progress=None, uncounted=0, on_result=None):
     """
     Apply ``func`` to every item, in parallel, and return the results in item order.
 
@@ -124,6 +124,10 @@ def map_jobs(func, items, jobs=None, progress=None, uncounted=0):
         The first ``uncounted`` items (e.g. the reference optimisations of a target sweep)
         run like the others but are not points of the progress: ``total`` and ``done``
         count the rest.
+    on_result : callable or None
+        ``on_result(index, result)`` as each item finishes, in this process (so that a caller
+        interrupted part-way keeps what was done). Under MPI it is called on every rank once
+        the results are gathered.
 
     Returns
     -------
@@ -133,7 +137,11 @@ def map_jobs(func, items, jobs=None, progress=None, uncounted=0):
     items = list(items)
     comm = mpi_comm()
     if comm is not None:
-        return _map_mpi(comm, func, items, progress, uncounted)
+        results = _map_mpi(comm, func, items, progress, uncounted)
+        for index, result in enumerate(results):
+            if on_result is not None:
+                on_result(index, result)
+        return results
     jobs = (os.cpu_count() or 1) if jobs is None else int(jobs)
     if jobs < 1:
         raise ValueError(f'jobs must be at least 1; got {jobs}')
@@ -143,6 +151,8 @@ def map_jobs(func, items, jobs=None, progress=None, uncounted=0):
         with _one_blas_thread():
             for index, item in enumerate(items):
                 results.append(func(item))
+                if on_result is not None:
+                    on_result(len(results) - 1, results[-1])
                 counter.add(_failed(results[-1]), index)
         return results
     results = [None] * len(items)
@@ -153,6 +163,8 @@ def map_jobs(func, items, jobs=None, progress=None, uncounted=0):
         try:
             for future in concurrent.futures.as_completed(futures):
                 results[futures[future]] = future.result()
+                if on_result is not None:
+                    on_result(futures[future], results[futures[future]])
                 counter.add(_failed(results[futures[future]]), futures[future])
         except BaseException:
             for future in futures:

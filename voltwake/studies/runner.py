@@ -29,13 +29,21 @@ from ..design.batch import decimal_grid
 from ..errors import ConfigError, InterruptedRun
 from ..outputs.files import write_results
 from ..outputs.report import write_report
+from ..outputs.summary import ANALYSIS_ONLY
 from .breakeven import breakeven as _breakeven
 from .breakeven import no_breakeven_message
 from .breakeven_optimum import explain_breakeven
 from .figures import study_figures as _plots  # noqa: F401 - the name earlier callers use
 from .maps import design_space_map, parse_axis
 from .maps import monte_carlo as _monte_carlo
-from .results import BreakevenResult, DesignMapResult, MonteCarloResult, TargetSweepResult
+from .optimized_monte_carlo import optimized_monte_carlo
+from .results import (
+    BreakevenResult,
+    DesignMapResult,
+    MonteCarloResult,
+    StudyResult,
+    TargetSweepResult,
+)
 from .target_sweep import is_config_input, output_axis
 from .target_sweep import target_sweep as _target_sweep
 
@@ -247,7 +255,9 @@ def _uncertainty_from_spec(config, unc, samples=None, seed=None):
     return {'distributions': dists, 'samples': samples, 'seed': seed}
 
 
-def study_spec(config, maps=(), targets=(), breakeven=None, samples=None, seed=None):
+def study_spec(
+    config, maps=(), targets=(), breakeven=None, samples=None, seed=None, optimize=False
+):
     """
     Build the study specification from command-line flags, or else the config's ``study``.
 
@@ -268,12 +278,15 @@ def study_spec(config, maps=(), targets=(), breakeven=None, samples=None, seed=N
         Monte Carlo samples (distributions from the config's ``study.uncertainty``).
     seed : int or None
         Monte Carlo seed.
+    optimize : bool
+        Re-optimise both aircraft at every Monte Carlo sample (needs ``samples`` and an
+        ``optimization`` section).
 
     Returns
     -------
     dict
         Keys among ``map``, ``targets`` (path -> values), ``breakeven`` (path, lower, upper)
-        and ``uncertainty`` (distributions, samples, seed).
+        and ``uncertainty`` (distributions, samples, seed and ``optimize``).
     """
     study = config.values.get('study') or {}
     for key in study:
@@ -283,6 +296,8 @@ def study_spec(config, maps=(), targets=(), breakeven=None, samples=None, seed=N
         samples = _study_whole(samples, 1, {'source': '--monte-carlo'})
     if seed is not None:
         seed = _study_whole(seed, 0, {'source': '--seed'})
+    if optimize:
+        _check_optimize(config, samples)
     spec = {}
     if maps or targets or breakeven or samples is not None:
         for key, axes in (('map', maps), ('targets', targets)):
@@ -314,6 +329,7 @@ def study_spec(config, maps=(), targets=(), breakeven=None, samples=None, seed=N
             spec['uncertainty'] = _uncertainty_from_spec(
                 config, study['uncertainty'], samples, seed
             )
+            spec['uncertainty']['optimize'] = bool(optimize)
         return spec
     for key in ('map', 'targets'):
         if key in study:
@@ -359,6 +375,21 @@ def study_spec(config, maps=(), targets=(), breakeven=None, samples=None, seed=N
     return spec
 
 
+def _check_optimize(config, samples):
+    """Raise ConfigError unless a re-optimised Monte Carlo study can run on ``config``."""
+    if not samples:
+        raise ConfigError(
+            'needs --monte-carlo N: it re-optimises both aircraft at every Monte Carlo sample',
+            source='--optimize',
+        )
+    if 'optimization.design_variables' not in config.values:
+        raise ConfigError(
+            "needs an 'optimization' section in the config (design_variables, constraints "
+            'and an objective)',
+            source='--optimize',
+        )
+
+
 def run_sweep(config, spec, jobs=None, out_dir=None, progress=None):
     """
     Run every study of ``spec`` and write its outputs.
@@ -387,8 +418,16 @@ def run_sweep(config, spec, jobs=None, out_dir=None, progress=None):
         if kind not in spec:
             continue
         name = {'uncertainty': 'montecarlo'}.get(kind, kind)
+        if kind == 'uncertainty' and spec['uncertainty'].get('optimize'):
+            name = 'montecarlo_optimized'
         try:
             result = _run_study(kind, config, spec, jobs, progress)
+        except InterruptedRun as stop:
+            # A study that keeps its finished points (the re-optimised Monte Carlo) hands
+            # them over: its CSV and a summary with status 'partial'.
+            if out_dir and isinstance(stop.partial, StudyResult):
+                stop.partial.write_files(out_dir)
+            raise
         except KeyboardInterrupt:
             if out_dir:
                 write_results(
@@ -450,14 +489,26 @@ def _run_study(kind, config, spec, jobs, progress, xtol=None):
         ]
         return BreakevenResult.from_study(result, config)
     unc = spec['uncertainty']
-    result = _monte_carlo(config, unc['distributions'], unc['samples'], unc['seed'])
-    result['axis_units'] = {
+    written = {
         path: unit
         for path, shape in unc['distributions'].items()
         if isinstance(shape, Mapping)
         for unit in [_written_units([v for params in shape.values() for v in _as_list(params)])]
         if unit
     }
+    if unc.get('optimize'):
+        return optimized_monte_carlo(
+            config,
+            unc['distributions'],
+            unc['samples'],
+            unc['seed'],
+            jobs=jobs,
+            progress=progress,
+            written=written,
+        )
+    result = _monte_carlo(config, unc['distributions'], unc['samples'], unc['seed'])
+    result['analysis'] = ANALYSIS_ONLY
+    result['axis_units'] = written
     return MonteCarloResult.from_study(result, config)
 
 
@@ -614,13 +665,25 @@ def breakeven(config, path, lower, upper, jobs=None, xtol=None, overrides=None):
     return _run_study('breakeven', config, spec, jobs, None, xtol)
 
 
-def monte_carlo(config=None, samples=None, seed=None, distributions=None, overrides=None):
+def monte_carlo(
+    config=None,
+    samples=None,
+    seed=None,
+    distributions=None,
+    overrides=None,
+    optimize=False,
+    jobs=None,
+    progress=None,
+):
     """
-    Sample technology inputs and evaluate every sample as one vectorised model.
+    Sample technology inputs; analyse the configured design, or re-optimise both aircraft.
 
-    The same study as ``voltwake sweep --monte-carlo``: the distribution of the fuel-burn
-    change against the conventional reference as configured, and the probability that the
-    turbo-electric design wins.
+    The same study as ``voltwake sweep --monte-carlo``: analysis only (configured design
+    point, not re-optimised), every sample evaluated as one vectorised model against the
+    conventional reference as configured. With ``optimize=True`` (``--optimize``) the
+    turbo-electric design and its conventional reference are optimised at every sample to
+    the same objective and constraints, and the probability that the turbo-electric optimum
+    wins comes with its 95 % Wilson score interval.
 
     Parameters
     ----------
@@ -637,15 +700,29 @@ def monte_carlo(config=None, samples=None, seed=None, distributions=None, overri
         ``study.uncertainty.distributions``.
     overrides : dict or None
         Config key path -> value applied to the configuration first.
+    optimize : bool
+        Re-optimise both aircraft at every sample (needs an ``optimization`` section).
+    jobs : int or None
+        Local processes for the optimisations (default: all cores); the rows do not depend
+        on it.
+    progress : callable or None
+        ``progress(done, failed, total, elapsed)`` after each optimisation.
 
     Returns
     -------
-    MonteCarloResult
+    MonteCarloResult or OptimizedMonteCarloResult
         ``probability_of_win``, the statistics of the fuel-burn change, the samples as
-        per-point arrays with their units, the summary, ``to_csv`` and ``write``.
+        per-point arrays with their units, the summary, ``to_csv`` and ``write``; with
+        ``optimize``, also ``probability_of_win_interval`` and per sample its ``status``.
     """
     config = load_config(config, overrides)
     where = {'source': 'monte_carlo'}
+    if optimize and 'optimization.design_variables' not in config.values:
+        raise ConfigError(
+            "optimize=True needs an 'optimization' section in the config (design_variables, "
+            'constraints and an objective)',
+            source=config.source,
+        )
     samples = None if samples is None else _study_whole(samples, 1, where)
     seed = None if seed is None else _study_whole(seed, 0, where)
     study = config.values.get('study') or {}
@@ -659,7 +736,8 @@ def monte_carlo(config=None, samples=None, seed=None, distributions=None, overri
             )
         # The config's section, checked as `voltwake sweep` checks it (file, line, key).
         spec = {'uncertainty': _uncertainty_from_spec(config, study['uncertainty'], samples, seed)}
-        return _run_study('uncertainty', config, spec, None, None)
+        spec['uncertainty']['optimize'] = bool(optimize)
+        return _run_study('uncertainty', config, spec, jobs, progress)
     if not isinstance(distributions, Mapping) or not distributions:
         raise ConfigError(
             f'got {distributions!r}; expected a mapping of config key paths to distributions',
@@ -670,8 +748,15 @@ def monte_carlo(config=None, samples=None, seed=None, distributions=None, overri
         _study_whole(configured.get('samples', 1000), 1, where) if samples is None else samples
     )
     seed = _study_whole(configured.get('seed', 1), 0, where) if seed is None else seed
-    spec = {'uncertainty': {'distributions': dict(distributions), 'samples': samples, 'seed': seed}}
-    return _run_study('uncertainty', config, spec, None, None)
+    spec = {
+        'uncertainty': {
+            'distributions': dict(distributions),
+            'samples': samples,
+            'seed': seed,
+            'optimize': bool(optimize),
+        }
+    }
+    return _run_study('uncertainty', config, spec, jobs, progress)
 
 
 def _axes(config, axes, source, kind, written=None):

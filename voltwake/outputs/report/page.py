@@ -8,6 +8,7 @@ from ..files import write_atomic
 from ..summary import CAUTION
 from .html import _STYLE, _esc, _raw_td, _table, _td
 from .optimisation import _optimization_study
+from .optimized_monte_carlo import optimized_montecarlo_study
 from .study import _Figures, _read_json, read_points
 from .trade_studies import (
     _breakeven_study,
@@ -41,14 +42,23 @@ ASSUMPTIONS = [
     'and a partial-discharge limit from Paschen’s law for one assumed air gap.',
     'Take-off and landing at ISA sea level with statistical field-length correlations; no '
     'engine-failure case. The performance constraints act only through an optimisation.',
-    'Design-space maps and Monte Carlo studies analyse the configured design without '
-    're-optimising it; target sweeps and break-even studies optimise every point and the '
-    'reference. The optimiser is local: its result depends on the start. Brent’s method '
+    'Design-space maps and analysis-only Monte Carlo studies analyse the configured design '
+    'without re-optimising it; the re-optimised Monte Carlo study, target sweeps and '
+    'break-even studies optimise every point and the reference. The optimiser is local: its '
+    'result depends on the start. Brent’s method '
     'finds one break-even in the interval.',
 ]
 
 
-_ORDER = ['optimization', 'targets', 'breakeven', 'montecarlo', 'map', 'other']
+_ORDER = [
+    'optimization',
+    'targets',
+    'breakeven',
+    'montecarlo_optimized',
+    'montecarlo',
+    'map',
+    'other',
+]
 
 
 def _kind_of(name, data):
@@ -60,7 +70,7 @@ def _kind_of(name, data):
     if data.get('status') == 'partial':
         return 'partial'
     kind = data.get('kind')
-    if kind in ('map', 'montecarlo', 'targets', 'breakeven'):
+    if kind in ('map', 'montecarlo', 'montecarlo_optimized', 'targets', 'breakeven'):
         return kind
     if 'design' in data and 'history' in data:
         return 'optimization'
@@ -96,6 +106,8 @@ def collect_studies(results_dir):
             studies.append(_map_study(data, rows, figures))
         elif kind == 'montecarlo':
             studies.append(_montecarlo_study(data, rows, figures))
+        elif kind == 'montecarlo_optimized':
+            studies.append(optimized_montecarlo_study(data, rows, figures))
         elif kind == 'targets':
             studies.append(_targets_study(data, rows, figures))
         elif kind == 'breakeven':

@@ -74,8 +74,14 @@ CAPTIONS = {
     'free-stream fan of the same thrust and pressure ratio): read where ingestion pays most; '
     'it is an upper estimate (see the assumptions).',
     'montecarlo.png': 'Distribution of the fuel-burn change over the sampled technology '
-    'inputs: the samples left of the black line are those where the turbo-electric design '
-    'wins.',
+    'inputs, analysis only (configured design point, not re-optimised): the samples left of '
+    'the black line are those where the turbo-electric design wins.',
+    'montecarlo_optimized.png': 'Distribution of the fuel-burn change of the turbo-electric '
+    'optimum against the optimised reference over the sampled technology inputs: the samples '
+    'left of the black zero line are those where the turbo-electric design wins.',
+    'montecarlo_optimized_design.png': 'Where the optimiser put each design variable over the '
+    'samples, between its bounds (dashed): a pile-up at a bound means the bound, not the '
+    'technology, holds the optimum.',
     'targets_fuel_change.png': 'Fuel-burn change of the design optimised at each target '
     'against the optimised conventional reference: blue is a saving, red a penalty; grey '
     'symbols mark optimisations without a feasible optimum and designs that did not close.',

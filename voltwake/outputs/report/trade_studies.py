@@ -1,7 +1,7 @@
 """The report sections of the trade studies: map, Monte Carlo, targets, break-even."""
 
 from ..plots import FAILED, INFEASIBLE, NOT_CLOSED, OK, point_status
-from ..summary import binding_words, input_label, pretty_units
+from ..summary import ANALYSIS_ONLY, binding_words, input_label, pretty_units
 from .html import (
     MAX_ROWS,
     NONE,
@@ -143,7 +143,8 @@ def _montecarlo_study(data, rows, figures):
             f"{_pct(stats.get('p95'))})"
         )
         sentence = (
-            f'Over the stated distributions of {_esc(names)}, the probability that the '
+            f'Analysis only (configured design point, not re-optimised): over the stated '
+            f'distributions of {_esc(names)}, the probability that the '
             f'turbo-electric design burns less fuel than the reference is {100.0 * prob:.0f} % '
             f"({samples} samples; mean change {_pct(stats.get('mean'))})."
         )
@@ -184,7 +185,7 @@ def _montecarlo_study(data, rows, figures):
             [
                 ('samples', str(samples)),
                 ('seed', str(data.get('seed', NONE))),
-                ('analysis', 'the configured design analysed at every sample (not re-optimised)'),
+                ('analysis', f'{ANALYSIS_ONLY}: the configured design analysed at every sample'),
             ]
         )
     )
@@ -192,7 +193,7 @@ def _montecarlo_study(data, rows, figures):
         body.append(f'<p class="note">{_esc(data["figures_note"])}</p>')
     return Study(
         'montecarlo',
-        'Monte Carlo',
+        f'Monte Carlo, {ANALYSIS_ONLY}',
         headline,
         _fuel_words(field, config),
         'the conventional reference as configured (not optimised)',
