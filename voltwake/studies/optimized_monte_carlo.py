@@ -23,7 +23,6 @@ from dataclasses import dataclass
 import numpy as np
 
 from ..configuration.loader import load_config
-from ..design.constraints import FEASIBILITY_TOLERANCE
 from ..design.fields import fuel_burn_field
 from ..design.optimization import optimize
 from ..errors import ConfigError, InterruptedRun, OptimizationError
@@ -115,13 +114,9 @@ def optimize_design_job(job):
             'design': {},
             'evaluations': 0,
         }
-    worst = max((c['violation'] for c in result.constraints.values()), default=0.0)
-    if result.success:
-        status = OPTIMUM
-    elif result.outputs and worst > FEASIBILITY_TOLERANCE:
-        status = INFEASIBLE
-    else:
-        status = FAILED
+    # The optimiser's own verdict: an unsuccessful run is followed by a feasibility phase
+    # that tells a design with no feasible point from an optimiser failure.
+    status = result.status
     return {
         **out,
         'status': status,
