@@ -161,6 +161,23 @@ def test_a_conventional_input_target_gets_a_reference_of_its_own():
         )
 
 
+def test_an_output_target_the_reference_shares_holds_the_reference_too():
+    # A 33 m span (below the 36 m the free optima reach) binds both aircraft: the reference
+    # is optimised at the same span, while the power saving coefficient, which only the
+    # turbo-electric model has, leaves it free.
+    sweep = target_sweep(DEMO, {'wingspan': [33.0]}, jobs=1)
+    (point,), (ref,) = sweep['points'], sweep['references']
+    assert point['success'] and ref['success'], (point['message'], ref['message'])
+    assert ref['targets'] == {'wingspan': 33.0}
+    assert ref['outputs']['wingspan_m'] == pytest.approx(33.0, rel=1e-5)
+    free = optimize(DEMO.without_aft_fan())
+    assert ref['outputs']['block_fuel_kg'] > free.outputs['block_fuel_kg']
+    fuel = ref['outputs']['block_fuel_kg']
+    assert point['fuel_burn_change_percent'] == pytest.approx(
+        100.0 * (point['block_fuel_kg'] - fuel) / fuel, rel=1e-12
+    )
+
+
 def test_fixed_config_sets_the_input_and_frees_its_design_variable():
     config = fixed_config(DEMO, {'aft_fan.thrust_fraction': 0.2})
     assert 'aft_fan.thrust_fraction' not in config.values['optimization.design_variables']

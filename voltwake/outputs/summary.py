@@ -508,7 +508,7 @@ def target_sweep_lines(res):
     else:
         lines.append(
             f'optimised reference block fuel {min(fuels):,.1f} to {max(fuels):,.1f} kg '
-            f'({len(fuels)} references, one per value of the shared inputs)'
+            f'({len(fuels)} references, one per value of the targets the reference shares)'
         )
     return lines
 

@@ -148,11 +148,7 @@ def _check_outputs(config, names, source=None):
     """
     if not names:
         return {}
-    prob = build_model_problem(config)
-    meta = prob.model.get_io_metadata(
-        iotypes='output', metadata_keys=['units'], get_remote=True, return_rel_names=False
-    )
-    units = {info['prom_name']: info['units'] for info in meta.values()}
+    units = _output_units(config)
     for name in names:
         if name not in units:
             close = difflib.get_close_matches(name, sorted(units) + input_paths(), n=1)
@@ -163,6 +159,27 @@ def _check_outputs(config, names, source=None):
                 path=name,
             )
     return {name: units[name] for name in names}
+
+
+def _output_units(config):
+    """
+    Return every output of a configuration's model with its units.
+
+    Parameters
+    ----------
+    config : Config
+        The configuration.
+
+    Returns
+    -------
+    dict
+        Promoted output name -> units (None for a dimensionless output).
+    """
+    prob = build_model_problem(config)
+    meta = prob.model.get_io_metadata(
+        iotypes='output', metadata_keys=['units'], get_remote=True, return_rel_names=False
+    )
+    return {info['prom_name']: info['units'] for info in meta.values()}
 
 
 def output_axis(config, text):
@@ -295,8 +312,10 @@ def target_sweep(config, targets, jobs=None, progress=None):
         first (usually only) reference, ``references``: all of them, each with ``targets``
         (the swept conventional inputs it is optimised at), ``success``, ``message``,
         ``outputs`` and ``design``. A reference is optimised once for every combination of
-        swept inputs that the conventional design also has (once when only aft-fan or
-        electrical inputs and outputs are swept); output targets do not apply to it.
+        swept inputs and output targets that the conventional design also has (once when
+        only aft-fan or electrical inputs, or outputs only the turbo-electric model has,
+        such as the power saving coefficient, are swept): a wingspan target holds the
+        reference at the same span, so that both aircraft obey the same rule.
         The counts by status and the constraints that bind at the infeasible points come
         from :func:`status_summary`.
     """
@@ -315,6 +334,8 @@ def target_sweep(config, targets, jobs=None, progress=None):
         grids.append(values)
     _check_outputs(config, [n for n in names if not is_config_input(n)])
     reference = config.without_aft_fan()
+    swept_outputs = [n for n in names if not is_config_input(n)]
+    shared_outputs = set(_output_units(reference)) & set(swept_outputs) if swept_outputs else set()
 
     points, ref_keys = [], {}
     for combo in itertools.product(*grids):
@@ -322,9 +343,13 @@ def target_sweep(config, targets, jobs=None, progress=None):
         inputs = {n: v for n, v in point.items() if is_config_input(n)}
         outputs = {n: v for n, v in point.items() if not is_config_input(n)}
         ref_inputs = tuple((n, v) for n, v in inputs.items() if in_reference(n, reference))
-        ref_index = ref_keys.setdefault(ref_inputs, len(ref_keys))
+        ref_outputs = tuple((n, v) for n, v in outputs.items() if n in shared_outputs)
+        ref_index = ref_keys.setdefault((ref_inputs, ref_outputs), len(ref_keys))
         points.append((point, fixed_config(config, inputs, outputs), ref_index))
-    ref_configs = [fixed_config(reference, dict(key)) if key else reference for key in ref_keys]
+    ref_configs = [
+        fixed_config(reference, dict(ins), dict(outs)) if ins or outs else reference
+        for ins, outs in ref_keys
+    ]
 
     jobs_list = [{'data': cfg.data} for cfg in ref_configs] + [
         {'data': cfg.data} for _, cfg, _ in points
@@ -336,7 +361,7 @@ def target_sweep(config, targets, jobs=None, progress=None):
 
     references = [
         {
-            'targets': dict(key),
+            'targets': {**dict(key[0]), **dict(key[1])},
             'success': res['success'],
             'status': res['status'],
             'message': res['message'],
