@@ -1103,6 +1103,13 @@ def plot_history(history, path, objective_label='objective [-]', feasibility_tol
     return _save(fig, path, {'evaluations': len(history), 'failed': failed})
 
 
+def _whole_number_ticks():
+    """Return a tick locator for counts: whole numbers only."""
+    from matplotlib.ticker import MaxNLocator
+
+    return MaxNLocator(integer=True)
+
+
 def plot_histogram(
     values,
     path,
@@ -1172,6 +1179,7 @@ def plot_histogram(
     ax.axvline(vertical_line, color='k', linewidth=2.0, label=f'break-even ({vertical_line:g} %)')
     ax.set_xlabel(x_label)
     ax.set_ylabel('samples [number]')
+    ax.yaxis.set_major_locator(_whole_number_ticks())
     ax.grid(True, axis='y', alpha=0.3)
     dropped = int(values.size - finite.size)
     if dropped:
@@ -1337,6 +1345,7 @@ def plot_value_distributions(columns, path, title):
         ax.set_xlim(lower - 0.03 * span, upper + 0.03 * span)
         ax.set_xlabel('\n'.join(textwrap.wrap(label, 34)), fontsize=9)
         ax.set_ylabel('samples', fontsize=9)
+        ax.yaxis.set_major_locator(_whole_number_ticks())
         ax.tick_params(labelsize=8)
         missing = int(values.size - finite.size)
         note = f'{at_bound} of {finite.size} at a bound'

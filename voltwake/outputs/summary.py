@@ -644,9 +644,10 @@ def optimized_monte_carlo_lines(res):
         width = max(len(p) for p in dvs)
         for path, d in dvs.items():
             shown, factor = display_units(d.get('units'))
+            unit = pretty_units(shown) if shown else '-'
             lines.append(
                 f"    {path:<{width}s}  {d['p05'] * factor:.4g} / {d['p50'] * factor:.4g} / "
-                f"{d['p95'] * factor:.4g} {shown or '-'}; {d['at_lower']} at lower, "
+                f"{d['p95'] * factor:.4g} {unit}; {d['at_lower']} at lower, "
                 f"{d['at_upper']} at upper"
             )
     return lines
