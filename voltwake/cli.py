@@ -196,6 +196,12 @@ def _parser():
         default=None,
         help='local processes for the optimisations (default: all cores)',
     )
+    p.add_argument(
+        '--chunk-size',
+        metavar='N',
+        help='points per vectorised solve of a map or Monte Carlo (default 2500); rows are '
+        'written to the CSV chunk by chunk',
+    )
     p.add_argument('--out', metavar='DIR', help='write CSV, summaries, plots and report.html')
     p.add_argument('--force', action='store_true', help='allow a non-empty --out DIR')
     p.add_argument('--json', action='store_true', help='print one JSON object at the end')
@@ -502,12 +508,15 @@ def _cmd_sweep(args):
 
     if args.jobs is not None and args.jobs < 1:
         raise errors.ConfigError(f'got {args.jobs}; expected a whole number >= 1', source='--jobs')
+    chunk_size = _chunk_size(args.chunk_size)
     config = load_config(args.config, args.overrides)
     spec = study_spec(config, args.map, args.targets, args.breakeven, args.samples, args.seed)
     root = is_root()
     out_dir = prepare_out_dir(args.out, args.force) if (args.out and root) else None
     bar = ProgressBar() if (root and not args.json) else None
-    summaries = run_sweep(config, spec, jobs=args.jobs, out_dir=out_dir, progress=bar)
+    summaries = run_sweep(
+        config, spec, jobs=args.jobs, out_dir=out_dir, progress=bar, chunk_size=chunk_size
+    )
     if not root:
         return errors.EXIT_OK
     if args.json:
@@ -517,6 +526,21 @@ def _cmd_sweep(args):
 
         print(sweep_text(summaries, out_dir))
     return errors.EXIT_OK
+
+
+def _chunk_size(text):
+    """Return the ``--chunk-size`` as an int (None when not given), or raise ConfigError."""
+    if text is None:
+        return None
+    try:
+        value = int(text)
+    except ValueError:
+        value = None
+    if value is None or value < 1:
+        raise errors.ConfigError(
+            f'got {text!r}; expected a whole number of points >= 1', source='--chunk-size'
+        )
+    return value
 
 
 def _cmd_report(args):

@@ -12,6 +12,7 @@ HTML report under ``--out``.
 import difflib
 import math
 import numbers
+import os
 from collections.abc import Mapping
 
 import numpy as np
@@ -31,6 +32,7 @@ from ..outputs.files import write_results
 from ..outputs.report import write_report
 from .breakeven import breakeven as _breakeven
 from .breakeven import technology_sensitivities
+from .chunked import chunk_size_or_error, stream_to_csv
 from .figures import study_figures as _plots  # noqa: F401 - the name earlier callers use
 from .maps import design_space_map, parse_axis
 from .maps import monte_carlo as _monte_carlo
@@ -352,7 +354,7 @@ def study_spec(config, maps=(), targets=(), breakeven=None, samples=None, seed=N
     return spec
 
 
-def run_sweep(config, spec, jobs=None, out_dir=None, progress=None):
+def run_sweep(config, spec, jobs=None, out_dir=None, progress=None, chunk_size=None):
     """
     Run every study of ``spec`` and write its outputs.
 
@@ -367,7 +369,12 @@ def run_sweep(config, spec, jobs=None, out_dir=None, progress=None):
     out_dir : str or None
         Results directory (already prepared), or None to write nothing.
     progress : callable or None
-        ``progress(done, failed, total, elapsed)`` for the optimisations.
+        ``progress(done, failed, total, elapsed)`` for the optimisations (and, in points,
+        after every chunk of a map or Monte Carlo).
+    chunk_size : int or None
+        Points per vectorised solve of a map or Monte Carlo (default
+        :data:`voltwake.studies.chunked.DEFAULT_CHUNK_SIZE`); their rows are appended to
+        the CSV under ``out_dir`` chunk by chunk.
 
     Returns
     -------
@@ -381,17 +388,30 @@ def run_sweep(config, spec, jobs=None, out_dir=None, progress=None):
             continue
         name = {'uncertainty': 'montecarlo'}.get(kind, kind)
         try:
-            result = _run_study(kind, config, spec, jobs, progress)
-        except KeyboardInterrupt:
+            result = _run_study(
+                kind, config, spec, jobs, progress, out_dir=out_dir, chunk_size=chunk_size
+            )
+        except KeyboardInterrupt as stop:
+            partial = getattr(stop, 'partial', None)
             if out_dir:
+                message = (
+                    f'interrupted by the user during the {kind} study; the '
+                    'studies before it are complete, this one has no results'
+                )
+                if partial:
+                    message = (
+                        f'interrupted by the user during the {kind} study after '
+                        f"{partial['points_done']} of {partial['points_total']} points; the "
+                        f'finished chunks are in {name}_points.csv'
+                    )
                 write_results(
                     out_dir,
                     f'{name}_summary',
                     {
                         'status': 'partial',
                         'kind': kind,
-                        'message': f'interrupted by the user during the {kind} study; the '
-                        'studies before it are complete, this one has no results',
+                        'message': message,
+                        **(partial or {}),
                         'completed_studies': list(summaries),
                     },
                 )
@@ -406,13 +426,54 @@ def run_sweep(config, spec, jobs=None, out_dir=None, progress=None):
     return summaries
 
 
-def _run_study(kind, config, spec, jobs, progress, xtol=None):
-    """Run one study of ``spec`` (values in SI) and return its result object."""
+def _points_sink(out_dir, name, config, spec, written):
+    """Return the CSV writer of a chunked study under ``out_dir`` (None without one)."""
+    if not out_dir:
+        return None
+    shown = {**written, **{f'target:{p}': u for p, u in written.items()}}
+    return stream_to_csv(os.path.join(out_dir, f'{name}_points.csv'), None, shown)
+
+
+def _run_chunked_study(kind, config, spec, jobs, progress, out_dir, chunk_size):
+    """Run a map or an analysis-only Monte Carlo in chunks, its rows streamed to CSV."""
     written = spec.get('axis_units') or {}
     if kind == 'map':
-        result = design_space_map(config, spec['map'])
-        result['axis_units'] = {p: u for p, u in written.items() if p in spec['map']}
-        return DesignMapResult.from_study(result, config)
+        written = {p: u for p, u in written.items() if p in spec['map']}
+    else:
+        unc = spec['uncertainty']
+        written = {
+            path: unit
+            for path, shape in unc['distributions'].items()
+            if isinstance(shape, Mapping)
+            for unit in [_written_units([v for params in shape.values() for v in _as_list(params)])]
+            if unit
+        }
+    name = 'map' if kind == 'map' else 'montecarlo'
+    sink = _points_sink(out_dir, name, config, spec, written)
+    options = {'chunk_size': chunk_size, 'jobs': jobs, 'progress': progress, 'sink': sink}
+    try:
+        if kind == 'map':
+            result = design_space_map(config, spec['map'], **options)
+        else:
+            result = _monte_carlo(
+                config, unc['distributions'], unc['samples'], unc['seed'], **options
+            )
+    finally:
+        if sink is not None:
+            sink.close()
+    result['axis_units'] = written
+    cls = DesignMapResult if kind == 'map' else MonteCarloResult
+    study = cls.from_study(result, config)
+    if sink is not None:
+        study.streamed = os.path.join(out_dir, f'{name}_points.csv')
+    return study
+
+
+def _run_study(kind, config, spec, jobs, progress, xtol=None, out_dir=None, chunk_size=None):
+    """Run one study of ``spec`` (values in SI) and return its result object."""
+    written = spec.get('axis_units') or {}
+    if kind in ('map', 'uncertainty'):
+        return _run_chunked_study(kind, config, spec, jobs, progress, out_dir, chunk_size)
     if kind == 'targets':
         result = _target_sweep(config, spec['targets'], jobs=jobs, progress=progress)
         result['axis_units'] = {p: u for p, u in written.items() if p in spec['targets']}
@@ -437,16 +498,7 @@ def _run_study(kind, config, spec, jobs, progress, xtol=None):
             for e in result.get('evaluations', [])
         ]
         return BreakevenResult.from_study(result, config)
-    unc = spec['uncertainty']
-    result = _monte_carlo(config, unc['distributions'], unc['samples'], unc['seed'])
-    result['axis_units'] = {
-        path: unit
-        for path, shape in unc['distributions'].items()
-        if isinstance(shape, Mapping)
-        for unit in [_written_units([v for params in shape.values() for v in _as_list(params)])]
-        if unit
-    }
-    return MonteCarloResult.from_study(result, config)
+    raise ValueError(f'unknown study kind {kind!r}')
 
 
 def _as_list(params):
@@ -498,7 +550,7 @@ def _optimum_at(config, path, value):
 # --- The studies from Python -----------------------------------------------------------------
 
 
-def design_map(config, axes, overrides=None):
+def design_map(config, axes, overrides=None, chunk_size=None, jobs=1):
     """
     Analyse a full-factorial grid of designs as one vectorised model (a design-space map).
 
@@ -518,16 +570,23 @@ def design_map(config, axes, overrides=None):
         Full factorial; the first axis varies slowest.
     overrides : dict or None
         Config key path -> value applied to the configuration first.
+    chunk_size : int or None
+        Points per vectorised solve (default
+        :data:`voltwake.studies.chunked.DEFAULT_CHUNK_SIZE`); the numbers do not depend on
+        it.
+    jobs : int or None
+        Local processes over which the chunks run (default 1; None for all cores).
 
     Returns
     -------
     DesignMapResult
         Per-point arrays with their units, the summary, ``to_csv`` and ``write``.
     """
+    chunk_size = chunk_size_or_error(chunk_size, 'chunk_size')
     config = load_config(config, overrides)
     written = {}
     spec = {'map': _axes(config, axes, 'design_map', 'map', written), 'axis_units': written}
-    return _run_study('map', config, spec, None, None)
+    return _run_study('map', config, spec, jobs, None, chunk_size=chunk_size)
 
 
 def target_sweep(config, targets, jobs=None, progress=None, overrides=None):
@@ -616,7 +675,15 @@ def breakeven(config, path, lower, upper, jobs=None, xtol=None, overrides=None):
     return _run_study('breakeven', config, spec, jobs, None, xtol)
 
 
-def monte_carlo(config=None, samples=None, seed=None, distributions=None, overrides=None):
+def monte_carlo(
+    config=None,
+    samples=None,
+    seed=None,
+    distributions=None,
+    overrides=None,
+    chunk_size=None,
+    jobs=1,
+):
     """
     Sample technology inputs and evaluate every sample as one vectorised model.
 
@@ -639,6 +706,10 @@ def monte_carlo(config=None, samples=None, seed=None, distributions=None, overri
         ``study.uncertainty.distributions``.
     overrides : dict or None
         Config key path -> value applied to the configuration first.
+    chunk_size : int or None
+        Samples per vectorised solve (see :func:`design_map`).
+    jobs : int or None
+        Local processes over which the chunks run (default 1; None for all cores).
 
     Returns
     -------
@@ -646,6 +717,7 @@ def monte_carlo(config=None, samples=None, seed=None, distributions=None, overri
         ``probability_of_win``, the statistics of the fuel-burn change, the samples as
         per-point arrays with their units, the summary, ``to_csv`` and ``write``.
     """
+    chunk_size = chunk_size_or_error(chunk_size, 'chunk_size')
     config = load_config(config, overrides)
     where = {'source': 'monte_carlo'}
     samples = None if samples is None else _study_whole(samples, 1, where)
@@ -661,7 +733,7 @@ def monte_carlo(config=None, samples=None, seed=None, distributions=None, overri
             )
         # The config's section, checked as `voltwake sweep` checks it (file, line, key).
         spec = {'uncertainty': _uncertainty_from_spec(config, study['uncertainty'], samples, seed)}
-        return _run_study('uncertainty', config, spec, None, None)
+        return _run_study('uncertainty', config, spec, jobs, None, chunk_size=chunk_size)
     if not isinstance(distributions, Mapping) or not distributions:
         raise ConfigError(
             f'got {distributions!r}; expected a mapping of config key paths to distributions',
@@ -673,7 +745,7 @@ def monte_carlo(config=None, samples=None, seed=None, distributions=None, overri
     )
     seed = _study_whole(configured.get('seed', 1), 0, where) if seed is None else seed
     spec = {'uncertainty': {'distributions': dict(distributions), 'samples': samples, 'seed': seed}}
-    return _run_study('uncertainty', config, spec, None, None)
+    return _run_study('uncertainty', config, spec, jobs, None, chunk_size=chunk_size)
 
 
 def _axes(config, axes, source, kind, written=None):
