@@ -96,7 +96,8 @@ class SizingNewtonSolver(om.NewtonSolver):
         if self._point_norm0 is None:
             self._point_norm0 = np.where(norm == 0.0, 1.0, norm)
         with np.errstate(invalid='ignore'):
-            done = (norm <= self.options['atol']) | (norm / self._point_norm0 <= self.options['rtol'])
+            relative = norm / self._point_norm0
+        done = (norm <= self.options['atol']) | (relative <= self.options['rtol'])
         dead = ~np.isfinite(norm) & ~self._frozen
         self._dead_seen = self._dead_seen or bool(dead.any())
         self._frozen |= done | dead
