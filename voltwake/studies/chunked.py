@@ -146,29 +146,28 @@ def solve_chunk(job):
     ----------
     job : dict
         ``token`` (the study), ``config``, ``columns`` (path -> this chunk's values, SI),
-        ``size`` (largest chunk), ``fields``, ``follows`` (paths the reference follows) and
-        ``reference_fields``.
+        ``size`` (largest chunk), ``fields``, ``fuel_field``, ``fixed_fuel`` (the fixed
+        reference's fuel, or None when the reference follows), ``follows`` (the paths it
+        follows), ``reference_fields`` and ``csv_factors`` (None: no CSV text wanted).
 
     Returns
     -------
     dict
-        ``inputs``, ``values`` (field -> array), ``closed``, ``reasons``, ``recovered`` and,
-        when the reference follows, ``reference`` (field -> array) and ``reference_closed``.
+        ``columns`` (the chunk's CSV columns: inputs, ``closed``, ``reason``, the fields,
+        ``fuel_burn_change_percent`` and, when the reference follows, ``reference_*``),
+        ``recovered`` and ``csv`` (the chunk's CSV rows, formatted here so that the
+        formatting runs in parallel too; None when not wanted).
     """
+    from .maps import csv_lines
+
     design, reference = _batches(job)
     batch = design.solve(job['columns'])
-    out = {
-        'inputs': batch.inputs,
-        'values': batch.values,
-        'closed': batch.closed,
-        'reasons': batch.reasons,
-        'recovered': batch.recovered,
-    }
+    ref = None
     if reference is not None:
         ref = reference.solve({p: job['columns'][p] for p in job['follows']})
-        out['reference'] = ref.values
-        out['reference_closed'] = ref.closed
-    return out
+    columns = _chunk_columns(batch, ref, list(job['columns']), job['fuel_field'], job['fixed_fuel'])
+    text = None if job['csv_factors'] is None else csv_lines(columns, job['csv_factors'])
+    return {'columns': columns, 'recovered': batch.recovered, 'csv': text}
 
 
 def release_batches():
@@ -209,8 +208,9 @@ def run_chunks(
     progress : callable or None
         ``progress(done, not_closed, total, elapsed)`` in points, after every chunk.
     sink : callable or None
-        ``sink(chunk_columns)`` with the columns of every chunk, in point order (e.g. to
-        append them to the CSV file).
+        ``sink(chunk_columns, text)`` with the columns of every chunk and their CSV rows,
+        in point order (:func:`stream_to_csv`); its ``factors`` are those of the axes
+        shown in the units the user wrote them in.
 
     Returns
     -------
@@ -236,6 +236,9 @@ def run_chunks(
             'fields': fields,
             'follows': follows,
             'reference_fields': reference_fields,
+            'fuel_field': fuel_field,
+            'fixed_fuel': None if follows else float(fixed_reference[fuel_field]),
+            'csv_factors': None if sink is None else sink.factors(paths),
         }
         for start, stop in bounds
     ]
@@ -246,13 +249,13 @@ def run_chunks(
     stream = stream_jobs(solve_chunk, jobs_list, jobs)
     try:
         for chunk in stream:
-            part = _chunk_columns(chunk, paths, fields, fuel_field, fixed_reference, follows)
+            part = chunk['columns']
             if sink is not None:
-                sink(part)
+                sink(part, chunk['csv'])
             parts.append(part)
-            count = len(chunk['closed'])
+            count = len(part['closed'])
             done += count
-            not_closed += int(count - np.count_nonzero(chunk['closed']))
+            not_closed += int(count - np.count_nonzero(part['closed']))
             recovered += chunk['recovered']
             if progress is not None:
                 progress(done, not_closed, total, time.monotonic() - begin)
@@ -268,34 +271,34 @@ def run_chunks(
     return {'columns': merged, 'follows': follows, 'recovered': recovered, 'total': total}
 
 
-def _chunk_columns(chunk, paths, fields, fuel_field, fixed_reference, follows):
+def _chunk_columns(batch, ref, paths, fuel_field, fixed_fuel):
     """Return the CSV columns of one chunk: inputs, closed, reason, fields, change, reference."""
-    closed = np.asarray(chunk['closed'], dtype=bool)
+    closed = np.asarray(batch.closed, dtype=bool)
     reason = np.empty(closed.size, dtype=object)
-    reason[:] = [r or '' for r in chunk['reasons']]
-    out = {p: np.asarray(chunk['inputs'][p], dtype=float) for p in paths}
+    reason[:] = [r or '' for r in batch.reasons]
+    out = {p: np.asarray(batch.inputs[p], dtype=float) for p in paths}
     out['closed'] = closed
     out['reason'] = reason
-    for key in chunk['values']:
-        out[key] = np.asarray(chunk['values'][key], dtype=float)
+    for key in batch.values:
+        out[key] = np.asarray(batch.values[key], dtype=float)
     fuel = out[fuel_field]
-    if follows:
-        ref = np.asarray(chunk['reference'][fuel_field], dtype=float)
-        ref_closed = np.asarray(chunk['reference_closed'], dtype=bool)
-        usable = closed & ref_closed
+    if ref is not None:
+        reference = np.asarray(ref.values[fuel_field], dtype=float)
+        usable = closed & ref.closed
     else:
-        ref = np.full(closed.size, float(fixed_reference[fuel_field]))
+        reference = np.full(closed.size, float(fixed_fuel))
         usable = closed
     with np.errstate(all='ignore'):
-        out['fuel_burn_change_percent'] = np.where(usable, 100.0 * (fuel - ref) / ref, np.nan)
-    if follows:
-        for key in chunk['reference']:
-            out[f'reference_{key}'] = np.asarray(chunk['reference'][key], dtype=float)
-        out['reference_closed'] = np.asarray(chunk['reference_closed'], dtype=bool)
+        change = 100.0 * (fuel - reference) / reference
+    out['fuel_burn_change_percent'] = np.where(usable, change, np.nan)
+    if ref is not None:
+        for key in ref.values:
+            out[f'reference_{key}'] = np.asarray(ref.values[key], dtype=float)
+        out['reference_closed'] = np.asarray(ref.closed, dtype=bool)
     return out
 
 
-def stream_to_csv(path, units, shown):
+def stream_to_csv(path, units=None, shown=None):
     """
     Return a sink that appends every chunk's rows to the CSV file ``path`` (header first).
 
@@ -305,30 +308,36 @@ def stream_to_csv(path, units, shown):
         The CSV file (created; its directory exists).
     units : dict or None
         Column -> units overriding the known ones, for the header.
-    shown : dict
+    shown : dict or None
         Column -> the unit the user wrote that axis in (see
         :func:`voltwake.studies.maps.points_csv`).
 
     Returns
     -------
     callable
-        ``sink(chunk_columns)``; its ``close()`` closes the file.
+        ``sink(chunk_columns, text=None)`` (``text``: the chunk's rows already formatted);
+        ``sink.factors(columns)`` gives the factors of the shown axes and ``sink.close()``
+        closes the file.
     """
     from .maps import csv_header, csv_lines
 
-    state = {'handle': None, 'factors': None}
+    state = {'handle': None}
 
-    def sink(part):
+    def factors(columns):
+        return csv_header(list(columns), units, shown)[1]
+
+    def sink(part, text=None):
+        header, scale = csv_header(list(part), units, shown)
         if state['handle'] is None:
-            header, state['factors'] = csv_header(list(part), units, shown)
             state['handle'] = open(path, 'w', newline='', encoding='utf-8')
             state['handle'].write(header)
-        state['handle'].write(csv_lines(part, state['factors']))
+        state['handle'].write(csv_lines(part, scale) if text is None else text)
         state['handle'].flush()
 
     def close():
         if state['handle'] is not None:
             state['handle'].close()
 
+    sink.factors = factors
     sink.close = close
     return sink

@@ -383,12 +383,16 @@ def csv_lines(columns, factors=None):
     factors = factors or {}
     cells = []
     for column, values in columns.items():
-        values = np.asarray(values).tolist()
+        values = np.asarray(values)
         if column in factors:
             factor = factors[column]
-            cells.append([_cell(float(f'{v * factor:.12g}')) for v in values])
+            cells.append([_cell(float(f'{v * factor:.12g}')) for v in values.tolist()])
+        elif values.dtype.kind in 'fb' and values.size:
+            # repr of a list formats its floats and flags as _cell does ('nan', shortest
+            # round trip, 'True'), all at once.
+            cells.append(repr(values.tolist())[1:-1].split(', '))
         else:
-            cells.append([_cell(v) for v in values])
+            cells.append([_cell(v) for v in values.tolist()])
     buf = io.StringIO()
     csv.writer(buf, lineterminator='\n').writerows(zip(*cells))
     return buf.getvalue()
