@@ -19,6 +19,7 @@ from ..design.batch import full_factorial
 from ..design.fields import fuel_burn_field
 from ..errors import ConfigError
 from .chunked import reference_follows, run_chunks
+from .parallel import on_this_process
 
 #: Fields written for every point of a study, with their units for the CSV header.
 POINT_FIELDS = {
@@ -147,7 +148,8 @@ def _run_chunked(config, columns, chunk_size, jobs, progress, sink):
     """Run a map or Monte Carlo in chunks; return its points and reference entries."""
     field = fuel_burn_field(config)
     follows = reference_follows(config, list(columns))
-    reference = None if follows else _reference(config)
+    with on_this_process():
+        reference = None if follows else _reference(config)
     run = run_chunks(
         config,
         columns,

@@ -210,6 +210,26 @@ def stream_jobs(func, items, jobs=None):
         pool.shutdown(wait=True, cancel_futures=True)
 
 
+def on_this_process():
+    """
+    Return a context in which OpenMDAO problems built here stay on this process.
+
+    Under MPI a problem built without a communicator takes ``MPI.COMM_WORLD`` (every rank);
+    a problem that each rank builds for itself, such as the reference of a map, needs its
+    own. Without MPI the context does nothing.
+
+    Returns
+    -------
+    contextlib.AbstractContextManager
+        The context.
+    """
+    if mpi_comm() is None:
+        return contextlib.nullcontext()
+    from mpi4py import MPI
+
+    return _problems_on_this_rank(MPI)
+
+
 def _stream_mpi(comm, func, items):
     """Run this rank's share of the items; rank 0 yields every result in item order."""
     from mpi4py import MPI

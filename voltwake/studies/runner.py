@@ -415,8 +415,14 @@ def run_sweep(config, spec, jobs=None, out_dir=None, progress=None, chunk_size=N
                         'completed_studies': list(summaries),
                     },
                 )
+            after = (
+                f" after {partial['points_done']} of {partial['points_total']} points"
+                if partial
+                else ''
+            )
             raise InterruptedRun(
-                f'sweep interrupted during the {kind} study', {'completed_studies': list(summaries)}
+                f'sweep interrupted during the {kind} study{after}',
+                {'completed_studies': list(summaries)},
             ) from None
         summaries[name] = result.data
         if out_dir:
