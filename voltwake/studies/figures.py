@@ -123,7 +123,8 @@ def _study_figures(kind, result, out_dir, config):
     rows = result.get('points') or []
     try:
         axes = result.get('axes') or result.get('target_axes')
-        if kind in ('map', 'targets') and axes and len(axes) == 2:
+        grid = axes and len(axes) == 2 and all(len(v) >= 2 for v in axes.values())
+        if kind in ('map', 'targets') and grid:
             x, y, z, closed, ok = _grid_arrays(axes, rows, 'fuel_burn_change_percent')
             paths = list(axes)
             feasible = ok if kind == 'targets' else None

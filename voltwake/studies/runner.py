@@ -558,11 +558,13 @@ def _optimum_at(config, path, value):
 
 def design_map(config, axes, overrides=None, chunk_size=None, jobs=1):
     """
-    Analyse a full-factorial grid of designs as one vectorised model (a design-space map).
+    Analyse a full-factorial grid of designs in vectorised chunks (a design-space map).
 
     The same study as ``voltwake sweep --map``: every point is sized (analysis only, no
-    optimisation) and compared with the conventional reference as configured; points that
-    do not close keep their row with the reason.
+    optimisation) and compared with the conventional reference as configured, or, when an
+    axis is an input the reference shares (``mission.range``...), with the reference at that
+    point's values (``reference_follows`` in the summary); points that do not close keep
+    their row with the reason.
 
     Parameters
     ----------
@@ -691,7 +693,7 @@ def monte_carlo(
     jobs=1,
 ):
     """
-    Sample technology inputs and evaluate every sample as one vectorised model.
+    Sample technology inputs and evaluate the samples in vectorised chunks.
 
     The same study as ``voltwake sweep --monte-carlo``: the distribution of the fuel-burn
     change against the conventional reference as configured, and the probability that the
