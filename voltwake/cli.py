@@ -194,7 +194,8 @@ def _parser():
         '--jobs',
         type=int,
         default=None,
-        help='local processes for the optimisations (default: all cores)',
+        help='local processes for the optimisations and the chunks of a map or Monte Carlo '
+        '(default: all cores)',
     )
     p.add_argument(
         '--chunk-size',
