@@ -143,8 +143,8 @@ def main():
         f"{'points':>8} {'jobs':>4} {'wall [s]':>9} {'peak RSS [MB]':>14} "
         f"{'us/point above 4-pt run':>24} {'exit':>5}"
     )
-    for points, jobs, wall, rss, code in rows:
-        per = '' if wall is rows[0][2] else f'{1e6 * (wall - base) / points:.0f}'
+    for index, (points, jobs, wall, rss, code) in enumerate(rows):
+        per = f'{1e6 * (wall - base) / points:.0f}' if index else ''
         print(f'{points:>8} {jobs:>4} {wall:>9.1f} {rss:>14.0f} {per:>24} {code:>5}')
     points = big * big
     per2 = 1e6 * (wall2 - base) / points
