@@ -311,7 +311,9 @@ class PointBatch:
         self.paths = list(paths)
         self.aft = config.has_aft_fan
         self.names = _field_names(config, field_names)
-        values = config.values
+        # The configured values, checked as inputs of this design (a path the design does
+        # not have is refused by _targets before its value is read).
+        values = {p: config.values.get(p, 0.0) for p in self.paths}
         targets, _ = _targets(config, {p: np.full(self.size, values[p]) for p in self.paths})
         self.prob, self.base = _setup(config, targets, self.size)
         _set(self.prob, targets, np.ones(self.size), self.base, np.ones(self.size, dtype=bool))

@@ -367,7 +367,9 @@ class DesignMapResult(StudyResult):
 
     ``points`` holds the axes' inputs, ``closed`` and ``reason`` per point, the result
     fields (``block_fuel_kg``, ``power_saving_coefficient``...) and
-    ``fuel_burn_change_percent`` against the conventional reference as configured.
+    ``fuel_burn_change_percent`` against the conventional reference as configured, or,
+    when an axis is an input the reference shares (:attr:`reference_follows`), against the
+    reference at each point's values (``reference_block_fuel_kg``, ``reference_closed``).
     """
 
     name = 'map'
@@ -384,8 +386,13 @@ class DesignMapResult(StudyResult):
 
     @property
     def reference(self):
-        """Result fields of the analysed conventional reference."""
+        """Result fields of the analysed conventional reference (None when it follows)."""
         return self.data['reference']
+
+    @property
+    def reference_follows(self):
+        """Inputs of the map the reference shares and is analysed at, point by point."""
+        return list(self.data.get('reference_follows') or [])
 
 
 @dataclass(repr=False, eq=False)
@@ -468,3 +475,8 @@ class MonteCarloResult(StudyResult):
     def fuel_burn_change_percent(self):
         """``mean``, ``std``, ``p05``, ``p50``, ``p95`` of the fuel-burn change [%]."""
         return self.data['fuel_burn_change_percent']
+
+    @property
+    def reference_follows(self):
+        """Sampled inputs the reference shares and is analysed at, sample by sample."""
+        return list(self.data.get('reference_follows') or [])
