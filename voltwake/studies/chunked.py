@@ -20,6 +20,8 @@ import numpy as np
 
 from ..configuration.loader import field_at
 from ..design.batch import PointBatch
+from .csv_table import csv_header, csv_lines
+from .parallel import stream_jobs
 
 #: Default points per chunk. Measured on the demo's 100 x 100 map (2 cores, shared; the
 #: model re-used from chunk to chunk): 1,000 points 535 us per point and 285 MB peak
@@ -158,8 +160,6 @@ def solve_chunk(job):
         ``recovered`` and ``csv`` (the chunk's CSV rows, formatted here so that the
         formatting runs in parallel too; None when not wanted).
     """
-    from .maps import csv_lines
-
     design, reference = _batches(job)
     batch = design.solve(job['columns'])
     ref = None
@@ -215,8 +215,9 @@ def run_chunks(
     Returns
     -------
     dict
-        ``columns`` (column -> array over the points done, CSV order), ``follows``,
-        ``recovered``, ``reference_closed_count`` (when the reference follows).
+        ``columns`` (column -> array, one value per point, in CSV order), ``follows`` (the
+        inputs the reference follows), ``recovered`` (points closed by continuation) and
+        ``total`` (points).
     """
     chunk_size = chunk_size_or_error(chunk_size, 'chunk_size')
     paths = list(columns)
@@ -242,8 +243,6 @@ def run_chunks(
         }
         for start, stop in bounds
     ]
-    from .parallel import stream_jobs
-
     parts, done, not_closed, recovered = [], 0, 0, 0
     begin = time.monotonic()
     stream = stream_jobs(solve_chunk, jobs_list, jobs)
@@ -319,8 +318,6 @@ def stream_to_csv(path, units=None, shown=None):
         ``sink.factors(columns)`` gives the factors of the shown axes and ``sink.close()``
         closes the file.
     """
-    from .maps import csv_header, csv_lines
-
     state = {'handle': None}
 
     def factors(columns):
