@@ -18,11 +18,21 @@ from openmdao.solvers.linear.direct import format_singular_error
 
 class SizingNewtonSolver(om.NewtonSolver):
     """
-    Newton's method that keeps the last state in which every output was finite.
+    Newton's method that keeps the last finite state and converges design points one by one.
 
     When a solve diverges to non-finite values, the state it leaves behind says nothing about
     why; the last finite state (``last_finite_state``) does, and the caller can restore it
     with :meth:`restore_last_finite` before diagnosing the design.
+
+    In a vectorised model (``vec_size`` > 1, every variable one value per point) the design
+    points are independent, so each point gets its own convergence test: the point's residual
+    norm against ``atol`` and against ``rtol`` times its own initial norm, the test a
+    one-point model applies to its whole residual. A point that passes is frozen: it takes no
+    further step while the others iterate, and a point whose residual is not finite stops
+    too. Every point's answer is then the one it would get alone, whatever its neighbours
+    (how many there are, how fast they converge): a map solved in chunks gives the numbers of
+    one solve. Points listed in ``held_points`` (set by the caller, e.g. points that closed
+    in an earlier solve of the same problem) are frozen from the start.
 
     Parameters
     ----------
@@ -33,14 +43,77 @@ class SizingNewtonSolver(om.NewtonSolver):
     def __init__(self, **kwargs):
         super().__init__(**kwargs)
         self.last_finite_state = None
+        self.held_points = None
+        self._frozen = None
+        self._point_norm0 = None
+        self._dead_seen = False
+        self._points_of = None
+
+    def _point_count(self):
+        """Design points of a pointwise solve, or None for a solve of the whole vector."""
+        system = self._system()
+        if system.under_complex_step or 'vec_size' not in system.options:
+            return None
+        points = system.options['vec_size']
+        if points < 2:
+            return None
+        key = (id(system._outputs), points)
+        if self._points_of is None or self._points_of[0] != key:
+            sizes = [flat.size for _, flat in system._outputs._abs_item_iter()]
+            self._points_of = (key, all(size == points for size in sizes))
+        return points if self._points_of[1] else None
 
     def _iter_initialize(self):
         self.last_finite_state = None
+        points = self._point_count()
+        self._point_norm0 = None
+        self._frozen = None
+        self._dead_seen = False
+        if points is not None:
+            held = self.held_points
+            self._frozen = (
+                np.zeros(points, dtype=bool)
+                if held is None or len(held) != points
+                else np.array(held, dtype=bool)
+            )
         out = super()._iter_initialize()
         self._keep_if_finite()
         return out
 
+    def _iter_get_norm(self):
+        """
+        Return the residual norm, or in a pointwise solve a flag for the loop of the solver.
+
+        Pointwise: 1.0 while a point still iterates, 0.0 when every point has converged,
+        NaN when every point has stopped and one of them on a non-finite residual.
+        """
+        if self._frozen is None:
+            return super()._iter_get_norm()
+        points = self._frozen.size
+        res = self._system()._residuals.asarray().reshape(-1, points)
+        with np.errstate(all='ignore'):
+            norm = np.sqrt(np.sum(np.abs(res) ** 2, axis=0))
+        if self._point_norm0 is None:
+            self._point_norm0 = np.where(norm == 0.0, 1.0, norm)
+        with np.errstate(invalid='ignore'):
+            relative = norm / self._point_norm0
+        done = (norm <= self.options['atol']) | (relative <= self.options['rtol'])
+        dead = ~np.isfinite(norm) & ~self._frozen
+        self._dead_seen = self._dead_seen or bool(dead.any())
+        self._frozen |= done | dead
+        if not self._frozen.all():
+            return 1.0
+        return np.nan if self._dead_seen else 0.0
+
     def _single_iteration(self):
+        frozen = self._frozen if self._frozen is not None and self._frozen.any() else None
+        if frozen is not None:
+            system = self._system()
+            points = frozen.size
+            outputs = system._outputs.asarray().reshape(-1, points)
+            kept = outputs[:, frozen].copy()
+            # No step for a frozen point: a zero right-hand side, its outputs put back after.
+            system._residuals.asarray().reshape(-1, points)[:, frozen] = 0.0
         try:
             super()._single_iteration()
         except RuntimeError as err:
@@ -49,6 +122,9 @@ class SizingNewtonSolver(om.NewtonSolver):
             raise AnalysisError(
                 f"Solver '{self.SOLVER}' on system '{self._system().pathname}': {err}"
             ) from None
+        finally:
+            if frozen is not None:
+                system._outputs.asarray().reshape(-1, points)[:, frozen] = kept
         self._keep_if_finite()
 
     def _keep_if_finite(self):

@@ -83,13 +83,13 @@ def test_a_single_analysis_far_from_the_start_closes_by_continuation():
 
 def test_map_rows_and_csv_units():
     result = design_space_map(TURBO_ELECTRIC, {'aft_fan.thrust_fraction': [0.1, 0.2]})
-    rows = result['points']
+    points = result['points']  # column -> array
     ref = result['reference']['block_fuel_kg']
-    for row in rows:
-        assert row['fuel_burn_change_percent'] == pytest.approx(
-            100 * (row['block_fuel_kg'] - ref) / ref, rel=1e-12
-        )
-    text = points_csv(rows)
+    assert result['reference_follows'] == []  # a technology input: one fixed reference
+    assert points['fuel_burn_change_percent'] == pytest.approx(
+        100 * (points['block_fuel_kg'] - ref) / ref, rel=1e-12
+    )
+    text = points_csv(points)
     header = next(csv.reader(text.splitlines()))
     assert 'block_fuel_kg [kg]' in header and 'fuel_burn_change_percent [%]' in header
     assert 'aft_fan.thrust_fraction [-]' in header
@@ -102,11 +102,13 @@ def test_monte_carlo_is_reproducible_and_consistent():
     }
     one = monte_carlo(TURBO_ELECTRIC, dists, samples=40, seed=7)
     two = monte_carlo(TURBO_ELECTRIC, dists, samples=40, seed=7)
-    assert one['points'] == two['points']
-    change = np.array([r['fuel_burn_change_percent'] for r in one['points']])
+    assert list(one['points']) == list(two['points'])
+    for column, values in one['points'].items():
+        assert values.tolist() == two['points'][column].tolist(), column
+    change = one['points']['fuel_burn_change_percent']
     assert one['probability_of_win'] == pytest.approx(np.mean(change < 0))
     assert one['fuel_burn_change_percent']['mean'] == pytest.approx(change.mean())
-    speeds = np.array([r['electrical.motor.specific_power'] for r in one['points']])
+    speeds = one['points']['electrical.motor.specific_power']
     assert 5e3 <= speeds.min() and speeds.max() <= 20e3
     # More specific power -> less fuel, sample by sample at equal motor efficiency (trend).
     order = np.argsort(speeds)

@@ -223,7 +223,14 @@ def _parser():
         '--jobs',
         type=int,
         default=None,
-        help='local processes for the optimisations (default: all cores)',
+        help='local processes for the optimisations and the chunks of a map or Monte Carlo '
+        '(default: all cores)',
+    )
+    p.add_argument(
+        '--chunk-size',
+        metavar='N',
+        help='points per vectorised solve of a map or Monte Carlo (default 2500); rows are '
+        'written to the CSV chunk by chunk',
     )
     p.add_argument('--out', metavar='DIR', help='write CSV, summaries, plots and report.html')
     p.add_argument('--force', action='store_true', help='allow a non-empty --out DIR')
@@ -534,6 +541,7 @@ def _cmd_sweep(args):
 
     if args.jobs is not None and args.jobs < 1:
         raise errors.ConfigError(f'got {args.jobs}; expected a whole number >= 1', source='--jobs')
+    chunk_size = _chunk_size(args.chunk_size)
     config = load_config(args.config, args.overrides)
     spec = study_spec(
         config, args.map, args.targets, args.breakeven, args.samples, args.seed, args.optimize
@@ -541,7 +549,9 @@ def _cmd_sweep(args):
     root = is_root()
     out_dir = prepare_out_dir(args.out, args.force) if (args.out and root) else None
     bar = ProgressBar() if (root and not args.json) else None
-    summaries = run_sweep(config, spec, jobs=args.jobs, out_dir=out_dir, progress=bar)
+    summaries = run_sweep(
+        config, spec, jobs=args.jobs, out_dir=out_dir, progress=bar, chunk_size=chunk_size
+    )
     if not root:
         return errors.EXIT_OK
     # No break-even in the interval: its answer is the one error line (exit 7), not also
@@ -586,6 +596,21 @@ def _sweep_exit_code(summaries):
         )
         return errors.EXIT_INFEASIBLE
     return errors.EXIT_OK
+
+
+def _chunk_size(text):
+    """Return the ``--chunk-size`` as an int (None when not given), or raise ConfigError."""
+    if text is None:
+        return None
+    try:
+        value = int(text)
+    except ValueError:
+        value = None
+    if value is None or value < 1:
+        raise errors.ConfigError(
+            f'got {text!r}; expected a whole number of points >= 1', source='--chunk-size'
+        )
+    return value
 
 
 def _cmd_report(args):

@@ -14,6 +14,7 @@ from openmdao.core.analysis_error import AnalysisError
 
 from ..configuration.loader import _check_field, absent_input_hint, field_at, load_config
 from ..errors import ConfigError
+from ..models.solvers import SizingNewtonSolver
 from .fields import AFT_FAN_FIELDS, ECONOMIC_FIELDS, FIELDS, read_field_arrays
 from .sizing import build_model_problem, closure_reasons
 
@@ -98,13 +99,24 @@ def _point_residuals(prob):
     return worst
 
 
-def _solve(prob, aft_fan):
+def _hold(prob, held):
+    """Freeze ``held`` points in every pointwise Newton solve of the model (None: none)."""
+    for system in prob.model.system_iter(include_self=True, recurse=True):
+        solver = system.nonlinear_solver
+        if isinstance(solver, SizingNewtonSolver):
+            solver.held_points = held
+
+
+def _solve(prob, aft_fan, held=None):
     """Run the model; return per-point converged flags, reasons and broken flags."""
+    _hold(prob, held)
     try:
         with np.errstate(all='ignore'):
             prob.run_model()
     except AnalysisError:
         pass
+    finally:
+        _hold(prob, None)
     reasons = closure_reasons(prob, aft_fan)
     residual = _point_residuals(prob)
     broken = ~np.isfinite(residual) | np.array([r is not None for r in reasons])
@@ -137,14 +149,19 @@ def _isolate(prob, aft_fan, targets, fraction, base, active, fallback=None):
     """
     Solve, setting failing points back until the rest converge.
 
-    Failing points are set back to ``fallback`` (default: the base design).
+    Failing points are set back to ``fallback`` (default: the base design). Every solve
+    after the first holds the points that converged (and, with a ``fallback``, the points
+    set back to it with the states they started from, converged there) and points that are
+    not ``active``: each point's answer is that of its own Newton iterations, whichever
+    neighbours failed.
     """
     size = len(fraction)
     start = {name: flat.copy() for name, flat in prob.model.sizing._outputs._abs_item_iter()}
     failed = np.zeros(size, dtype=bool)
     reasons = [None] * size
+    held = ~active
     for _ in range(size + 1):
-        ok, why, broken = _solve(prob, aft_fan)
+        ok, why, broken = _solve(prob, aft_fan, held)
         # Points that are plainly broken (NaN, no thrust, ...) stop the Newton solve of all:
         # set them aside first; only then is a point that merely did not converge failed.
         bad = broken & active & ~failed
@@ -159,8 +176,13 @@ def _isolate(prob, aft_fan, targets, fraction, base, active, fallback=None):
         frac[failed] = 0.0 if fallback is None else fallback[failed]
         _set(prob, targets, frac, base, failed)
         good = np.flatnonzero(ok & ~failed)
-        _reset_states(prob, failed, good[0] if good.size else None, start)
-    return failed | (~_solve(prob, aft_fan)[0] & active), reasons
+        if fallback is None:
+            _reset_states(prob, failed, good[0] if good.size else None, start)
+            held = ~active | (ok & ~failed)
+        else:
+            _reset_states(prob, failed, None, start)
+            held = ~active | (ok & ~failed) | failed
+    return failed | (~_solve(prob, aft_fan, held)[0] & active), reasons
 
 
 def _setup(config, targets, size):
@@ -252,6 +274,105 @@ def close_by_continuation(config):
     return (prob, None) if closed[0] else (None, reasons[0])
 
 
+def _field_names(config, field_names):
+    """Return the result fields of a batch: those asked for, or every analysis field."""
+    names = field_names or list(FIELDS) + list(AFT_FAN_FIELDS)
+    if field_names is None and config.has_economic_mission:
+        names = names + list(ECONOMIC_FIELDS)
+    return list(names)
+
+
+class PointBatch:
+    """
+    One vectorised model of ``size`` design points, solved again for chunk after chunk.
+
+    Building and setting up the model (and the first assembly of its Jacobian) costs about
+    as much as solving a thousand points; a map solved in chunks builds it once per process
+    and, for every chunk, puts back the starting states the model had after set-up, sets the
+    chunk's inputs and solves. A chunk of fewer points is padded with the base design
+    (every point converges on its own: see :class:`voltwake.models.solvers.SizingNewtonSolver`,
+    so the padding changes nothing of the others).
+
+    Parameters
+    ----------
+    config : Config, dict, str or None
+        The base configuration; every point starts from it.
+    paths : sequence of str
+        The dotted config paths that vary from point to point.
+    size : int
+        Points of the model (the largest chunk).
+    field_names : list of str or None
+        Result fields to return (default: every analysis field).
+    """
+
+    def __init__(self, config, paths, size, field_names=None):
+        self.config = config = load_config(config)
+        self.size = int(size)
+        self.paths = list(paths)
+        self.aft = config.has_aft_fan
+        self.names = _field_names(config, field_names)
+        # The configured values, checked as inputs of this design (a path the design does
+        # not have is refused by _targets before its value is read).
+        values = {p: config.values.get(p, 0.0) for p in self.paths}
+        targets, _ = _targets(config, {p: np.full(self.size, values[p]) for p in self.paths})
+        self.prob, self.base = _setup(config, targets, self.size)
+        _set(self.prob, targets, np.ones(self.size), self.base, np.ones(self.size, dtype=bool))
+        self.prob.final_setup()
+        self._start = self.prob.model._outputs.asarray(copy=True)
+
+    def solve(self, columns):
+        """
+        Analyse the points of ``columns`` (at most ``size`` of them).
+
+        Parameters
+        ----------
+        columns : dict
+            Dotted config path (those of ``paths``) -> 1-D sequence of values (SI), one per
+            point (all of equal length).
+
+        Returns
+        -------
+        BatchResult
+            Inputs, result fields (NaN where a point did not close), closure flags and
+            reasons.
+        """
+        config, prob, size = self.config, self.prob, self.size
+        targets, count = _targets(config, {p: columns[p] for p in self.paths})
+        if count > size:
+            raise ValueError(f'{count} points for a batch of {size}')
+        padded = {
+            path: (target, units, np.concatenate([arr, np.full(size - count, self.base[target])]))
+            for path, (target, units, arr) in targets.items()
+        }
+        prob.model._outputs.set_val(self._start)
+        every = np.ones(size, dtype=bool)
+        _set(prob, padded, np.ones(size), self.base, every)
+        failed, reasons = _isolate(prob, self.aft, padded, np.ones(size), self.base, every)
+        values = {
+            key: arr[:count].copy()
+            for key, arr in read_field_arrays(prob, self.aft, self.names).items()
+        }
+        failed, reasons = failed[:count], reasons[:count]
+        recovered = 0
+        if failed.any():
+            idx = np.flatnonzero(failed)
+            sub = {path: (t, u, arr[idx]) for path, (t, u, arr) in targets.items()}
+            closed, why, sub_values, _ = _continue(config, sub, self.names)
+            for j, i in enumerate(idx):
+                if closed[j]:
+                    failed[i] = False
+                    reasons[i] = None
+                    recovered += 1
+                    for key in self.names:
+                        values[key][i] = sub_values[key][j]
+                else:
+                    reasons[i] = why[j] or reasons[i]
+        for key in self.names:
+            values[key][failed] = np.nan
+        inputs = {path: arr for path, (_, _, arr) in targets.items()}
+        return BatchResult(inputs, values, ~failed, reasons, recovered)
+
+
 def analyze_points(config, columns, field_names=None):
     """
     Analyse many designs in one vectorised model.
@@ -271,35 +392,8 @@ def analyze_points(config, columns, field_names=None):
         Inputs, result fields (NaN where a point did not close), closure flags and reasons.
     """
     config = load_config(config)
-    targets, size = _targets(config, columns)
-    aft = config.has_aft_fan
-    names = field_names or list(FIELDS) + list(AFT_FAN_FIELDS)
-    if field_names is None and config.has_economic_mission:
-        names = names + list(ECONOMIC_FIELDS)
-    prob, base = _setup(config, targets, size)
-    every = np.ones(size, dtype=bool)
-    _set(prob, targets, np.ones(size), base, every)
-    prob.final_setup()
-    failed, reasons = _isolate(prob, aft, targets, np.ones(size), base, every)
-    values = read_field_arrays(prob, aft, names)
-    recovered = 0
-    if failed.any():
-        idx = np.flatnonzero(failed)
-        sub = {path: (t, u, arr[idx]) for path, (t, u, arr) in targets.items()}
-        closed, why, sub_values, _ = _continue(config, sub, names)
-        for j, i in enumerate(idx):
-            if closed[j]:
-                failed[i] = False
-                reasons[i] = None
-                recovered += 1
-                for key in names:
-                    values[key][i] = sub_values[key][j]
-            else:
-                reasons[i] = why[j] or reasons[i]
-    for key in names:
-        values[key][failed] = np.nan
-    inputs = {path: arr for path, (_, _, arr) in targets.items()}
-    return BatchResult(inputs, values, ~failed, reasons, recovered)
+    _, size = _targets(config, columns)
+    return PointBatch(config, list(columns), size, field_names).solve(columns)
 
 
 def full_factorial(axes):

@@ -433,6 +433,7 @@ def sweep_text(summaries, out_dir=None):
                 f"{100 * res['closure_rate']:.2f}% of the points closed "
                 f"({res.get('recovered', 0)} by continuation)"
             )
+            lines.append(_reference_line(res))
         elif name == 'targets':
             lines += target_sweep_lines(res)
         elif name == 'breakeven':
@@ -462,6 +463,7 @@ def sweep_text(summaries, out_dir=None):
                 f"{stats.get('p95', float('nan')):+.3f}%), probability that the "
                 f"turbo-electric design wins {100 * res['probability_of_win']:.1f}%"
             )
+            lines.append(_reference_line(res))
     if out_dir:
         lines.append(f'results written to {out_dir}')
     lines.append(CAUTION)
@@ -651,6 +653,36 @@ def optimized_monte_carlo_lines(res):
                 f"{d['at_upper']} at upper"
             )
     return lines
+
+
+def _reference_line(res):
+    """
+    Say what a map or Monte Carlo was compared with: one fixed reference, or one per point.
+
+    Parameters
+    ----------
+    res : dict
+        The study's summary (``reference_follows``, ``reference``).
+
+    Returns
+    -------
+    str
+        One line.
+    """
+    follows = res.get('reference_follows') or []
+    if follows:
+        rate = res.get('reference_closure_rate')
+        closed = '' if rate is None else f' ({100 * rate:.2f}% of the references closed)'
+        return (
+            f"reference: re-analysed at every point, following {', '.join(follows)}{closed}; "
+            'each point is compared with its own reference'
+        )
+    ref = res.get('reference') or {}
+    field = res.get('fuel_burn_measured_on') or 'block_fuel_kg'
+    fuel = ref.get(field)
+    shown = f'{fuel:,.1f} kg' if isinstance(fuel, (int, float)) else 'n/a'
+    words = 'economic-mission block fuel' if field == 'economic_block_fuel_kg' else 'block fuel'
+    return f'reference: fixed (the study varies technology inputs only), {words} {shown}'
 
 
 #: Words for config key paths that studies and optimisations commonly vary.

@@ -51,13 +51,24 @@ def _label(path):
 
 
 def _statuses(rows):
+    columns = getattr(rows, 'columns', None)  # a map or Monte Carlo held as columns
+    if columns is not None and 'closed' in columns:
+        return [OK if closed else NOT_CLOSED for closed in columns['closed'].tolist()]
     return [point_status(r) for r in rows]
+
+
+def _values(rows, key):
+    """Return the ``key`` of every row as floats (NaN where a row has none)."""
+    column = getattr(rows, 'column', None)
+    if column is not None:
+        return np.asarray(column(key), dtype=float)
+    return np.array([r.get(key, math.nan) for r in rows], dtype=float)
 
 
 def _grid_arrays(axes, rows, key):
     paths = list(axes)
     ny, nx = len(axes[paths[0]]), len(axes[paths[1]])
-    z = np.array([r.get(key, math.nan) for r in rows], dtype=float).reshape(ny, nx)
+    z = _values(rows, key).reshape(ny, nx)
     status = np.array(_statuses(rows), dtype=object).reshape(ny, nx)
     closed = status != NOT_CLOSED
     _, x = _axis(paths[1], axes[paths[1]])
@@ -119,12 +130,8 @@ def _study_figures(kind, result, out_dir, config):
     try:
         axes = result.get('axes') or result.get('target_axes')
         # A map needs two values on each axis (a 1 x N grid has no area to draw).
-        if (
-            kind in ('map', 'targets')
-            and axes
-            and len(axes) == 2
-            and min(map(len, axes.values())) > 1
-        ):
+        grid = axes and len(axes) == 2 and all(len(v) >= 2 for v in axes.values())
+        if kind in ('map', 'targets') and grid:
             x, y, z, closed, ok, status = _grid_arrays(axes, rows, 'fuel_burn_change_percent')
             status = status if kind == 'targets' else None
             paths = list(axes)
@@ -231,11 +238,11 @@ def _study_figures(kind, result, out_dir, config):
         if kind == 'montecarlo':
             made.append(
                 plots.plot_histogram(
-                    [r.get('fuel_burn_change_percent', math.nan) for r in rows],
+                    _values(rows, 'fuel_burn_change_percent'),
                     os.path.join(out_dir, 'montecarlo.png'),
                     f'{_fuel_words(result)} change versus the reference [%]',
                     f'Monte Carlo over the technology inputs,\n{ANALYSIS_ONLY}',
-                    closed=[point_status(r) == OK for r in rows],
+                    closed=[status == OK for status in _statuses(rows)],
                     win_label='turbo-electric design wins',
                 )
             )

@@ -1,8 +1,9 @@
 """
 Trade studies: design-space maps and Monte Carlo over technology inputs.
 
-Each is evaluated as one vectorised model (see :mod:`voltwake.batch`) and compared with the
-conventional reference.
+Each is evaluated in chunks of vectorised models (see :mod:`voltwake.studies.chunked`) and
+compared with the conventional reference: the reference as configured, or, when the study
+varies inputs the reference shares, the reference at every point.
 """
 
 import csv
@@ -14,28 +15,12 @@ from openmdao.utils.units import convert_units
 
 from ..configuration.loader import field_at, load_config, parse_quantity
 from ..design.analysis import analyze
-from ..design.batch import analyze_points, full_factorial
+from ..design.batch import full_factorial
 from ..design.fields import fuel_burn_field
 from ..errors import ConfigError
-
-#: Fields written for every point of a study, with their units for the CSV header.
-POINT_FIELDS = {
-    'block_fuel_kg': 'kg',
-    'total_fuel_kg': 'kg',
-    'mtow_kg': 'kg',
-    'oew_kg': 'kg',
-    'cruise_lift_to_drag': '-',
-    'tsfc_g_per_kN_s': 'g/(kN*s)',
-    'overall_efficiency': '-',
-    'power_saving_coefficient': '-',
-    'aft_fan_diameter_m': 'm',
-    'aft_fan_shaft_power_kW': 'kW',
-    'electrical_mass_kg': 'kg',
-    'aft_fan_mass_kg': 'kg',
-    'engines_mass_kg': 'kg',
-    'electrical_chain_efficiency': '-',
-    'capture_height_m': 'm',
-}
+from .chunked import reference_follows, run_chunks
+from .csv_table import POINT_FIELDS, _cell, csv_header, csv_lines, points_units
+from .parallel import on_this_process
 
 
 def parse_axis(text, count_required=True):
@@ -103,27 +88,9 @@ def _point_fields(config):
     return list(POINT_FIELDS) + extra
 
 
-def _rows(batch, reference, field='block_fuel_kg'):
-    rows = []
-    ref_fuel = reference[field]
-    size = len(batch.closed)
-    for i in range(size):
-        row = {path: float(col[i]) for path, col in batch.inputs.items()}
-        row['closed'] = bool(batch.closed[i])
-        row['reason'] = batch.reasons[i] or ''
-        for key in batch.values:
-            row[key] = float(batch.values[key][i])
-        fuel = row[field]
-        row['fuel_burn_change_percent'] = (
-            100.0 * (fuel - ref_fuel) / ref_fuel if row['closed'] else float('nan')
-        )
-        rows.append(row)
-    return rows
-
-
-def design_space_map(config, axes):
+def design_space_map(config, axes, chunk_size=None, jobs=1, progress=None, sink=None):
     """
-    Analyse a full-factorial grid of design points as one vectorised model.
+    Analyse a full-factorial grid of design points, chunk by chunk.
 
     Parameters
     ----------
@@ -131,27 +98,65 @@ def design_space_map(config, axes):
         The base configuration.
     axes : dict
         Dotted config path -> 1-D sequence of values (SI); the first varies slowest.
+    chunk_size : int or None
+        Points per vectorised solve (default
+        :data:`voltwake.studies.chunked.DEFAULT_CHUNK_SIZE`).
+    jobs : int or None
+        Local processes over which the chunks run (None: all cores).
+    progress : callable or None
+        ``progress(done, not_closed, total, elapsed)`` in points, after every chunk.
+    sink : callable or None
+        ``sink(chunk_columns)`` for every chunk, in point order (e.g. the CSV writer).
 
     Returns
     -------
     dict
-        ``kind``, ``axes`` (path -> values), ``points`` (one row per point, including
-        ``closed`` and ``reason``), ``reference`` (the analysed conventional reference),
+        ``kind``, ``axes`` (path -> values), ``points`` (column -> array, including
+        ``closed`` and ``reason``), ``reference`` (the analysed conventional reference, or
+        None when it follows inputs of the map), ``reference_follows`` (those inputs),
         ``closure_rate`` and ``recovered`` (points closed by continuation).
     """
     config = load_config(config)
-    batch = analyze_points(config, full_factorial(axes), _point_fields(config))
-    reference = _reference(config)
+    run = _run_chunked(config, full_factorial(axes), chunk_size, jobs, progress, sink)
     return {
         'kind': 'map',
         'axes': {p: [float(v) for v in vals] for p, vals in axes.items()},
-        'points': _rows(batch, reference, fuel_burn_field(config)),
-        'fuel_burn_measured_on': fuel_burn_field(config),
-        'reference': reference,
-        'closure_rate': batch.closure_rate,
-        'recovered': batch.recovered,
+        **run,
         'design': config.name,
     }
+
+
+def _run_chunked(config, columns, chunk_size, jobs, progress, sink):
+    """Run a map or Monte Carlo in chunks; return its points and reference entries."""
+    field = fuel_burn_field(config)
+    follows = reference_follows(config, list(columns))
+    with on_this_process():
+        reference = None if follows else _reference(config)
+    run = run_chunks(
+        config,
+        columns,
+        _point_fields(config),
+        field,
+        reference,
+        chunk_size,
+        jobs,
+        progress,
+        sink,
+    )
+    points = run['columns']
+    closed = points.get('closed', np.zeros(0, dtype=bool))
+    out = {
+        'points': points,
+        'fuel_burn_measured_on': field,
+        'reference': reference,
+        'reference_follows': follows,
+        'closure_rate': float(np.mean(closed)) if closed.size else 1.0,
+        'recovered': run['recovered'],
+    }
+    if follows:
+        ref_closed = points.get('reference_closed', np.zeros(0, dtype=bool))
+        out['reference_closure_rate'] = float(np.mean(ref_closed)) if ref_closed.size else 1.0
+    return out
 
 
 def sample_distributions(distributions, samples, seed):
@@ -207,9 +212,11 @@ def sample_distributions(distributions, samples, seed):
     return out
 
 
-def monte_carlo(config, distributions, samples=1000, seed=1):
+def monte_carlo(
+    config, distributions, samples=1000, seed=1, chunk_size=None, jobs=1, progress=None, sink=None
+):
     """
-    Evaluate sampled technology inputs as one vectorised model against the reference.
+    Evaluate sampled technology inputs, chunk by chunk, against the reference.
 
     Parameters
     ----------
@@ -221,13 +228,16 @@ def monte_carlo(config, distributions, samples=1000, seed=1):
         Number of samples.
     seed : int
         Random seed.
+    chunk_size, jobs, progress, sink
+        As for :func:`design_space_map`.
 
     Returns
     -------
     dict
-        ``points``, ``reference``, the distribution of ``fuel_burn_change_percent``
-        (mean, standard deviation, percentiles 5/50/95) and ``probability_of_win``
-        (share of closed samples burning less fuel than the reference).
+        ``points`` (column -> array), ``reference`` (None when it follows sampled inputs),
+        ``reference_follows``, the distribution of ``fuel_burn_change_percent`` (mean,
+        standard deviation, percentiles 5/50/95) and ``probability_of_win`` (share of the
+        samples with a result that burn less fuel than their reference).
     """
     config = load_config(config)
     if not config.has_aft_fan:
@@ -236,10 +246,9 @@ def monte_carlo(config, distributions, samples=1000, seed=1):
             source=config.source,
         )
     columns = sample_distributions(distributions, samples, seed)
-    batch = analyze_points(config, columns, _point_fields(config))
-    reference = _reference(config)
-    rows = _rows(batch, reference, fuel_burn_field(config))
-    change = np.array([r['fuel_burn_change_percent'] for r in rows if r['closed']])
+    run = _run_chunked(config, columns, chunk_size, jobs, progress, sink)
+    change = run['points'].get('fuel_burn_change_percent', np.zeros(0))
+    change = change[np.isfinite(change)]
     stats = {}
     if change.size:
         stats = {
@@ -251,15 +260,12 @@ def monte_carlo(config, distributions, samples=1000, seed=1):
         }
     return {
         'kind': 'montecarlo',
-        'fuel_burn_measured_on': fuel_burn_field(config),
         'samples': samples,
         'seed': seed,
         'distributions': distributions,
-        'points': rows,
-        'reference': reference,
+        **run,
         'fuel_burn_change_percent': stats,
         'probability_of_win': float(np.mean(change < 0.0)) if change.size else float('nan'),
-        'closure_rate': batch.closure_rate,
         'design': config.name,
     }
 
@@ -270,8 +276,8 @@ def points_csv(rows, units=None, shown=None):
 
     Parameters
     ----------
-    rows : list of dict
-        One dict per point (same keys).
+    rows : list of dict or dict
+        One dict per point (same keys), or column -> array (one value per point).
     units : dict or None
         Column -> units shown in the header as ``name [units]``.
     shown : dict or None
@@ -284,6 +290,11 @@ def points_csv(rows, units=None, shown=None):
     str
         The CSV document.
     """
+    if isinstance(rows, dict):  # columns of arrays (a map or Monte Carlo)
+        if not rows or not len(next(iter(rows.values()))):
+            return ''
+        header, factors = csv_header(list(rows), units, shown)
+        return header + csv_lines(rows, factors)
     if not rows:
         return ''
     columns = list(rows[0])
@@ -304,46 +315,3 @@ def points_csv(rows, units=None, shown=None):
             ]
         )
     return buf.getvalue()
-
-
-def points_units(columns, units=None):
-    """
-    Return the units of the columns of a study's rows, as the CSV header shows them.
-
-    Parameters
-    ----------
-    columns : sequence of str
-        Column names: result fields, config key paths (also as ``target:<path>`` and
-        ``dv:<path>`` in a target sweep) and flags or text such as ``closed``, ``reason``.
-    units : dict or None
-        Column -> units, overriding the known ones.
-
-    Returns
-    -------
-    dict
-        Column -> units (``'-'`` for a dimensionless number), or None for a column without
-        units (flags, text, indices, model outputs named as targets).
-    """
-    known = {
-        **POINT_FIELDS,
-        'economic_block_fuel_kg': 'kg',
-        'fuel_burn_change_percent': '%',
-        **(units or {}),
-    }
-    out = {}
-    for column in columns:
-        if column in known:
-            out[column] = known[column] or None
-            continue
-        path = column.split(':', 1)[1] if column.startswith(('target:', 'dv:')) else column
-        field = field_at(path)
-        out[column] = (field.units or '-') if field is not None else None
-    return out
-
-
-def _cell(value):
-    if isinstance(value, float):
-        return 'nan' if math.isnan(value) else repr(value)
-    if isinstance(value, (list, tuple)):
-        return ';'.join(str(v) for v in value)
-    return value

@@ -22,6 +22,8 @@ import time
 
 #: Message tag of the per-item progress notes that ranks send to rank 0.
 _PROGRESS_TAG = 7411
+#: Message tag of the results that ranks stream to rank 0 (:func:`stream_jobs`).
+_RESULT_TAG = 7412
 
 
 def mpi_comm():
@@ -171,6 +173,115 @@ def map_jobs(func, items, jobs=None, progress=None, uncounted=0, on_result=None)
                 future.cancel()
             raise
     return results
+
+
+def stream_jobs(func, items, jobs=None):
+    """
+    Apply ``func`` to every item, in parallel, yielding the results in item order.
+
+    The streaming form of :func:`map_jobs`: each result is yielded as soon as it and every
+    result before it are available, so that the caller can write them out (and drop them)
+    while later items still run. Without MPI the items go to ``jobs`` local processes (at
+    most two items ahead of the one awaited per process are queued, so that finished
+    results wait in memory only briefly); with ``jobs=1`` (or a single item) they run in
+    this process, one at a time as the caller asks for them. Under MPI with more than one
+    rank, rank ``r`` runs items ``r, r + size, ...`` and sends each result to rank 0, which
+    runs its own share in turn and yields every result in order; on the other ranks the
+    generator yields nothing. All ranks must iterate it together.
+
+    Parameters
+    ----------
+    func : callable
+        A picklable top-level function of one item. Results must be picklable.
+    items : sequence
+        The items (picklable).
+    jobs : int or None
+        Local processes; None for ``os.cpu_count()``.
+
+    Yields
+    ------
+    object
+        ``func(item)`` for every item, in item order (on rank 0 only under MPI).
+    """
+    items = list(items)
+    comm = mpi_comm()
+    if comm is not None:
+        yield from _stream_mpi(comm, func, items)
+        return
+    jobs = (os.cpu_count() or 1) if jobs is None else int(jobs)
+    if jobs < 1:
+        raise ValueError(f'jobs must be at least 1; got {jobs}')
+    if jobs == 1 or len(items) <= 1:
+        for item in items:
+            with _one_blas_thread():
+                result = func(item)
+            yield result
+        return
+    workers = min(jobs, len(items))
+    pool = concurrent.futures.ProcessPoolExecutor(
+        max_workers=workers, mp_context=_pool_context(), initializer=_init_worker
+    )
+    futures = {}
+    try:
+        ahead = 0
+        for index in range(len(items)):
+            while ahead < len(items) and ahead < index + 2 * workers:
+                futures[ahead] = pool.submit(_call, func, items[ahead])
+                ahead += 1
+            yield futures.pop(index).result()
+    finally:
+        for future in futures.values():
+            future.cancel()
+        pool.shutdown(wait=True, cancel_futures=True)
+
+
+def on_this_process():
+    """
+    Return a context in which OpenMDAO problems built here stay on this process.
+
+    Under MPI a problem built without a communicator takes ``MPI.COMM_WORLD`` (every rank);
+    a problem that each rank builds for itself, such as the reference of a map, needs its
+    own. Without MPI the context does nothing.
+
+    Returns
+    -------
+    contextlib.AbstractContextManager
+        The context.
+    """
+    if mpi_comm() is None:
+        return contextlib.nullcontext()
+    from mpi4py import MPI
+
+    return _problems_on_this_rank(MPI)
+
+
+def _stream_mpi(comm, func, items):
+    """Run this rank's share of the items; rank 0 yields every result in item order."""
+    from mpi4py import MPI
+
+    rank, size = comm.rank, comm.size
+    sends = []
+    with _problems_on_this_rank(MPI):
+        if rank != 0:
+            for index in range(rank, len(items), size):
+                try:
+                    message = (_call(func, items[index]), None)
+                except Exception as exc:  # noqa: BLE001 - raised on rank 0
+                    message = (None, exc)
+                sends.append(comm.isend(message, dest=0, tag=_RESULT_TAG))
+                if message[1] is not None:
+                    break
+            MPI.Request.waitall(sends)
+            return
+        for index in range(len(items)):
+            owner = index % size
+            if owner == 0:
+                result = _call(func, items[index])
+            else:
+                result, error = comm.recv(source=owner, tag=_RESULT_TAG)
+                if error is not None:
+                    raise error
+            yield result
 
 
 class _Counter:

@@ -87,6 +87,63 @@ def points_arrays(rows):
     return out
 
 
+class PointRows:
+    """
+    The points of a study held as columns, seen as a sequence of row dicts.
+
+    A map or Monte Carlo keeps one numpy array per column (a 100,000-point map costs little
+    beyond its CSV); code that reads rows gets each row built on demand.
+
+    Parameters
+    ----------
+    columns : dict
+        Column -> 1-D array, all of one length.
+    """
+
+    def __init__(self, columns):
+        self.columns = columns
+        self._size = len(next(iter(columns.values()))) if columns else 0
+
+    def __len__(self):
+        """Return the number of points."""
+        return self._size
+
+    def __getitem__(self, index):
+        """Return the row of point ``index`` (Python values), or a list for a slice."""
+        if isinstance(index, slice):
+            return [self[i] for i in range(*index.indices(self._size))]
+        return {
+            column: values[index].item() if hasattr(values[index], 'item') else values[index]
+            for column, values in self.columns.items()
+        }
+
+    def __iter__(self):
+        """Iterate over the rows."""
+        lists = {column: values.tolist() for column, values in self.columns.items()}
+        for i in range(self._size):
+            yield {column: values[i] for column, values in lists.items()}
+
+    def column(self, name, default=float('nan')):
+        """
+        Return one column as an array (``default`` everywhere when the study has none).
+
+        Parameters
+        ----------
+        name : str
+            The column.
+        default : object
+            The value of every point when the column is missing.
+
+        Returns
+        -------
+        ndarray
+            One value per point.
+        """
+        if name in self.columns:
+            return self.columns[name]
+        return np.full(self._size, default)
+
+
 @dataclass(repr=False, eq=False)
 class StudyResult:
     """
@@ -121,9 +178,16 @@ class StudyResult:
     units: dict = field(init=False)
 
     def __post_init__(self):
-        """Build the per-point arrays and their units from the rows."""
-        self.points = points_arrays(self.rows)
+        """Build the per-point arrays and their units from the rows (or take the columns)."""
+        if isinstance(self.rows, dict):  # columns of a map or Monte Carlo
+            self.points = self.rows
+            self.rows = PointRows(self.points)
+        elif isinstance(self.rows, PointRows):
+            self.points = self.rows.columns
+        else:
+            self.points = points_arrays(self.rows)
         self.units = points_units(list(self.points), None)
+        self.streamed = None
 
     @classmethod
     def from_study(cls, raw, config):
@@ -142,7 +206,13 @@ class StudyResult:
         StudyResult
             The result object.
         """
-        rows = raw.pop('points', None) or []
+        rows = raw.pop('points', None)
+        if isinstance(rows, dict):  # columns: a map or Monte Carlo
+            closed = rows.get('closed', np.zeros(0, dtype=bool))
+            raw['points_count'] = int(len(closed))
+            raw['closed_count'] = int(np.count_nonzero(closed))
+            return cls(rows, raw, config)
+        rows = rows or []
         raw['points_count'] = len(rows)
         raw['closed_count'] = sum(bool(r.get('closed', r.get('success'))) for r in rows)
         return cls(rows, raw, config)
@@ -170,6 +240,8 @@ class StudyResult:
         str
             One row per point, units in the header (empty for a study without points).
         """
+        if isinstance(self.rows, PointRows):
+            return points_csv(self.points, shown=self._written())
         return points_csv(self.rows, shown=self._written())
 
     def _written(self):
@@ -227,8 +299,11 @@ class StudyResult:
             The files written.
         """
         written = []
-        if self.rows:
-            written.append(self.to_csv(os.path.join(out_dir, f'{self.name}_points.csv')))
+        csv_path = os.path.join(out_dir, f'{self.name}_points.csv')
+        if self.streamed and os.path.abspath(self.streamed) == os.path.abspath(csv_path):
+            written.append(csv_path)  # written chunk by chunk as the study ran
+        elif self.rows:
+            written.append(self.to_csv(csv_path))
         self.data['points'] = self.rows
         try:
             plots = study_figures(self.data.get('kind', self.name), self.data, out_dir, self.config)
@@ -292,7 +367,9 @@ class DesignMapResult(StudyResult):
 
     ``points`` holds the axes' inputs, ``closed`` and ``reason`` per point, the result
     fields (``block_fuel_kg``, ``power_saving_coefficient``...) and
-    ``fuel_burn_change_percent`` against the conventional reference as configured.
+    ``fuel_burn_change_percent`` against the conventional reference as configured, or,
+    when an axis is an input the reference shares (:attr:`reference_follows`), against the
+    reference at each point's values (``reference_block_fuel_kg``, ``reference_closed``).
     """
 
     name = 'map'
@@ -309,8 +386,13 @@ class DesignMapResult(StudyResult):
 
     @property
     def reference(self):
-        """Result fields of the analysed conventional reference."""
+        """Result fields of the analysed conventional reference (None when it follows)."""
         return self.data['reference']
+
+    @property
+    def reference_follows(self):
+        """Inputs of the map the reference shares and is analysed at, point by point."""
+        return list(self.data.get('reference_follows') or [])
 
 
 @dataclass(repr=False, eq=False)
@@ -393,3 +475,8 @@ class MonteCarloResult(StudyResult):
     def fuel_burn_change_percent(self):
         """``mean``, ``std``, ``p05``, ``p50``, ``p95`` of the fuel-burn change [%]."""
         return self.data['fuel_burn_change_percent']
+
+    @property
+    def reference_follows(self):
+        """Sampled inputs the reference shares and is analysed at, sample by sample."""
+        return list(self.data.get('reference_follows') or [])

@@ -12,6 +12,7 @@ HTML report under ``--out``.
 import difflib
 import math
 import numbers
+import os
 from collections.abc import Mapping
 
 import numpy as np
@@ -33,6 +34,7 @@ from ..outputs.summary import ANALYSIS_ONLY
 from .breakeven import breakeven as _breakeven
 from .breakeven import no_breakeven_message
 from .breakeven_optimum import explain_breakeven
+from .chunked import chunk_size_or_error, stream_to_csv
 from .figures import study_figures as _plots  # noqa: F401 - the name earlier callers use
 from .maps import design_space_map, parse_axis
 from .maps import monte_carlo as _monte_carlo
@@ -390,7 +392,7 @@ def _check_optimize(config, samples):
         )
 
 
-def run_sweep(config, spec, jobs=None, out_dir=None, progress=None):
+def run_sweep(config, spec, jobs=None, out_dir=None, progress=None, chunk_size=None):
     """
     Run every study of ``spec`` and write its outputs.
 
@@ -405,7 +407,12 @@ def run_sweep(config, spec, jobs=None, out_dir=None, progress=None):
     out_dir : str or None
         Results directory (already prepared), or None to write nothing.
     progress : callable or None
-        ``progress(done, failed, total, elapsed)`` for the optimisations.
+        ``progress(done, failed, total, elapsed)`` for the optimisations (and, in points,
+        after every chunk of a map or Monte Carlo).
+    chunk_size : int or None
+        Points per vectorised solve of a map or Monte Carlo (default
+        :data:`voltwake.studies.chunked.DEFAULT_CHUNK_SIZE`); their rows are appended to
+        the CSV under ``out_dir`` chunk by chunk.
 
     Returns
     -------
@@ -421,28 +428,47 @@ def run_sweep(config, spec, jobs=None, out_dir=None, progress=None):
         if kind == 'uncertainty' and spec['uncertainty'].get('optimize'):
             name = 'montecarlo_optimized'
         try:
-            result = _run_study(kind, config, spec, jobs, progress)
+            result = _run_study(
+                kind, config, spec, jobs, progress, out_dir=out_dir, chunk_size=chunk_size
+            )
         except InterruptedRun as stop:
             # A study that keeps its finished points (the re-optimised Monte Carlo) hands
             # them over: its CSV and a summary with status 'partial'.
             if out_dir and isinstance(stop.partial, StudyResult):
                 stop.partial.write_files(out_dir)
             raise
-        except KeyboardInterrupt:
+        except KeyboardInterrupt as stop:
+            partial = getattr(stop, 'partial', None)
             if out_dir:
+                message = (
+                    f'interrupted by the user during the {kind} study; the '
+                    'studies before it are complete, this one has no results'
+                )
+                if partial:
+                    message = (
+                        f'interrupted by the user during the {kind} study after '
+                        f"{partial['points_done']} of {partial['points_total']} points; the "
+                        f'finished chunks are in {name}_points.csv'
+                    )
                 write_results(
                     out_dir,
                     f'{name}_summary',
                     {
                         'status': 'partial',
                         'kind': kind,
-                        'message': f'interrupted by the user during the {kind} study; the '
-                        'studies before it are complete, this one has no results',
+                        'message': message,
+                        **(partial or {}),
                         'completed_studies': list(summaries),
                     },
                 )
+            after = (
+                f" after {partial['points_done']} of {partial['points_total']} points"
+                if partial
+                else ''
+            )
             raise InterruptedRun(
-                f'sweep interrupted during the {kind} study', {'completed_studies': list(summaries)}
+                f'sweep interrupted during the {kind} study{after}',
+                {'completed_studies': list(summaries)},
             ) from None
         summaries[name] = result.data
         if out_dir:
@@ -452,13 +478,56 @@ def run_sweep(config, spec, jobs=None, out_dir=None, progress=None):
     return summaries
 
 
-def _run_study(kind, config, spec, jobs, progress, xtol=None):
-    """Run one study of ``spec`` (values in SI) and return its result object."""
+def _points_sink(out_dir, name, config, spec, written):
+    """Return the CSV writer of a chunked study under ``out_dir`` (None without one)."""
+    if not out_dir:
+        return None
+    shown = {**written, **{f'target:{p}': u for p, u in written.items()}}
+    return stream_to_csv(os.path.join(out_dir, f'{name}_points.csv'), None, shown)
+
+
+def _run_chunked_study(kind, config, spec, jobs, progress, out_dir, chunk_size):
+    """Run a map or an analysis-only Monte Carlo in chunks, its rows streamed to CSV."""
     written = spec.get('axis_units') or {}
     if kind == 'map':
-        result = design_space_map(config, spec['map'])
-        result['axis_units'] = {p: u for p, u in written.items() if p in spec['map']}
-        return DesignMapResult.from_study(result, config)
+        written = {p: u for p, u in written.items() if p in spec['map']}
+    else:
+        unc = spec['uncertainty']
+        written = {
+            path: unit
+            for path, shape in unc['distributions'].items()
+            if isinstance(shape, Mapping)
+            for unit in [_written_units([v for params in shape.values() for v in _as_list(params)])]
+            if unit
+        }
+    name = 'map' if kind == 'map' else 'montecarlo'
+    sink = _points_sink(out_dir, name, config, spec, written)
+    options = {'chunk_size': chunk_size, 'jobs': jobs, 'progress': progress, 'sink': sink}
+    try:
+        if kind == 'map':
+            result = design_space_map(config, spec['map'], **options)
+        else:
+            result = _monte_carlo(
+                config, unc['distributions'], unc['samples'], unc['seed'], **options
+            )
+    finally:
+        if sink is not None:
+            sink.close()
+    result['axis_units'] = written
+    if kind != 'map':
+        result['analysis'] = ANALYSIS_ONLY
+    cls = DesignMapResult if kind == 'map' else MonteCarloResult
+    study = cls.from_study(result, config)
+    if sink is not None:
+        study.streamed = os.path.join(out_dir, f'{name}_points.csv')
+    return study
+
+
+def _run_study(kind, config, spec, jobs, progress, xtol=None, out_dir=None, chunk_size=None):
+    """Run one study of ``spec`` (values in SI) and return its result object."""
+    written = spec.get('axis_units') or {}
+    if kind == 'map' or (kind == 'uncertainty' and not spec['uncertainty'].get('optimize')):
+        return _run_chunked_study(kind, config, spec, jobs, progress, out_dir, chunk_size)
     if kind == 'targets':
         result = _target_sweep(config, spec['targets'], jobs=jobs, progress=progress)
         result['axis_units'] = {p: u for p, u in written.items() if p in spec['targets']}
@@ -496,20 +565,15 @@ def _run_study(kind, config, spec, jobs, progress, xtol=None):
         for unit in [_written_units([v for params in shape.values() for v in _as_list(params)])]
         if unit
     }
-    if unc.get('optimize'):
-        return optimized_monte_carlo(
-            config,
-            unc['distributions'],
-            unc['samples'],
-            unc['seed'],
-            jobs=jobs,
-            progress=progress,
-            written=written,
-        )
-    result = _monte_carlo(config, unc['distributions'], unc['samples'], unc['seed'])
-    result['analysis'] = ANALYSIS_ONLY
-    result['axis_units'] = written
-    return MonteCarloResult.from_study(result, config)
+    return optimized_monte_carlo(
+        config,
+        unc['distributions'],
+        unc['samples'],
+        unc['seed'],
+        jobs=jobs,
+        progress=progress,
+        written=written,
+    )
 
 
 def _as_list(params):
@@ -547,13 +611,15 @@ def _add_display(result, units):
 # --- The studies from Python -----------------------------------------------------------------
 
 
-def design_map(config, axes, overrides=None):
+def design_map(config, axes, overrides=None, chunk_size=None, jobs=1):
     """
-    Analyse a full-factorial grid of designs as one vectorised model (a design-space map).
+    Analyse a full-factorial grid of designs in vectorised chunks (a design-space map).
 
     The same study as ``voltwake sweep --map``: every point is sized (analysis only, no
-    optimisation) and compared with the conventional reference as configured; points that
-    do not close keep their row with the reason.
+    optimisation) and compared with the conventional reference as configured, or, when an
+    axis is an input the reference shares (``mission.range``...), with the reference at that
+    point's values (``reference_follows`` in the summary); points that do not close keep
+    their row with the reason.
 
     Parameters
     ----------
@@ -567,16 +633,23 @@ def design_map(config, axes, overrides=None):
         Full factorial; the first axis varies slowest.
     overrides : dict or None
         Config key path -> value applied to the configuration first.
+    chunk_size : int or None
+        Points per vectorised solve (default
+        :data:`voltwake.studies.chunked.DEFAULT_CHUNK_SIZE`); the numbers do not depend on
+        it.
+    jobs : int or None
+        Local processes over which the chunks run (default 1; None for all cores).
 
     Returns
     -------
     DesignMapResult
         Per-point arrays with their units, the summary, ``to_csv`` and ``write``.
     """
+    chunk_size = chunk_size_or_error(chunk_size, 'chunk_size')
     config = load_config(config, overrides)
     written = {}
     spec = {'map': _axes(config, axes, 'design_map', 'map', written), 'axis_units': written}
-    return _run_study('map', config, spec, None, None)
+    return _run_study('map', config, spec, jobs, None, chunk_size=chunk_size)
 
 
 def target_sweep(config, targets, jobs=None, progress=None, overrides=None):
@@ -672,6 +745,7 @@ def monte_carlo(
     distributions=None,
     overrides=None,
     optimize=False,
+    chunk_size=None,
     jobs=None,
     progress=None,
 ):
@@ -702,11 +776,13 @@ def monte_carlo(
         Config key path -> value applied to the configuration first.
     optimize : bool
         Re-optimise both aircraft at every sample (needs an ``optimization`` section).
+    chunk_size : int or None
+        Samples per vectorised solve of the analysis-only study (see :func:`design_map`).
     jobs : int or None
-        Local processes for the optimisations (default: all cores); the rows do not depend
-        on it.
+        Local processes: for the optimisations with ``optimize`` (default: all cores), else
+        over which the chunks run (default: this process). The rows do not depend on it.
     progress : callable or None
-        ``progress(done, failed, total, elapsed)`` after each optimisation.
+        ``progress(done, failed, total, elapsed)`` after each optimisation, or each chunk.
 
     Returns
     -------
@@ -715,6 +791,9 @@ def monte_carlo(
         per-point arrays with their units, the summary, ``to_csv`` and ``write``; with
         ``optimize``, also ``probability_of_win_interval`` and per sample its ``status``.
     """
+    chunk_size = chunk_size_or_error(chunk_size, 'chunk_size')
+    if jobs is None and not optimize:
+        jobs = 1
     config = load_config(config, overrides)
     where = {'source': 'monte_carlo'}
     if optimize and 'optimization.design_variables' not in config.values:
@@ -737,7 +816,7 @@ def monte_carlo(
         # The config's section, checked as `voltwake sweep` checks it (file, line, key).
         spec = {'uncertainty': _uncertainty_from_spec(config, study['uncertainty'], samples, seed)}
         spec['uncertainty']['optimize'] = bool(optimize)
-        return _run_study('uncertainty', config, spec, jobs, progress)
+        return _run_study('uncertainty', config, spec, jobs, progress, chunk_size=chunk_size)
     if not isinstance(distributions, Mapping) or not distributions:
         raise ConfigError(
             f'got {distributions!r}; expected a mapping of config key paths to distributions',
@@ -756,7 +835,7 @@ def monte_carlo(
             'optimize': bool(optimize),
         }
     }
-    return _run_study('uncertainty', config, spec, jobs, progress)
+    return _run_study('uncertainty', config, spec, jobs, progress, chunk_size=chunk_size)
 
 
 def _axes(config, axes, source, kind, written=None):

@@ -70,6 +70,9 @@ def _map_study(data, rows, figures):
             'marked on the maps and listed with the reason in the CSV file.</p>'
         )
     body.append(figures.take('map_fuel_change.png', 'map_psc.png'))
+    follows = data.get('reference_follows') or []
+    if follows:
+        body.append(_following_note(follows, 'point'))
     best = _best(rows)
     ref = data.get('reference') or {}
     if best is not None and ref:
@@ -94,6 +97,7 @@ def _map_study(data, rows, figures):
             'continuation)',
         ),
         ('analysis', 'the configured design analysed at every point (not re-optimised)'),
+        ('reference', _reference_words(follows)),
     ]
     body.append('<h3>Inputs of the map</h3>')
     body.append(_key_values(pairs))
@@ -104,11 +108,42 @@ def _map_study(data, rows, figures):
         'Design-space map',
         headline,
         _fuel_words(field, config),
-        'the conventional reference as configured (not optimised)',
+        _compared_with(data),
         '\n'.join(body),
         config,
         sentence,
     )
+
+
+def _reference_words(follows):
+    """Say which reference a map or Monte Carlo compares every point with."""
+    if follows:
+        names = ', '.join(f'{input_label(p)} ({p})' for p in follows)
+        return (
+            f'the conventional reference as configured, re-analysed at every point with its '
+            f'{names}: each point against its own reference'
+        )
+    return (
+        'the conventional reference as configured, one for all points (the study varies '
+        'technology inputs only)'
+    )
+
+
+def _following_note(follows, what):
+    """Return the note that the reference follows inputs of the study (HTML)."""
+    names = ', '.join(_esc(input_label(p)) for p in follows)
+    return (
+        f'<p class="note">The study varies inputs the conventional reference shares ({names}): '
+        f'the reference is analysed at every {what} with the same values, and each change is '
+        f"against that {what}'s own reference (its block fuel is in the CSV file).</p>"
+    )
+
+
+def _compared_with(data):
+    """Return the words of the reference a map or Monte Carlo is compared with."""
+    if data.get('reference_follows'):
+        return 'the conventional reference as configured, re-analysed at every point'
+    return 'the conventional reference as configured (not optimised)'
 
 
 def _distribution_text(spec):
@@ -152,6 +187,8 @@ def _montecarlo_study(data, rows, figures):
         headline = 'no sample closed'
         sentence = 'No Monte Carlo sample closed.'
     body = [f'<p>{sentence}</p>']
+    if data.get('reference_follows'):
+        body.append(_following_note(data['reference_follows'], 'sample'))
     body.append(figures.take('montecarlo.png'))
     srows = [
         [
@@ -186,6 +223,7 @@ def _montecarlo_study(data, rows, figures):
                 ('samples', str(samples)),
                 ('seed', str(data.get('seed', NONE))),
                 ('analysis', f'{ANALYSIS_ONLY}: the configured design analysed at every sample'),
+                ('reference', _reference_words(data.get('reference_follows') or [])),
             ]
         )
     )
@@ -196,7 +234,7 @@ def _montecarlo_study(data, rows, figures):
         f'Monte Carlo, {ANALYSIS_ONLY}',
         headline,
         _fuel_words(field, config),
-        'the conventional reference as configured (not optimised)',
+        _compared_with(data),
         '\n'.join(body),
         config,
         sentence,
