@@ -381,10 +381,13 @@ class OptimizationResult:
         Returns
         -------
         dict
-            Every field but ``problem``.
+            Every field but ``problem``; ``status`` is given as ``outcome`` ('optimum',
+            'infeasible' or 'failed'), since the ``status`` of a results file says whether
+            the run is 'complete' or 'partial'.
         """
         out = dataclasses.asdict(dataclasses.replace(self, problem=None))
         out.pop('problem')
+        out['outcome'] = out.pop('status')
         return out
 
 
