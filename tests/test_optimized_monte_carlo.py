@@ -328,3 +328,25 @@ def test_map_jobs_hands_every_result_over_as_it_finishes(jobs):
     seen = {}
     results = map_jobs(abs, [-3, -1, -2], jobs=jobs, on_result=seen.__setitem__)
     assert results == [3, 1, 2] and seen == {0: 3, 1: 1, 2: 2}
+
+
+def test_mpi_ranks_give_the_csv_of_one_process(tmp_path):
+    import shutil
+
+    pytest.importorskip('mpi4py')
+    local = os.path.join(os.path.dirname(sys.executable), 'mpiexec')
+    mpiexec = local if os.access(local, os.X_OK) else shutil.which('mpiexec')
+    if mpiexec is None:
+        pytest.skip('no mpiexec')
+    env = dict(os.environ, OPENMDAO_REPORTS='0')
+    args = ['-m', 'voltwake.cli', 'sweep', DEMO, '--monte-carlo', '3', '--optimize']
+    runs = {}
+    for name, launch in (('serial', []), ('mpi', [mpiexec, '-n', '2'])):
+        cmd = [*launch, sys.executable, *args, '--out', str(tmp_path / name)]
+        if name == 'serial':
+            cmd += ['--jobs', '1']
+        run = subprocess.run(cmd, capture_output=True, text=True, env=env, timeout=600)
+        assert run.returncode == 0, run.stderr[-2000:]
+        runs[name] = (tmp_path / name / 'montecarlo_optimized_points.csv').read_text()
+    # The samples are dealt over the ranks; rank 0 writes the same rows as one process.
+    assert runs['mpi'] == runs['serial'] and len(runs['serial'].splitlines()) == 4
