@@ -69,7 +69,8 @@ def read_points(path):
 CAPTIONS = {
     'map_fuel_change.png': 'Fuel-burn change of the turbo-electric design against the '
     'conventional reference over the map: blue is a saving, red a penalty, white and the bold '
-    'line labelled break-even mark no change, and grey symbols mark points without a result.',
+    'line labelled break-even mark no change, and dark crosses mark designs that did not '
+    'close.',
     'map_psc.png': 'Power saving coefficient of the aft fan over the map (against a clean '
     'free-stream fan of the same thrust and pressure ratio): read where ingestion pays most; '
     'it is an upper estimate (see the assumptions).',
@@ -83,8 +84,10 @@ CAPTIONS = {
     'samples, between its bounds (dashed): a pile-up at a bound means the bound, not the '
     'technology, holds the optimum.',
     'targets_fuel_change.png': 'Fuel-burn change of the design optimised at each target '
-    'against the optimised conventional reference: blue is a saving, red a penalty; grey '
-    'symbols mark optimisations without a feasible optimum and designs that did not close.',
+    'against the optimised conventional reference: blue is a saving, red a penalty; hatched '
+    'cells with purple circles have no feasible design (the summary names the constraints '
+    'that bind there), red squares mark optimiser failures and dark crosses designs that '
+    'did not close.',
     'targets_psc.png': 'Power saving coefficient of the aft fan at each optimised target '
     'point: read how much shaft power ingestion saves where the optimiser put the design.',
     'targets_mass_breakdown.png': 'Masses of the best target point beside the optimised '
