@@ -53,21 +53,56 @@ def parse_axis(text, count_required=True):
             **where,
         )
     lower, upper = (
-        parse_quantity(p.strip(), field.units, where, key=path) if field.units else _float(p, where)
+        parse_quantity(p.strip(), field.units, where, key=path)
+        if field.units
+        else axis_number(p, where)
         for p in parts[:2]
     )
-    count = None
-    if len(parts) == 3:
-        try:
-            count = int(parts[2])
-        except ValueError:
-            count = 0
-        if count < 1:
-            raise ConfigError(f'got {parts[2]!r} points; expected a whole number >= 1', **where)
+    count = axis_count(parts[2], where) if len(parts) == 3 else None
     return path, lower, upper, count
 
 
-def _float(text, where):
+def axis_count(text, where):
+    """
+    Return the ``N`` of an axis ``LO:HI:N`` as a whole number >= 1, or raise.
+
+    Parameters
+    ----------
+    text : str
+        The count as written.
+    where : dict
+        The ConfigError keywords (source, path).
+
+    Returns
+    -------
+    int
+        The number of points.
+    """
+    try:
+        count = int(text)
+    except ValueError:
+        count = 0
+    if count < 1:
+        raise ConfigError(f'got {text!r} points; expected a whole number >= 1', **where)
+    return count
+
+
+def axis_number(text, where):
+    """
+    Return an axis end written without units as a finite float, or raise.
+
+    Parameters
+    ----------
+    text : str
+        The number as written.
+    where : dict
+        The ConfigError keywords (source, path).
+
+    Returns
+    -------
+    float
+        The value.
+    """
     try:
         value = float(text)
     except ValueError:
@@ -199,7 +234,9 @@ def sample_distributions(distributions, samples, seed):
                 **where,
             )
         vals = [
-            parse_quantity(p, field.units, where, key=path) if field.units else _float(p, where)
+            parse_quantity(p, field.units, where, key=path)
+            if field.units
+            else axis_number(p, where)
             for p in params
         ]
         if vals != sorted(vals) or vals[0] == vals[-1]:

@@ -20,6 +20,7 @@ from ..design.fields import fuel_burn_field
 from ..design.optimization import optimize
 from ..design.sizing import build_model_problem
 from ..errors import ConfigError
+from .maps import axis_count, axis_number
 from .parallel import map_jobs
 
 #: Result fields copied into every row (NaN for a failed point).
@@ -209,27 +210,12 @@ def output_axis(config, text):
         raise ConfigError(f'got {text!r}; expected PATH=LO:HI:N', **where)
     units = _check_outputs(config, [name], source='command line')[name]
     lower, upper = (
-        parse_quantity(p.strip(), units, where, check_bare=False) if units else _number(p, where)
+        parse_quantity(p.strip(), units, where, check_bare=False)
+        if units
+        else axis_number(p, where)
         for p in parts[:2]
     )
-    try:
-        count = int(parts[2])
-    except ValueError:
-        count = 0
-    if count < 1:
-        raise ConfigError(f'got {parts[2]!r} points; expected a whole number >= 1', **where)
-    return name, lower, upper, count, units
-
-
-def _number(text, where):
-    """Return ``text`` as a finite float, or raise."""
-    try:
-        value = float(text)
-    except ValueError:
-        raise ConfigError(f'got {text!r}; expected a number', **where) from None
-    if not math.isfinite(value):
-        raise ConfigError(f'got {text!r}; expected a finite number', **where)
-    return value
+    return name, lower, upper, axis_count(parts[2], where), units
 
 
 def optimize_job(job):
